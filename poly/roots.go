@@ -18,10 +18,15 @@ type Root struct {
 }
 
 // Roots returns the roots of p repeated by multiplicity, in the
-// deterministic order of SortRoots. Real roots have an imaginary part of
-// exactly zero and complex roots come in exact conjugate pairs.
-// It returns ErrZeroPolynomial for the zero polynomial and ErrNotFinite when
-// a coefficient is not finite. A constant has no roots.
+// deterministic order of SortRoots (ascending real part, then imaginary
+// part). Real roots have an imaginary part of exactly zero, complex roots
+// come in exact conjugate pairs, and a multiple root is repeated with
+// exactly the same value. See RootsWithSettings for the method and its
+// accuracy.
+//
+// It returns ErrZeroPolynomial for the zero polynomial, ErrNotFinite when a
+// coefficient is not finite and ErrNoConvergence if the eigenvalue solver
+// fails. A non-zero constant has no roots (an empty slice).
 func (p Poly) Roots() ([]complex128, error) {
 	rs, err := p.RootsWithMultiplicity()
 	if err != nil {
@@ -37,8 +42,85 @@ func (p Poly) Roots() ([]complex128, error) {
 }
 
 // RootsWithMultiplicity returns the distinct roots of p with their
-// multiplicities, in the order of SortRoots.
+// multiplicities, in the order of SortRootSet; the multiplicities add up to
+// the degree. It is RootsWithSettings(nil).
 func (p Poly) RootsWithMultiplicity() ([]Root, error) {
+	return p.RootsWithSettings(nil)
+}
+
+// RootSettings tunes RootsWithSettings. A nil *RootSettings and the zero
+// value mean the defaults.
+type RootSettings struct {
+	// ClusterTolerance is the componentwise relative backward error up to
+	// which a cluster of computed roots is reported as one multiple root:
+	// the cluster is merged into an m-fold root c only if some polynomial
+	// with coefficients aᵢ(1+tᵢ), |tᵢ| ≤ ClusterTolerance, has c as an
+	// m-fold root (see the comment at the top of cluster.go). Valid range:
+	// negative (recognition off: every root is reported with multiplicity
+	// 1, except an exactly double root of a quadratic and exact zero roots)
+	// or [0, 1e-3]. If zero, defaults to 8u = 8·2⁻⁵³ ≈ 8.9e-16.
+	ClusterTolerance float64
+}
+
+func (s *RootSettings) validate() error {
+	if s == nil {
+		return nil
+	}
+	if math.IsNaN(s.ClusterTolerance) || s.ClusterTolerance > 1e-3 {
+		return fmt.Errorf("%w: RootSettings.ClusterTolerance is %v, want a negative number (off) or at most 1e-3", ErrBadTolerance, s.ClusterTolerance)
+	}
+	return nil
+}
+
+func (s *RootSettings) clusterTolerance() float64 {
+	switch {
+	case s == nil || s.ClusterTolerance == 0:
+		return defaultClusterTolerance
+	case s.ClusterTolerance < 0:
+		return 0
+	}
+	return s.ClusterTolerance
+}
+
+// RootsWithSettings returns the distinct roots of p with their
+// multiplicities, in the order of SortRootSet, under the settings s (nil
+// means the defaults).
+//
+// Method. Trailing zero coefficients give exact zero roots. Degree 1 and 2
+// use closed forms (the quadratic one free of cancellation, with Kahan's
+// fused multiply–add discriminant). From degree 3 on, the starting values
+// are the eigenvalues of the balanced companion matrix (gonum's mat.Eigen;
+// backward stable in the coefficients by Edelman & Murakami 1995), after
+// an exact power-of-two scaling of the variable. They are refined all
+// together by the Ehrlich–Aberth iteration (Aberth 1973) whose residual is
+// evaluated by the compensated Horner scheme (Graillat, Langlois & Louvet
+// 2005), as if in twice the working precision; a simple root whose residual
+// remains too noisy (uncertainty above 8 ulps) gets further Newton steps
+// with the residual evaluated in math/big at 256 bits. Clusters are then
+// tested for being a multiple root (Kahan 1972, Zeng 2004; cluster.go): an
+// accepted m-fold root is reported once, at the simple root of p⁽ᵐ⁻¹⁾ near
+// the cluster, with multiplicity m. Finally roots within their uncertainty
+// of the real axis are made exactly real and the others exact conjugate
+// pairs.
+//
+// Accuracy. A simple root r is found to within a few units of its last
+// place plus cond·u², where cond·u = u·p̃(|r|)/|p′(r)| is its first-order
+// sensitivity to relative coefficient changes of u: that is, to the
+// accuracy the double-precision coefficients allow, not the far lower
+// accuracy of the eigenvalues (measured: 3.6e-3 relative on Wilkinson's
+// degree-20 polynomial from the eigenvalues alone, below 1e-15 after
+// refinement; see the package tests). A recognised multiple root is found
+// to a few ulps when it is exact in the coefficients. The normwise backward
+// error of the root set (RootsBackwardError) stays at a few u on random
+// polynomials up to degree 50.
+//
+// It returns ErrZeroPolynomial for the zero polynomial, ErrNotFinite when a
+// coefficient is not finite, ErrBadTolerance for invalid settings and
+// ErrNoConvergence if the eigenvalue solver fails.
+func (p Poly) RootsWithSettings(s *RootSettings) ([]Root, error) {
+	if err := s.validate(); err != nil {
+		return nil, err
+	}
 	if p.IsZero() {
 		return nil, fmt.Errorf("%w: every number is a root", ErrZeroPolynomial)
 	}
@@ -50,35 +132,19 @@ func (p Poly) RootsWithMultiplicity() ([]Root, error) {
 	for p.c[k] == 0 {
 		k++
 	}
-	q := Poly{c: p.c[k:]}
-	var roots []Root
+	roots := []Root{}
 	if k > 0 {
 		roots = append(roots, Root{Value: 0, Multiplicity: k})
 	}
-	rest, err := rootsNonZero(q)
-	if err != nil {
-		return nil, err
+	if len(p.c)-k > 1 {
+		rest, err := rootsNonZero(p.c[k:], s)
+		if err != nil {
+			return nil, err
+		}
+		roots = append(roots, rest...)
 	}
-	roots = append(roots, rest...)
 	SortRootSet(roots)
 	return roots, nil
-}
-
-// rootsNonZero finds the roots of q, whose constant term is non-zero.
-func rootsNonZero(q Poly) ([]Root, error) {
-	switch q.Degree() {
-	case 0:
-		return nil, nil
-	case 1:
-		return []Root{{Value: complex(-q.c[0]/q.c[1], 0), Multiplicity: 1}}, nil
-	case 2:
-		return quadraticRoots(q.c[2], q.c[1], q.c[0]), nil
-	}
-	vals, err := companionEigenvalues(q)
-	if err != nil {
-		return nil, err
-	}
-	return refine(q, vals), nil
 }
 
 // quadraticRoots solves a·x² + b·x + c = 0 (a, c ≠ 0) by the cancellation-
@@ -117,12 +183,12 @@ func discriminant(a, b, c float64) float64 {
 // companionEigenvalues returns the eigenvalues of the companion matrix of
 // q (degree ≥ 3, q(0) ≠ 0) computed by gonum's mat.Eigen, whose LAPACK-style
 // Dgeev balances the matrix (Parlett & Reinsch 1969) before the QR algorithm.
-func companionEigenvalues(q Poly) ([]complex128, error) {
-	n := q.Degree()
-	lead := q.c[n]
+func companionEigenvalues(c []float64) ([]complex128, error) {
+	n := len(c) - 1
+	lead := c[n]
 	a := mat.NewDense(n, n, nil)
 	for j := 0; j < n; j++ {
-		a.Set(0, j, -q.c[n-1-j]/lead)
+		a.Set(0, j, -c[n-1-j]/lead)
 	}
 	for i := 1; i < n; i++ {
 		a.Set(i, i-1, 1)
@@ -134,87 +200,20 @@ func companionEigenvalues(q Poly) ([]complex128, error) {
 	return eig.Values(nil), nil
 }
 
-// refine polishes eigenvalue estimates with Newton's method on q and makes
-// real roots exactly real and complex roots exact conjugate pairs.
-func refine(q Poly, vals []complex128) []Root {
-	out := make([]Root, 0, len(vals))
-	for _, v := range vals {
-		out = append(out, Root{Value: newtonPolish(q, v), Multiplicity: 1})
-	}
-	return pairConjugates(out)
-}
-
-// newtonPolish takes up to 8 Newton steps from z, stopping when a step does
-// not reduce the residual.
-func newtonPolish(q Poly, z complex128) complex128 {
-	f, d := q.EvalWithDerivative(z)
-	for range 8 {
-		if d == 0 {
-			break
-		}
-		zn := z - f/d
-		fn, dn := q.EvalWithDerivative(zn)
-		if abs(fn) >= abs(f) {
-			break
-		}
-		z, f, d = zn, fn, dn
-	}
-	return z
-}
-
-// pairConjugates snaps roots with a tiny imaginary part to the real axis and
-// replaces each upper-half-plane root and its partner by an exact pair.
-func pairConjugates(rs []Root) []Root {
-	for i := range rs {
-		v := rs[i].Value
-		if math.Abs(imag(v)) <= 64*0x1p-53*math.Abs(real(v)) {
-			rs[i].Value = complex(real(v), 0)
-		}
-	}
-	used := make([]bool, len(rs))
-	for i := range rs {
-		if used[i] || imag(rs[i].Value) <= 0 {
-			continue
-		}
-		used[i] = true
-		best, bd := -1, math.Inf(1)
-		for j := range rs {
-			if used[j] || imag(rs[j].Value) >= 0 {
-				continue
-			}
-			if d := abs(rs[j].Value - complex(real(rs[i].Value), -imag(rs[i].Value))); d < bd {
-				best, bd = j, d
-			}
-		}
-		if best >= 0 {
-			used[best] = true
-			v := rs[i].Value
-			m := (real(v) + real(rs[best].Value)) / 2
-			im := (imag(v) - imag(rs[best].Value)) / 2
-			rs[i].Value = complex(m, im)
-			rs[best].Value = complex(m, -im)
-		}
-	}
-	return rs
-}
-
 // SortRoots sorts roots in place by ascending real part, then ascending
 // imaginary part: the deterministic order returned by Roots.
 func SortRoots(r []complex128) {
-	slices.SortStableFunc(r, func(a, b complex128) int {
-		if c := cmp.Compare(real(a), real(b)); c != 0 {
-			return c
-		}
-		return cmp.Compare(imag(a), imag(b))
-	})
+	slices.SortStableFunc(r, compareComplex)
+}
+
+func compareComplex(a, b complex128) int {
+	if c := cmp.Compare(real(a), real(b)); c != 0 {
+		return c
+	}
+	return cmp.Compare(imag(a), imag(b))
 }
 
 // SortRootSet sorts a root set in place in the order of SortRoots.
 func SortRootSet(r []Root) {
-	slices.SortStableFunc(r, func(a, b Root) int {
-		if c := cmp.Compare(real(a.Value), real(b.Value)); c != 0 {
-			return c
-		}
-		return cmp.Compare(imag(a.Value), imag(b.Value))
-	})
+	slices.SortStableFunc(r, func(a, b Root) int { return compareComplex(a.Value, b.Value) })
 }

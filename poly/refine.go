@@ -1,0 +1,337 @@
+package poly
+
+import (
+	"math"
+	"math/big"
+	"slices"
+)
+
+// This file holds the root-finding pipeline behind RootsWithMultiplicity for
+// a polynomial whose constant term is non-zero:
+//
+//  1. The variable is scaled by a power of two, x = 2ᵉ·y, so that the
+//     geometric mean of the root moduli, |a₀/aₙ|^(1/n), is near 1. The
+//     scaling is exact (barring overflow), so the scaled polynomial has
+//     exactly the scaled roots of the double-precision coefficients.
+//  2. Degree 2 uses the closed form; degree ≥ 3 takes the eigenvalues of the
+//     balanced companion matrix (mat.Eigen, which balances with Dgebal;
+//     Edelman & Murakami 1995, "Polynomial roots from companion matrix
+//     eigenvalues", Math. Comp. 64(210), show that these are the exact roots
+//     of a polynomial whose coefficients are perturbed by a small multiple
+//     of u·‖p‖, so starting values are good in norm, not to full accuracy).
+//  3. All n approximations are refined together by the Ehrlich–Aberth
+//     iteration (Aberth 1973, "Iteration methods for finding all zeros of a
+//     polynomial simultaneously", Math. Comp. 27(122); Ehrlich 1967) in
+//     Gauss–Seidel order (as in Bini 1996, "Numerical computation of
+//     polynomial zeros by means of Aberth's method", Numer. Algorithms 13).
+//     The residual p(z) is computed by the compensated Horner scheme, so the
+//     iteration converges to the roots of the double-precision coefficients
+//     as if it ran in twice the working precision; the Aberth term keeps
+//     the approximations apart, so two starting values never converge to the
+//     same simple root, and Gauss–Seidel order breaks the conjugate symmetry
+//     of the eigenvalues, which lets a pair of complex starting values split
+//     into two real roots.
+//  4. Clusters are recognised as multiple roots (cluster.go).
+//  5. A simple root whose compensated residual is still too noisy to fix
+//     the root to a few units in the last place is polished by Newton steps
+//     with p(z) evaluated in math/big at 256 bits.
+//  6. Real roots are made exactly real and complex roots exact conjugate
+//     pairs; the scaling is undone.
+
+const (
+	// maxAberthIterations bounds the simultaneous iteration. Starting from
+	// companion eigenvalues, simple roots converge in 2–6 sweeps (cubic
+	// convergence); clusters converge linearly and stop on the noise test.
+	maxAberthIterations = 60
+	// bigFallbackUlps: a simple root is re-polished with math/big when the
+	// compensated residual leaves it uncertain by more than this many units
+	// of its last place (u·|z|).
+	bigFallbackUlps = 8
+	// bigPrecision is the mantissa length in bits of the math/big fallback
+	// evaluation: 256 bits make its error about 2⁻²⁵⁶·p̃(|z|), negligible
+	// next to the 2⁻¹⁰⁶·p̃(|z|) of the compensated scheme.
+	bigPrecision = 256
+)
+
+// candidate is a root in the pipeline: its value (in the scaled variable),
+// multiplicity, and noise, the uncertainty of the value caused by rounding
+// in evaluating the function whose simple root it is (p for m = 1, p^(m−1)
+// for a multiple root): errBound/|derivative|.
+type candidate struct {
+	z     complex128
+	m     int
+	noise float64
+}
+
+// rootsNonZero returns the roots of the polynomial with ascending
+// coefficients c, c[0] ≠ 0, degree ≥ 1.
+func rootsNonZero(c []float64, s *RootSettings) ([]Root, error) {
+	n := len(c) - 1
+	if n == 1 {
+		return []Root{{Value: complex(-c[0]/c[1], 0), Multiplicity: 1}}, nil
+	}
+	sc, e := scaleToUnitRoots(c)
+	var z []complex128
+	if n == 2 {
+		q := quadraticRoots(sc[2], sc[1], sc[0])
+		if len(q) == 1 {
+			return unscale([]candidate{{z: q[0].Value, m: 2}}, e), nil
+		}
+		z = []complex128{q[0].Value, q[1].Value}
+	} else {
+		vals, err := companionEigenvalues(sc)
+		if err != nil {
+			return nil, err
+		}
+		z = vals
+		aberth(sc, z)
+	}
+	var cands []candidate
+	if s.clusterTolerance() > 0 {
+		cands = findClusters(sc, z, s.clusterTolerance())
+	} else {
+		cands = make([]candidate, len(z))
+		for i, v := range z {
+			cands[i] = candidate{z: v, m: 1, noise: simpleNoise(sc, v)}
+		}
+	}
+	polishWithBig(sc, cands)
+	symmetrize(cands)
+	return unscale(cands, e), nil
+}
+
+// scaleToUnitRoots returns the coefficients of p(2ᵉ·y)/2^k for the e that
+// brings |a₀/aₙ|^(1/n) near 1 and a k that brings the leading coefficient
+// near 1. Multiplying by powers of two is exact; if it would overflow or
+// underflow a coefficient, e = 0 and the coefficients are returned as they
+// are.
+func scaleToUnitRoots(c []float64) ([]float64, int) {
+	n := len(c) - 1
+	r := (math.Log2(math.Abs(c[0])) - math.Log2(math.Abs(c[n]))) / float64(n)
+	e := int(math.Round(r))
+	_, k := math.Frexp(math.Ldexp(c[n], e*n))
+	out := make([]float64, len(c))
+	for i, v := range c {
+		w := math.Ldexp(v, e*i-k)
+		if v != 0 && (w == 0 || math.IsInf(w, 0) || math.Abs(w) < 0x1p-1000 || math.Abs(w) > 0x1p1000) {
+			out := append([]float64(nil), c...)
+			return out, 0
+		}
+		out[i] = w
+	}
+	return out, e
+}
+
+// unscale turns candidates in the scaled variable into roots of p.
+func unscale(cands []candidate, e int) []Root {
+	out := make([]Root, len(cands))
+	for i, c := range cands {
+		out[i] = Root{Value: complex(math.Ldexp(real(c.z), e), math.Ldexp(imag(c.z), e)), Multiplicity: c.m}
+	}
+	return out
+}
+
+// hornerDeriv returns p′(z) by plain Horner's scheme (its relative accuracy
+// only affects the speed of Newton's method, not its limiting accuracy).
+func hornerDeriv(c []float64, z complex128) complex128 {
+	n := len(c) - 1
+	if imag(z) == 0 {
+		x := real(z)
+		d := 0.0
+		for i := n; i >= 1; i-- {
+			d = d*x + float64(i)*c[i]
+		}
+		return complex(d, 0)
+	}
+	var d complex128
+	for i := n; i >= 1; i-- {
+		d = d*z + complex(float64(i)*c[i], 0)
+	}
+	return d
+}
+
+// evalComp returns p(z) and its error bound by the compensated scheme.
+func evalComp(c []float64, z complex128) (complex128, float64) {
+	if imag(z) == 0 {
+		v, e := compHorner(c, real(z))
+		return complex(v, 0), e
+	}
+	return compHornerComplex(c, z)
+}
+
+// simpleNoise returns the uncertainty of z as a simple root of p caused by
+// rounding in the compensated residual: errBound/|p′(z)|.
+func simpleNoise(c []float64, z complex128) float64 {
+	_, eb := evalComp(c, z)
+	return eb / abs(hornerDeriv(c, z))
+}
+
+// aberth refines all roots z of p (ascending coefficients c) in place by the
+// Ehrlich–Aberth iteration in Gauss–Seidel order,
+//
+//	zₖ ← zₖ − p(zₖ) / (p′(zₖ) − p(zₖ)·Σⱼ≠ₖ 1/(zₖ − zⱼ)),
+//
+// with p(zₖ) from the compensated Horner scheme. A root stops when its step
+// falls below 2u·|zₖ| (the next step would not change it), when the step is
+// below the noise of the residual (errBound/|p′|; this is where members of
+// a cluster stop), or when the values stop being finite.
+func aberth(c []float64, z []complex128) {
+	n := len(z)
+	done := make([]bool, n)
+	for range maxAberthIterations {
+		active := false
+		for k := range z {
+			if done[k] {
+				continue
+			}
+			zk := z[k]
+			f, fb := evalComp(c, zk)
+			if f == 0 {
+				done[k] = true
+				continue
+			}
+			d := hornerDeriv(c, zk)
+			var s complex128
+			for j, zj := range z {
+				if j != k && zj != zk {
+					s += 1 / (zk - zj)
+				}
+			}
+			den := d - f*s
+			delta := f / den
+			ad := abs(delta)
+			if den == 0 || math.IsNaN(ad) || math.IsInf(ad, 0) {
+				done[k] = true
+				continue
+			}
+			z[k] = zk - delta
+			if ad <= 2*unitRoundoff*abs(z[k]) || ad <= fb/abs(d) {
+				done[k] = true
+				continue
+			}
+			active = true
+		}
+		if !active {
+			return
+		}
+	}
+}
+
+// polishWithBig re-polishes simple roots whose compensated residual is too
+// noisy: Newton steps (with the Aberth correction against the other roots,
+// so a step cannot jump to a neighbour) whose residual p(z) is evaluated in
+// math/big at bigPrecision bits from the exact double coefficients and the
+// exact double argument.
+func polishWithBig(c []float64, cands []candidate) {
+	for k := range cands {
+		ck := &cands[k]
+		if ck.m != 1 || !(ck.noise > bigFallbackUlps*unitRoundoff*abs(ck.z)) || math.IsInf(ck.noise, 0) {
+			continue
+		}
+		z := ck.z
+		last := math.Inf(1)
+		for range 10 {
+			f := bigHorner(c, z)
+			if f == 0 {
+				break
+			}
+			d := hornerDeriv(c, z)
+			var s complex128
+			for j, o := range cands {
+				if j != k && o.z != z {
+					s += complex(float64(o.m), 0) / (z - o.z)
+				}
+			}
+			delta := f / (d - f*s)
+			ad := abs(delta)
+			if math.IsNaN(ad) || math.IsInf(ad, 0) || ad >= last {
+				break
+			}
+			last = ad
+			z -= delta
+			if ad <= unitRoundoff*abs(z) {
+				break
+			}
+		}
+		ck.z = z
+		// The residual is now exact to far below the rounding of z.
+		ck.noise = 0
+	}
+}
+
+// bigHorner returns p(z) evaluated in math/big at bigPrecision bits and
+// rounded to complex128.
+func bigHorner(c []float64, z complex128) complex128 {
+	n := len(c) - 1
+	nf := func() *big.Float { return new(big.Float).SetPrec(bigPrecision) }
+	zr, zi := nf().SetFloat64(real(z)), nf().SetFloat64(imag(z))
+	sr, si := nf().SetFloat64(c[n]), nf()
+	t1, t2, t3, t4 := nf(), nf(), nf(), nf()
+	for i := n - 1; i >= 0; i-- {
+		t1.Mul(sr, zr)
+		t2.Mul(si, zi)
+		t3.Mul(sr, zi)
+		t4.Mul(si, zr)
+		sr.Sub(t1, t2)
+		sr.Add(sr, t2.SetFloat64(c[i]))
+		si.Add(t3, t4)
+	}
+	r, _ := sr.Float64()
+	i, _ := si.Float64()
+	return complex(r, i)
+}
+
+// symmetrize makes the root set of a real polynomial exactly symmetric:
+// a root whose imaginary part is within its uncertainty (max(4u|z|,
+// 2·noise)) of the axis becomes real, and every remaining root in the upper
+// half-plane is paired with the nearest unused root of the same
+// multiplicity in the lower half-plane; both are replaced by the average of
+// the pair, mirrored. A root left without a partner (not seen in testing)
+// is made real when its imaginary part is within √u·|z|.
+func symmetrize(cands []candidate) {
+	for i := range cands {
+		c := &cands[i]
+		tol := math.Max(4*unitRoundoff*abs(c.z), 2*c.noise)
+		if math.Abs(imag(c.z)) <= tol {
+			c.z = complex(real(c.z), 0)
+		}
+	}
+	order := make([]int, len(cands))
+	for i := range order {
+		order[i] = i
+	}
+	slices.SortStableFunc(order, func(a, b int) int {
+		return compareComplex(cands[a].z, cands[b].z)
+	})
+	used := make([]bool, len(cands))
+	for _, i := range order {
+		if used[i] || imag(cands[i].z) <= 0 {
+			continue
+		}
+		used[i] = true
+		u := cands[i].z
+		best, bd := -1, math.Inf(1)
+		for j := range cands {
+			if used[j] || imag(cands[j].z) >= 0 || cands[j].m != cands[i].m {
+				continue
+			}
+			if d := abs(cands[j].z - complex(real(u), -imag(u))); d < bd {
+				best, bd = j, d
+			}
+		}
+		if best < 0 {
+			used[i] = false
+			continue
+		}
+		used[best] = true
+		l := cands[best].z
+		v := complex((real(u)+real(l))/2, (imag(u)-imag(l))/2)
+		cands[i].z = v
+		cands[best].z = complex(real(v), -imag(v))
+	}
+	for i := range cands {
+		if !used[i] && imag(cands[i].z) != 0 && math.Abs(imag(cands[i].z)) <= math.Sqrt(unitRoundoff)*abs(cands[i].z) {
+			cands[i].z = complex(real(cands[i].z), 0)
+		}
+	}
+}
