@@ -1,0 +1,414 @@
+package locus
+
+import (
+	"cmp"
+	"math"
+	"math/cmplx"
+	"slices"
+
+	"github.com/loopwise/loopwise/poly"
+	"github.com/loopwise/loopwise/tf"
+)
+
+// Interval is an interval of the real line; ±Inf ends are allowed.
+// RealAxisSegments are closed intervals, StableIntervals open ones.
+type Interval struct{ Lo, Hi float64 }
+
+// AngleAt is a departure angle (from a pole) or an arrival angle (at a
+// zero) of one branch, in degrees in (−180, 180].
+type AngleAt struct {
+	// Point is the open-loop pole or zero.
+	Point complex128
+	// AngleDeg is the direction of the branch at Point, in degrees.
+	AngleDeg float64
+	// Multiplicity is the multiplicity of the pole or zero; it has as many
+	// entries, one per branch.
+	Multiplicity int
+}
+
+// BreakPoint is a point where branches meet and part (break-away or
+// break-in), on or off the real axis.
+type BreakPoint struct {
+	// Point is where the branches meet.
+	Point complex128
+	// Value is the locus variable there.
+	Value float64
+	// Branches is the number of branches that meet (the multiplicity of
+	// Point as a root of a + Value·b).
+	Branches int
+}
+
+// Crossing is a point where a branch crosses the stability boundary: the
+// imaginary axis in continuous time, the unit circle in discrete time.
+type Crossing struct {
+	// FrequencyRadPerSec is ω ≥ 0 with Point = jω in continuous time, or
+	// θ/T with Point = e^(jθ), θ ∈ [0, π], in discrete time.
+	FrequencyRadPerSec float64
+	// Point is the closed-loop pole on the boundary (upper half plane).
+	Point complex128
+	// Value is the locus variable there.
+	Value float64
+}
+
+// Analysis holds the construction quantities of a root locus, each computed
+// exactly (no grid): see the package documentation for the definitions.
+type Analysis struct {
+	// Variable is the name of the locus variable ("gain" or a parameter).
+	Variable string
+	// Range is the range of the variable analysed.
+	Range Range
+	// Discrete reports a loop in z; SampleTimeSec is its sample period.
+	Discrete      bool
+	SampleTimeSec float64
+	// Poles and Zeros are the open-loop poles (roots of a) and zeros
+	// (roots of b) with multiplicity, in the order of poly.SortRoots.
+	Poles, Zeros []poly.Root
+	// Branches is the number of branches, max(deg a, deg b).
+	// BranchesToInfinity is how many of them go to (or come from) infinity
+	// within the range: |deg a − deg b| when the range reaches the end
+	// where they do, else 0.
+	Branches, BranchesToInfinity int
+	// HasAsymptotes reports whether there are asymptotes; CentroidReal is
+	// their meeting point on the real axis, (Σpoles − Σzeros)/(n − m).
+	HasAsymptotes bool
+	CentroidReal  float64
+	// AsymptoteAnglesDeg are the asymptote directions in [0, 360),
+	// ascending.
+	AsymptoteAnglesDeg []float64
+	// RealAxisSegments are the maximal closed intervals of the real axis
+	// on the locus, ascending.
+	RealAxisSegments []Interval
+	// Departures has one entry per branch leaving a pole with Im > 0 or a
+	// real multiple pole (the conjugate pole's angles are the negatives).
+	Departures []AngleAt
+	// Arrivals has one entry per branch arriving at a zero with Im > 0 or a
+	// real multiple zero.
+	Arrivals []AngleAt
+	// BreakPoints lists every break-away and break-in point with its value
+	// in the range, complex ones with their conjugates, ordered by real
+	// then imaginary part.
+	BreakPoints []BreakPoint
+	// AxisCrossings lists the crossings of the imaginary axis (unit circle
+	// in discrete time), by ascending frequency.
+	AxisCrossings []Crossing
+	// StableIntervals is the exact set of values in the range for which
+	// every closed-loop pole has Re < 0 (discrete: |z| < 1), as ascending
+	// open intervals.
+	StableIntervals []Interval
+	// Notes records approximations and special situations (dead time,
+	// common factors, improper loops).
+	Notes []string
+}
+
+// Analyze returns the construction quantities of the root locus of
+// a(s) + k·b(s) = 0 for the loop k·b/a (a = loop.Den(), b = loop.Num())
+// under negative feedback, k in set.Range. Dead time is replaced by a Padé
+// approximation (continuous time) or by an exact power of z (discrete time,
+// whole samples). It returns ErrZeroNumerator when b ≡ 0, ErrInvalidRange
+// or ErrInvalidSettings for bad settings and ErrUnsupported for a fractional
+// delay in discrete time.
+func Analyze(loop tf.TF, set *Settings) (Analysis, error) {
+	r, err := resolve(set)
+	if err != nil {
+		return Analysis{}, err
+	}
+	p, err := newProblem(loop, r)
+	if err != nil {
+		return Analysis{}, err
+	}
+	return p.analyze()
+}
+
+func (p *problem) analyze() (Analysis, error) {
+	an := Analysis{
+		Variable:      p.variable,
+		Range:         p.rng,
+		Discrete:      p.discrete,
+		SampleTimeSec: p.ts,
+		Poles:         slices.Clone(p.poles),
+		Zeros:         slices.Clone(p.zeros),
+		Branches:      p.order,
+	}
+	p.asymptotes(&an)
+	an.RealAxisSegments = p.realAxisSegments()
+	an.Departures = p.angles(p.poles, p.zeros, p.a.Lead(), p.b.Lead(), p.startSigns(), true)
+	an.Arrivals = p.angles(p.zeros, p.poles, p.b.Lead(), p.a.Lead(), p.infSigns(), false)
+	an.BreakPoints = p.breakPoints()
+	cr, err := p.crossings()
+	if err != nil {
+		return Analysis{}, err
+	}
+	an.AxisCrossings = cr
+	st, err := p.stableIntervals(cr)
+	if err != nil {
+		return Analysis{}, err
+	}
+	an.StableIntervals = st
+	an.Notes = slices.Clone(p.notes)
+	return an, nil
+}
+
+// startSigns returns the signs of k near k = 0 inside the range.
+func (p *problem) startSigns() []float64 {
+	switch {
+	case p.rng.Min == 0:
+		return []float64{1}
+	case p.rng.Max == 0:
+		return []float64{-1}
+	case p.rng.Min < 0 && p.rng.Max > 0:
+		return []float64{1, -1}
+	}
+	return nil
+}
+
+// infSigns returns the signs of k at the infinite ends of the range.
+func (p *problem) infSigns() []float64 {
+	var s []float64
+	if math.IsInf(p.rng.Max, 1) {
+		s = append(s, 1)
+	}
+	if math.IsInf(p.rng.Min, -1) {
+		s = append(s, -1)
+	}
+	return s
+}
+
+// asymptotes fills the asymptote fields. With n > m the branches go to
+// infinity as |k| → ∞; with m > n they come from infinity as k → 0. In both
+// cases s^|n−m| ≈ −a₀/(k·b₀) far out, so the angles are (2q+1)·180°/|n−m|
+// when k·b₀/a₀ > 0 and q·360°/|n−m| otherwise, and the centroid is
+// (Σpoles − Σzeros)/(n − m), computed from the coefficients exactly.
+func (p *problem) asymptotes(an *Analysis) {
+	if p.n == p.m {
+		return
+	}
+	signs := p.infSigns()
+	if p.m > p.n {
+		signs = p.startSigns()
+	}
+	if len(signs) == 0 {
+		return
+	}
+	q := p.n - p.m
+	if q < 0 {
+		q = -q
+	}
+	an.HasAsymptotes = true
+	an.BranchesToInfinity = q
+	sumP := 0.0
+	if p.n >= 1 {
+		sumP = -p.a.Coef(p.n-1) / p.a.Lead()
+	}
+	sumZ := 0.0
+	if p.m >= 1 {
+		sumZ = -p.b.Coef(p.m-1) / p.b.Lead()
+	}
+	an.CentroidReal = (sumP - sumZ) / float64(p.n-p.m)
+	lead := math.Copysign(1, p.b.Lead()) * math.Copysign(1, p.a.Lead())
+	var angles []float64
+	for _, sg := range signs {
+		for i := range q {
+			var a float64
+			if sg*lead > 0 {
+				a = float64(2*i+1) * 180 / float64(q)
+			} else {
+				a = float64(i) * 360 / float64(q)
+			}
+			if !slices.Contains(angles, a) {
+				angles = append(angles, a)
+			}
+		}
+	}
+	slices.Sort(angles)
+	an.AsymptoteAnglesDeg = angles
+}
+
+// realAxisSegments returns the maximal closed intervals of real σ with
+// −a(σ)/b(σ) in the closed range. The ends are real poles and zeros and,
+// for finite range ends, real roots of a + Min·b and a + Max·b.
+func (p *problem) realAxisSegments() []Interval {
+	var cand []float64
+	addReal := func(rs []poly.Root) {
+		for _, r := range rs {
+			if imag(r.Value) == 0 {
+				cand = append(cand, real(r.Value))
+			}
+		}
+	}
+	addReal(p.poles)
+	addReal(p.zeros)
+	for _, k := range []float64{p.rng.Min, p.rng.Max} {
+		if k == 0 || math.IsInf(k, 0) {
+			continue
+		}
+		if rs, err := p.charPoly(k).RootsWithMultiplicity(); err == nil {
+			addReal(rs)
+		}
+	}
+	slices.Sort(cand)
+	cand = slices.Compact(cand)
+	onLocus := func(x float64) bool {
+		bv := p.b.Eval(x)
+		if bv == 0 {
+			return false
+		}
+		return p.rng.Contains(-p.a.Eval(x) / bv)
+	}
+	var segs []Interval
+	add := func(lo, hi, probe float64) {
+		if !onLocus(probe) {
+			return
+		}
+		if n := len(segs); n > 0 && segs[n-1].Hi == lo {
+			segs[n-1].Hi = hi
+			return
+		}
+		segs = append(segs, Interval{lo, hi})
+	}
+	if len(cand) == 0 {
+		add(math.Inf(-1), math.Inf(1), 0)
+		return segs
+	}
+	add(math.Inf(-1), cand[0], cand[0]-1-math.Abs(cand[0]))
+	for i := 0; i+1 < len(cand); i++ {
+		add(cand[i], cand[i+1], (cand[i]+cand[i+1])/2)
+	}
+	last := cand[len(cand)-1]
+	add(last, math.Inf(1), last+1+math.Abs(last))
+	return segs
+}
+
+// angles returns the departure angles (from the roots of a, when dep) or
+// the arrival angles (at the roots of b) by Evans' angle condition
+// (Evans 1950): for a root r of multiplicity μ, locus points r + δ satisfy
+// μ·∠δ ≡ ∠(−σ·b₀/a₀) + Σ∠(r − other roots of b) − Σ∠(r − other roots of
+// a) (mod 360°), σ the sign of k at the end where the branches meet r.
+// The sums are over exact root sets with multiplicities.
+func (p *problem) angles(own, other []poly.Root, ownLead, otherLead float64, signs []float64, dep bool) []AngleAt {
+	var out []AngleAt
+	for _, r := range own {
+		if !(imag(r.Value) > 0 || (imag(r.Value) == 0 && r.Multiplicity > 1)) {
+			continue
+		}
+		sum := 0.0
+		for _, z := range other {
+			sum += float64(z.Multiplicity) * cmplx.Phase(r.Value-z.Value)
+		}
+		for _, q := range own {
+			if q.Value == r.Value {
+				continue
+			}
+			sum -= float64(q.Multiplicity) * cmplx.Phase(r.Value-q.Value)
+		}
+		mu := float64(r.Multiplicity)
+		var list []float64
+		for _, sg := range signs {
+			// angle of −σ·otherLead/ownLead: 180° when that ratio is
+			// positive, 0° when negative.
+			base := 0.0
+			if sg*otherLead/ownLead > 0 {
+				base = math.Pi
+			}
+			t := base + sum
+			for l := range r.Multiplicity {
+				list = append(list, wrap180((t+2*math.Pi*float64(l))/mu*180/math.Pi))
+			}
+		}
+		slices.Sort(list)
+		for _, a := range list {
+			out = append(out, AngleAt{Point: r.Value, AngleDeg: a, Multiplicity: r.Multiplicity})
+		}
+	}
+	_ = dep
+	return out
+}
+
+// wrap180 maps degrees into (−180, 180].
+func wrap180(a float64) float64 {
+	a = math.Mod(a, 360)
+	if a > 180 {
+		a -= 360
+	}
+	if a <= -180 {
+		a += 360
+	}
+	return a
+}
+
+// breakPoints returns the roots s₀ of a′·b − a·b′ = 0 that are neither
+// poles nor zeros, at which k₀ = −a(s₀)/b(s₀) is real and in the range,
+// with branches = 1 + multiplicity of s₀ (Evans 1950; Ogata, Modern
+// Control Engineering, 5th ed., §6-2, rule 5). Roots are polished by
+// Newton's method on a′b − ab′; k₀ is stationary there, so its error is
+// second order in the error of s₀.
+func (p *problem) breakPoints() []BreakPoint {
+	B := p.ad.Mul(p.b).Sub(p.a.Mul(p.bd))
+	if B.Degree() < 1 {
+		return nil
+	}
+	rs, err := rootsMult(B)
+	if err != nil {
+		return nil
+	}
+	Bd := B.Derivative()
+	var out []BreakPoint
+	for _, r := range rs {
+		s := r.Value
+		if imag(s) < 0 {
+			continue // added with its conjugate
+		}
+		if r.Multiplicity == 1 {
+			s = newtonPoly(B, Bd, s, imag(s) == 0)
+		}
+		av, bv := p.a.EvalComplex(s), p.b.EvalComplex(s)
+		ax := cabs(s)
+		const vanish = 1e3 * 0x1p-53
+		if cabs(av) <= vanish*absEval(p.a, ax) || cabs(bv) <= vanish*absEval(p.b, ax) {
+			continue // a multiple pole or zero: k₀ = 0 or ∞
+		}
+		k := -av / bv
+		if math.Abs(imag(k)) > 1e-7*cabs(k) {
+			continue // complex value: not on the locus
+		}
+		kv := real(k)
+		if !p.rng.Contains(kv) || kv == 0 {
+			continue
+		}
+		out = append(out, BreakPoint{Point: s, Value: kv, Branches: r.Multiplicity + 1})
+		if imag(s) > 0 {
+			out = append(out, BreakPoint{Point: cmplx.Conj(s), Value: kv, Branches: r.Multiplicity + 1})
+		}
+	}
+	slices.SortFunc(out, func(x, y BreakPoint) int {
+		if c := cmp.Compare(real(x.Point), real(y.Point)); c != 0 {
+			return c
+		}
+		return cmp.Compare(imag(x.Point), imag(y.Point))
+	})
+	return out
+}
+
+// newtonPoly polishes a simple root of q by Newton's method, keeping the
+// iterate real when real is set, and stopping when the residual stops
+// decreasing.
+func newtonPoly(q, qd poly.Poly, s complex128, real bool) complex128 {
+	f := q.EvalComplex(s)
+	for range 6 {
+		d := qd.EvalComplex(s)
+		if d == 0 {
+			break
+		}
+		n := s - f/d
+		if real {
+			n = complex(realPart(n), 0)
+		}
+		fn := q.EvalComplex(n)
+		if cabs(fn) >= cabs(f) {
+			break
+		}
+		s, f = n, fn
+	}
+	return s
+}
+
+func realPart(z complex128) float64 { return real(z) }

@@ -1,0 +1,296 @@
+package locus
+
+import (
+	"cmp"
+	"fmt"
+	"math"
+	"math/cmplx"
+	"slices"
+
+	"github.com/loopwise/loopwise/poly"
+)
+
+// partsOnAxis returns the real and imaginary parts of q(jω) as real
+// polynomials in ω.
+func partsOnAxis(q poly.Poly) (re, im poly.Poly) {
+	n := q.Degree()
+	r := make([]float64, n+1)
+	i := make([]float64, n+1)
+	for k := 0; k <= n; k++ {
+		c := q.Coef(k)
+		switch k % 4 {
+		case 0:
+			r[k] = c
+		case 1:
+			i[k] = c
+		case 2:
+			r[k] = -c
+		case 3:
+			i[k] = -c
+		}
+	}
+	re, _ = poly.FromAscending(r)
+	im, _ = poly.FromAscending(i)
+	return re, im
+}
+
+// bilinear returns (1 − w)^N·q((1 + w)/(1 − w)), which maps the unit circle
+// |z| = 1 of q to the imaginary axis of w (z = e^(jθ) ↔ w = j·tan(θ/2)) and
+// the inside of the circle to the left half plane.
+func bilinear(q poly.Poly, N int) poly.Poly {
+	plus := poly.MustNew(1, 1)   // 1 + w
+	minus := poly.MustNew(-1, 1) // 1 − w
+	out := poly.Poly{}
+	for k := 0; k <= q.Degree(); k++ {
+		c := q.Coef(k)
+		if c == 0 {
+			continue
+		}
+		out = out.Add(plus.Pow(k).Mul(minus.Pow(N - k)).Scale(c))
+	}
+	return out
+}
+
+// boundaryCandidates returns the ω > 0 at which A(jω) + k·B(jω) = 0 for a
+// real k: the positive real roots x = ω² of Im(A(jω)·conj B(jω))/ω, an
+// even polynomial in ω. ok is false when that polynomial is identically
+// zero (the locus then runs along the axis).
+func boundaryCandidates(A, B poly.Poly) (omegas []float64, ok bool) {
+	ar, ai := partsOnAxis(A)
+	br, bi := partsOnAxis(B)
+	im := ai.Mul(br).Sub(ar.Mul(bi)) // odd in ω
+	if im.IsZero() {
+		return nil, false
+	}
+	var x []float64
+	for k := 1; k <= im.Degree(); k += 2 {
+		x = append(x, im.Coef(k))
+	}
+	xp, _ := poly.FromAscending(x)
+	if xp.Degree() < 1 {
+		return nil, true
+	}
+	rs, err := xp.RootsWithMultiplicity()
+	if err != nil {
+		return nil, true
+	}
+	for _, r := range rs {
+		v := r.Value
+		if real(v) > 0 && math.Abs(imag(v)) <= 1e-6*real(v) {
+			omegas = append(omegas, math.Sqrt(real(v)))
+		}
+	}
+	return omegas, true
+}
+
+// crossings returns the crossings of the stability boundary with k in the
+// open range, sorted by frequency. Continuous time: ω ≥ 0 with
+// a(jω) + k·b(jω) = 0; candidates are the real roots of an even polynomial
+// in ω (Routh's and Hurwitz's boundary condition written as the vanishing of
+// Im(a·conj b) on the axis), each then polished by Newton's method on the
+// two real equations in (ω, k). Discrete time: the bilinear map
+// z = (1 + w)/(1 − w) moves the unit circle to the axis; z = −1 (w = ∞) is
+// checked separately. Open-loop poles and zeros on the boundary (k = 0 or
+// ∞) are not crossings.
+func (p *problem) crossings() ([]Crossing, error) {
+	A, B := p.a, p.b
+	if p.discrete {
+		A, B = bilinear(p.a, p.order), bilinear(p.b, p.order)
+	}
+	cand, ok := boundaryCandidates(A, B)
+	if !ok {
+		p.notes = append(p.notes, "the locus runs along the stability boundary (Im(a·conj b) vanishes on it identically); no isolated crossings are reported")
+	}
+	var out []Crossing
+	// ω = 0 (z = 1) and, in discrete time, z = −1: real points, exact k.
+	reals := []float64{0}
+	if p.discrete {
+		reals = append(reals, math.Pi)
+	}
+	for _, t := range reals {
+		x := p.boundaryPoint(t)
+		av, bv := p.a.EvalComplex(x), p.b.EvalComplex(x)
+		if av == 0 || bv == 0 {
+			continue
+		}
+		k := real(-av / bv)
+		if k != 0 && p.rng.Min < k && k < p.rng.Max {
+			out = append(out, Crossing{FrequencyRadPerSec: p.freq(t), Point: x, Value: k})
+		}
+	}
+	for _, c := range cand {
+		t := c
+		if p.discrete {
+			t = 2 * math.Atan(c)
+		}
+		t, k, good := p.polishCrossing(t)
+		if !good || t <= 0 || (p.discrete && t >= math.Pi) {
+			continue
+		}
+		if k == 0 || !(p.rng.Min < k && k < p.rng.Max) {
+			continue
+		}
+		out = append(out, Crossing{FrequencyRadPerSec: p.freq(t), Point: p.boundaryPoint(t), Value: k})
+	}
+	slices.SortFunc(out, func(x, y Crossing) int { return cmp.Compare(x.FrequencyRadPerSec, y.FrequencyRadPerSec) })
+	out = slices.CompactFunc(out, func(x, y Crossing) bool {
+		return math.Abs(x.FrequencyRadPerSec-y.FrequencyRadPerSec) <= 1e-10*math.Max(1, x.FrequencyRadPerSec) &&
+			math.Abs(x.Value-y.Value) <= 1e-8*math.Max(1, math.Abs(x.Value))
+	})
+	return out, nil
+}
+
+// boundaryPoint returns jt (continuous) or e^(jt) (discrete).
+func (p *problem) boundaryPoint(t float64) complex128 {
+	if p.discrete {
+		if t == math.Pi {
+			return -1
+		}
+		if t == 0 {
+			return 1
+		}
+		return cmplx.Rect(1, t)
+	}
+	return complex(0, t)
+}
+
+// freq converts the boundary parameter to rad/s.
+func (p *problem) freq(t float64) float64 {
+	if p.discrete {
+		return t / p.ts
+	}
+	return t
+}
+
+// polishCrossing refines a boundary parameter t (ω, or θ in discrete
+// time) and the value k with Newton's method on F(t, k) = a(x(t)) +
+// k·b(x(t)) = 0 (two real equations), and reports whether the result is a
+// genuine crossing: small relative residual, not an open-loop pole or
+// zero on the boundary.
+func (p *problem) polishCrossing(t float64) (float64, float64, bool) {
+	kOf := func(t float64) float64 {
+		x := p.boundaryPoint(t)
+		av, bv := p.a.EvalComplex(x), p.b.EvalComplex(x)
+		return -real(av*cmplx.Conj(bv)) / real(bv*cmplx.Conj(bv))
+	}
+	k := kOf(t)
+	res := func(t, k float64) (complex128, float64) {
+		x := p.boundaryPoint(t)
+		f, _ := p.eval(x, k)
+		return f, cabs(f) / p.magnitude(x, k)
+	}
+	f, rel := res(t, k)
+	for range 8 {
+		x := p.boundaryPoint(t)
+		_, df := p.eval(x, k)
+		dx := complex(0, 1)
+		if p.discrete {
+			dx = complex(0, 1) * x
+		}
+		ft := df * dx
+		fk := p.b.EvalComplex(x)
+		// Solve [Re ft, Re fk; Im ft, Im fk]·[dt; dk] = −[Re f; Im f].
+		det := real(ft)*imag(fk) - imag(ft)*real(fk)
+		if det == 0 {
+			break
+		}
+		dt := (-real(f)*imag(fk) + imag(f)*real(fk)) / det
+		dk := (-real(ft)*imag(f) + imag(ft)*real(f)) / det
+		nt, nk := t+dt, k+dk
+		nf, nrel := res(nt, nk)
+		if !(nrel < rel) {
+			break
+		}
+		t, k, f, rel = nt, nk, nf, nrel
+		if rel < 1e-16 {
+			break
+		}
+	}
+	x := p.boundaryPoint(t)
+	ax := cabs(x)
+	const vanish = 1e3 * 0x1p-53
+	if cabs(p.a.EvalComplex(x)) <= vanish*absEval(p.a, ax) || cabs(p.b.EvalComplex(x)) <= vanish*absEval(p.b, ax) {
+		return t, k, false
+	}
+	return t, k, rel <= 1e-9
+}
+
+// stable reports whether every root of a + k·b has Re < 0 (discrete:
+// |z| < 1). A polynomial that vanishes identically is not stable.
+func (p *problem) stable(k float64) (bool, error) {
+	c := p.charPoly(k)
+	if c.IsZero() {
+		return false, nil
+	}
+	rs, err := c.Roots()
+	if err != nil {
+		return false, fmt.Errorf("locus: closed-loop poles at %s = %v: %w", p.variable, k, err)
+	}
+	for _, r := range rs {
+		if p.discrete {
+			if !(cabs(r) < 1) {
+				return false, nil
+			}
+		} else if !(real(r) < 0) {
+			return false, nil
+		}
+	}
+	return true, nil
+}
+
+// stableIntervals splits the open range at the critical values — crossing
+// values, the value where the degree of a + k·b drops, and 0 when an
+// open-loop pole lies on the boundary — and keeps the pieces whose closed
+// loop is stable at an interior sample value (closed-loop roots). Between
+// critical values no root can cross the boundary, so one sample decides a
+// piece.
+func (p *problem) stableIntervals(cr []Crossing) ([]Interval, error) {
+	var crit []float64
+	in := func(k float64) bool { return p.rng.Min < k && k < p.rng.Max }
+	for _, c := range cr {
+		crit = append(crit, c.Value)
+	}
+	if kd, ok := p.degreeDrop(); ok && in(kd) {
+		crit = append(crit, kd)
+	}
+	if in(0) {
+		for _, r := range p.poles {
+			onB := math.Abs(real(r.Value)) <= 1e-12*math.Max(1, cabs(r.Value))
+			if p.discrete {
+				onB = math.Abs(cabs(r.Value)-1) <= 1e-12
+			}
+			if onB {
+				crit = append(crit, 0)
+				break
+			}
+		}
+	}
+	slices.Sort(crit)
+	crit = slices.CompactFunc(crit, func(x, y float64) bool { return math.Abs(x-y) <= 1e-13*math.Max(1, math.Abs(x)) })
+	pts := append(append([]float64{p.rng.Min}, crit...), p.rng.Max)
+	var out []Interval
+	for i := 0; i+1 < len(pts); i++ {
+		lo, hi := pts[i], pts[i+1]
+		st, err := p.stable(sampleBetween(lo, hi))
+		if err != nil {
+			return nil, err
+		}
+		if st {
+			out = append(out, Interval{lo, hi})
+		}
+	}
+	return out, nil
+}
+
+// sampleBetween returns a value inside (lo, hi); ends may be infinite.
+func sampleBetween(lo, hi float64) float64 {
+	switch {
+	case math.IsInf(lo, -1) && math.IsInf(hi, 1):
+		return 0
+	case math.IsInf(lo, -1):
+		return hi - math.Max(1, math.Abs(hi))
+	case math.IsInf(hi, 1):
+		return lo + math.Max(1, math.Abs(lo))
+	}
+	return lo + (hi-lo)/2
+}
