@@ -43,6 +43,24 @@ var (
 	// ErrSyntax reports text that does not parse; the *SyntaxError carries
 	// the position.
 	ErrSyntax = errors.New("tf: syntax error")
+	// ErrShape reports state-space matrices whose dimensions do not fit a
+	// single-input single-output model (A n×n, B n×1, C 1×n, D 1×1).
+	ErrShape = errors.New("tf: matrix dimensions do not fit a single-input single-output model")
+	// ErrOrder reports an approximation order outside its valid range.
+	ErrOrder = errors.New("tf: approximation order out of range")
+	// ErrMethod reports an unknown discretization method.
+	ErrMethod = errors.New("tf: unknown discretization method")
+	// ErrFractionalDelay reports a dead time that is not a whole number of
+	// sample periods where the method can only keep whole sample periods.
+	ErrFractionalDelay = errors.New("tf: dead time is not a whole number of sample periods")
+	// ErrFrequency reports a frequency outside its valid range (for
+	// example a pre-warping frequency that is not in (0, π/T)).
+	ErrFrequency = errors.New("tf: frequency out of range")
+	// ErrTolerance reports a negative, NaN or infinite tolerance.
+	ErrTolerance = errors.New("tf: invalid tolerance")
+	// ErrNumerical reports a failure of an underlying numerical routine
+	// (an eigenvalue iteration that did not converge, a singular system).
+	ErrNumerical = errors.New("tf: numerical method failed")
 )
 
 // SyntaxError describes text that does not parse: where, and what was

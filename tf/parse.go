@@ -25,6 +25,10 @@ type ParseSettings struct {
 // s^99999 is an error rather than a huge allocation.
 const maxExponent = 1000
 
+// maxDegree bounds the degree of every polynomial built while parsing, so
+// that text such as (s^999)^999 is an error rather than a long computation.
+const maxDegree = 500
+
 // maxTextLen bounds the length of text accepted by Parse.
 const maxTextLen = 1 << 16
 
@@ -98,6 +102,9 @@ func ParseWith(text string, set *ParseSettings) (TF, error) {
 	}
 	if !v.num.IsFinite() || !v.den.IsFinite() {
 		return TF{}, fmt.Errorf("%w: %q overflows float64", ErrNotFinite, text)
+	}
+	if math.IsNaN(v.delay) || math.IsInf(v.delay, 0) {
+		return TF{}, fmt.Errorf("%w: %q has a dead time that overflows float64", ErrNotFinite, text)
 	}
 	if v.delay < 0 {
 		return TF{}, fmt.Errorf("%w: %q has a dead time of %v s", ErrNegativeDelay, text, v.delay)
@@ -261,6 +268,9 @@ func (p *parser) expr() (rat, error) {
 			return rat{}, &SyntaxError{Text: p.text, Offset: op.pos, Msg: fmt.Sprintf("terms with different dead times (%v s and %v s) cannot be added; dead time may only multiply the whole expression", v.delay, w.delay)}
 		}
 		d := math.Max(v.delay, w.delay)
+		if !v.den.Equal(w.den) && (v.den.Degree()+w.den.Degree() > maxDegree || max(v.num.Degree()+w.den.Degree(), w.num.Degree()+v.den.Degree()) > maxDegree) {
+			return rat{}, &SyntaxError{Text: p.text, Offset: op.pos, Msg: fmt.Sprintf("the sum has degree above %d", maxDegree)}
+		}
 		if v.den.Equal(w.den) {
 			v = rat{num: v.num.Add(w.num), den: v.den, delay: d}
 		} else {
@@ -295,6 +305,9 @@ func (p *parser) term() (rat, error) {
 		w, err := p.unary()
 		if err != nil {
 			return rat{}, err
+		}
+		if max(v.num.Degree()+w.num.Degree(), v.den.Degree()+w.den.Degree(), v.num.Degree()+w.den.Degree(), v.den.Degree()+w.num.Degree()) > maxDegree {
+			return rat{}, &SyntaxError{Text: p.text, Offset: op.pos, Msg: fmt.Sprintf("the product has degree above %d", maxDegree)}
 		}
 		if op.text == "*" {
 			v = rat{num: v.num.Mul(w.num), den: v.den.Mul(w.den), delay: v.delay + w.delay}
@@ -343,6 +356,9 @@ func (p *parser) power() (rat, error) {
 	n, err := strconv.Atoi(p.tok.text)
 	if err != nil || n > maxExponent {
 		return rat{}, p.errf("exponent %s is larger than %d", p.tok.text, maxExponent)
+	}
+	if n > 0 && max(v.num.Degree(), v.den.Degree()) > maxDegree/n {
+		return rat{}, p.errf("the power has degree above %d", maxDegree)
 	}
 	p.next()
 	r := rat{num: v.num.Pow(n), den: v.den.Pow(n), delay: v.delay * float64(n)}

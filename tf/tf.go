@@ -195,13 +195,17 @@ func (g TF) IsStrictlyProper() bool { return g.RelativeDegree() > 0 }
 // StaticGain returns the zero-frequency gain: N(0)/D(0) in continuous time
 // and N(1)/D(1) in discrete time (dead time does not change it). It returns
 // ErrInfiniteGain when the denominator vanishes there and the numerator does
-// not; when both vanish, the common factor is removed first.
+// not; when both vanish, the common factor is removed first. The zero
+// transfer function has static gain 0.
 func (g TF) StaticGain() (float64, error) {
 	x := 0.0
 	if g.IsDiscrete() {
 		x = 1
 	}
 	n, d := g.num, g.Den()
+	if n.IsZero() {
+		return 0, nil
+	}
 	// Remove common roots at x exactly by synthetic division.
 	for n.Eval(x) == 0 && d.Eval(x) == 0 && !n.IsZero() {
 		root, _ := poly.New(1, -x)
