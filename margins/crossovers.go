@@ -1,0 +1,226 @@
+package margins
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+
+	"github.com/loopwise/loopwise/poly"
+)
+
+// xPoly is the polynomial x.
+var xPoly = poly.MustNew(1, 0)
+
+// squaredModulus returns |p(jv)|² = re² + x·im² as a polynomial in x = v².
+func squaredModulus(re, im poly.Poly) poly.Poly {
+	return re.Mul(re).Add(xPoly.Mul(im.Mul(im)))
+}
+
+// crossing is a phase crossover found by a search.
+type crossing struct {
+	w     float64 // rad/s
+	k     float64 // gain factor 1/|L|
+	slope float64 // dψ/dω of the continuous phase, rad per rad/s
+}
+
+// gainCrossovers returns every ω > 0 (below π/T for discrete loops) with
+// |L| = 1, ascending. The candidates are the positive real roots of
+// |an(jv)|² − |ad(jv)|², a polynomial in x = v²; each is polished by
+// Newton's method on ln|L(ω)| evaluated directly.
+func (lp *loop) gainCrossovers() ([]float64, error) {
+	pn := squaredModulus(lp.nr, lp.ni)
+	pd := squaredModulus(lp.dr, lp.di)
+	m := pn.Sub(pd)
+	if m.NormInf() <= 1e-14*math.Max(pn.NormInf(), pd.NormInf()) {
+		return nil, fmt.Errorf("%w: |L| = 1 at every frequency (all-pass loop)", ErrDegenerate)
+	}
+	f := func(w float64) (float64, float64) {
+		v, d := lp.logValue(w)
+		return real(v), real(d)
+	}
+	var out []float64
+	for _, x := range positiveRoots(m) {
+		w0 := lp.fromAxis(math.Sqrt(x))
+		w, ok := newton(f, w0, 0, lp.nyquist())
+		if !ok {
+			w = w0
+		}
+		if v, _ := lp.logValue(w); math.Abs(real(v)) <= 1e-7 {
+			out = append(out, w)
+		}
+	}
+	return sortUnique(out, dedupeRel), nil
+}
+
+// endpointCrossings returns the phase crossovers at ω = 0 (L(0) finite and
+// negative) and, for discrete loops, at the Nyquist frequency π/T.
+func (lp *loop) endpointCrossings() (low, high *crossing) {
+	x0 := complex(0, 0)
+	if lp.discrete() {
+		x0 = 1
+	}
+	if d := lp.den.EvalComplex(x0); d != 0 {
+		if l := real(lp.num.EvalComplex(x0) / d); l < 0 {
+			low = &crossing{w: 0, k: -1 / l, slope: math.NaN()}
+		}
+	}
+	if lp.discrete() {
+		if d := lp.den.EvalComplex(-1); d != 0 {
+			if l := real(lp.num.EvalComplex(-1) / d); l < 0 {
+				high = &crossing{w: lp.nyquist(), k: -1 / l, slope: math.NaN()}
+			}
+		}
+	}
+	return low, high
+}
+
+// rationalPhaseCrossovers returns the phase crossovers ω > 0 of a loop
+// without dead time: the positive real roots of Im(an·conj ad)/v, a
+// polynomial in x = v², at which L is real and negative, polished by
+// Newton's method on the directly evaluated phase.
+func (lp *loop) rationalPhaseCrossovers() ([]crossing, error) {
+	j := lp.ni.Mul(lp.dr).Sub(lp.nr.Mul(lp.di))
+	re := lp.nr.Mul(lp.dr).Add(xPoly.Mul(lp.ni.Mul(lp.di)))
+	scale := math.Max(lp.ni.Mul(lp.dr).NormInf(), lp.nr.Mul(lp.di).NormInf())
+	if j.NormInf() <= 1e-14*scale || j.IsZero() {
+		// L(jω) is real at every frequency.
+		neg := re.Lead() < 0 || re.Coef(0) < 0 || len(positiveRoots(re)) > 0
+		if neg {
+			return nil, fmt.Errorf("%w: L is real at every frequency and negative on a band", ErrDegenerate)
+		}
+		return nil, nil
+	}
+	var out []crossing
+	for _, x := range positiveRoots(j) {
+		if c, ok := lp.polishPhaseCrossing(lp.fromAxis(math.Sqrt(x))); ok {
+			out = append(out, c)
+		}
+	}
+	return uniqueCrossings(out), nil
+}
+
+// polishPhaseCrossing refines a candidate phase crossover by Newton's
+// method on the wrapped phase error and checks that L is real and negative
+// there.
+func (lp *loop) polishPhaseCrossing(w0 float64) (crossing, bool) {
+	f := func(w float64) (float64, float64) {
+		v, d := lp.logValue(w)
+		return math.Remainder(imag(v)-math.Pi, 2*math.Pi), imag(d)
+	}
+	w, ok := newton(f, w0, 0, lp.nyquist())
+	if !ok {
+		w = w0
+	}
+	l := lp.value(w)
+	if cmplx.IsInf(l) || cmplx.IsNaN(l) || l == 0 || real(l) >= 0 {
+		return crossing{}, false
+	}
+	if v, _ := f(w); math.Abs(v) > 1e-7 {
+		return crossing{}, false
+	}
+	_, d := lp.logValue(w)
+	return crossing{w: w, k: 1 / cmplx.Abs(l), slope: imag(d)}, true
+}
+
+func uniqueCrossings(cs []crossing) []crossing {
+	sortCrossings(cs)
+	out := cs[:0]
+	for _, c := range cs {
+		if len(out) > 0 && math.Abs(c.w-out[len(out)-1].w) <= dedupeRel*c.w {
+			continue
+		}
+		out = append(out, c)
+	}
+	return out
+}
+
+func sortCrossings(cs []crossing) {
+	for i := 1; i < len(cs); i++ {
+		for j := i; j > 0 && cs[j].w < cs[j-1].w; j-- {
+			cs[j], cs[j-1] = cs[j-1], cs[j]
+		}
+	}
+}
+
+// phaseCriticalPoints returns the frequencies ω > 0 where the continuous
+// phase ψ(ω) = θ(ω) − ωτ of a continuous-time loop is stationary. With
+// F(ω) = an(jω)·conj ad(jω) = R(x) + jω·J(x), x = ω², the phase of the
+// rational part has θ′ = (R·I′ − I·R′)/(R² + I²), I = ωJ, so θ′ = τ is the
+// polynomial equation
+//
+//	R·J + 2x·(R·J′ − J·R′) − τ·(R² + x·J²) = 0  in x.
+//
+// Between consecutive critical points (and poles on the imaginary axis) ψ is
+// strictly monotone, so every level −π + 2πk it passes is crossed exactly
+// once there: the search cannot miss a crossover.
+func (lp *loop) phaseCriticalPoints() []float64 {
+	j := lp.ni.Mul(lp.dr).Sub(lp.nr.Mul(lp.di))
+	r := lp.nr.Mul(lp.dr).Add(xPoly.Mul(lp.ni.Mul(lp.di)))
+	c := r.Mul(j).Add(xPoly.Mul(r.Mul(j.Derivative()).Sub(j.Mul(r.Derivative()))).Scale(2))
+	c = c.Sub(r.Mul(r).Add(xPoly.Mul(j.Mul(j))).Scale(lp.tau))
+	var out []float64
+	for _, x := range positiveRoots(c) {
+		out = append(out, math.Sqrt(x))
+	}
+	return out
+}
+
+// delayPhaseCrossovers returns every phase crossover with 0 < ω ≤ wmax of a
+// continuous-time loop with dead time. The interval is cut at the critical
+// points of the phase and at poles on the imaginary axis; on each piece the
+// phase is monotone, the levels −π + 2πk between its end values are
+// bracketed and each is refined by Brent's method (Brent 1973).
+func (lp *loop) delayPhaseCrossovers(wmax float64) []crossing {
+	cuts := []float64{0}
+	for _, w := range lp.phaseCriticalPoints() {
+		if w < wmax {
+			cuts = append(cuts, w)
+		}
+	}
+	jumps := map[float64]bool{}
+	for _, w := range lp.onAxisFrequencies(false) {
+		if w < wmax {
+			cuts = append(cuts, w)
+			jumps[w] = true
+		}
+	}
+	cuts = append(cuts, wmax)
+	cuts = sortUnique(cuts, 0)
+	var out []crossing
+	for i := 0; i+1 < len(cuts); i++ {
+		a, b := cuts[i], cuts[i+1]
+		if jumps[a] {
+			a = math.Nextafter(a, b) * (1 + 8*eps)
+		}
+		if jumps[b] {
+			b = math.Nextafter(b, a) * (1 - 8*eps)
+		}
+		if !(b > a) {
+			continue
+		}
+		pa := lp.sumPhase(0)
+		if a > 0 {
+			pa = lp.phase(a)
+		}
+		pb := lp.phase(b)
+		lo, hi := math.Min(pa, pb), math.Max(pa, pb)
+		kLo := math.Floor((lo+math.Pi)/(2*math.Pi)) + 1
+		kHi := math.Ceil((hi+math.Pi)/(2*math.Pi)) - 1
+		for k := kLo; k <= kHi; k++ {
+			level := -math.Pi + 2*math.Pi*k
+			h := func(w float64) float64 { return lp.phase(w) - level }
+			fa, fb := pa-level, pb-level
+			if fa == 0 || fb == 0 || (fa > 0) == (fb > 0) {
+				continue
+			}
+			w := brent(h, a, b, fa, fb)
+			l := lp.value(w)
+			if cmplx.IsInf(l) || l == 0 {
+				continue
+			}
+			_, d := lp.logValue(w)
+			out = append(out, crossing{w: w, k: 1 / cmplx.Abs(l), slope: imag(d)})
+		}
+	}
+	return uniqueCrossings(out)
+}

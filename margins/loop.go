@@ -1,0 +1,321 @@
+package margins
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+
+	"github.com/loopwise/loopwise/poly"
+	"github.com/loopwise/loopwise/tf"
+)
+
+// loop is the analysed form of a loop transfer function.
+//
+// Frequencies are handled through an "axis variable" v ≥ 0 in which the
+// frequency response is a rational function of jv:
+//
+//   - continuous time: v = ω and L(jω) = num(jω)/den(jω)·e^(−jωτ);
+//   - discrete time: the bilinear map z = (1+w)/(1−w) takes the unit circle
+//     z = e^(jωT) to the imaginary axis w = jv with v = tan(ωT/2), and
+//     L(e^(jωT)) = an(jv)/ad(jv) exactly, an(w) = (1−w)ⁿ·num((1+w)/(1−w)),
+//     ad likewise, n = max(deg num, deg den). The Nyquist frequency π/T is
+//     v = ∞.
+//
+// The polynomials an and ad serve for candidate crossovers (roots of
+// polynomials in x = v²) and for the continuous phase; every value reported
+// is then polished on the original num and den.
+type loop struct {
+	num, den poly.Poly // original polynomials in s or z (integer discrete delay absorbed into den)
+	ts       float64   // sample period, 0 for continuous time
+	tau      float64   // continuous-time dead time in seconds
+	an, ad   poly.Poly // polynomials in the axis variable
+	zeros    []complex128
+	poles    []complex128
+	c0       float64 // phase of the ratio of leading coefficients of an and ad: 0 or π
+	// axis parts: an(jv) = nr(v²) + j·v·ni(v²), likewise ad.
+	nr, ni, dr, di poly.Poly
+}
+
+// newLoop validates g and builds its analysed form.
+func newLoop(g tf.TF) (*loop, error) {
+	if g.IsZero() {
+		return nil, fmt.Errorf("%w: the numerator is the zero polynomial", ErrZeroLoop)
+	}
+	if !g.IsProper() {
+		return nil, fmt.Errorf("%w: numerator degree %d exceeds denominator degree %d", ErrImproper, g.Num().Degree(), g.Den().Degree())
+	}
+	lp := &loop{num: g.Num(), den: g.Den(), ts: g.SampleTimeSec()}
+	if !lp.num.IsFinite() || !lp.den.IsFinite() {
+		return nil, fmt.Errorf("%w: a coefficient of the loop", ErrNotFinite)
+	}
+	if d := g.DelaySec(); d != 0 {
+		if math.IsNaN(d) || math.IsInf(d, 0) || d < 0 {
+			return nil, fmt.Errorf("%w: dead time %v s", ErrNotFinite, d)
+		}
+		if lp.ts > 0 {
+			k := math.Round(d / lp.ts)
+			if math.Abs(d/lp.ts-k) > 1e-9*math.Max(1, k) {
+				return nil, fmt.Errorf("%w: discrete loop with dead time %v s, not a whole number of sample periods %v s", ErrUnsupported, d, lp.ts)
+			}
+			lp.den = lp.den.ShiftUp(int(k))
+		} else {
+			lp.tau = d
+		}
+	}
+	if lp.ts > 0 {
+		n := max(lp.num.Degree(), lp.den.Degree())
+		lp.an = bilinear(lp.num, n)
+		lp.ad = bilinear(lp.den, n)
+		if lp.ad.IsZero() {
+			return nil, fmt.Errorf("%w: the denominator vanishes on the unit circle identically", ErrDegenerate)
+		}
+	} else {
+		lp.an, lp.ad = lp.num, lp.den
+	}
+	var err error
+	if lp.zeros, err = lp.an.Roots(); err != nil {
+		return nil, fmt.Errorf("margins: zeros of the loop: %w", err)
+	}
+	if lp.poles, err = lp.ad.Roots(); err != nil {
+		return nil, fmt.Errorf("margins: poles of the loop: %w", err)
+	}
+	if lp.an.Lead()*lp.ad.Lead() < 0 {
+		lp.c0 = math.Pi
+	}
+	lp.nr, lp.ni = axisParts(lp.an)
+	lp.dr, lp.di = axisParts(lp.ad)
+	if lp.tau > 0 {
+		for _, z := range lp.zeros {
+			if real(z) == 0 {
+				return nil, fmt.Errorf("%w: dead time with a zero of L on the imaginary axis at %v", ErrUnsupported, z)
+			}
+		}
+	}
+	return lp, nil
+}
+
+// bilinear returns (1−w)ⁿ·p((1+w)/(1−w)), exact up to the rounding of the
+// binomial sums.
+func bilinear(p poly.Poly, n int) poly.Poly {
+	one := poly.MustNew(1, 1)    // 1 + w
+	minus := poly.MustNew(-1, 1) // 1 − w
+	out := poly.Poly{}
+	c := p.Ascending()
+	for k, a := range c {
+		if a == 0 {
+			continue
+		}
+		out = out.Add(one.Pow(k).Mul(minus.Pow(n - k)).Scale(a))
+	}
+	return out
+}
+
+// axisParts returns re and im with p(jv) = re(v²) + j·v·im(v²).
+func axisParts(p poly.Poly) (re, im poly.Poly) {
+	c := p.Ascending()
+	r := make([]float64, len(c)/2+1)
+	i := make([]float64, len(c)/2+1)
+	for k, a := range c {
+		m := k / 2
+		sign := 1.0
+		if m%2 == 1 {
+			sign = -1
+		}
+		if k%2 == 0 {
+			r[m] += sign * a
+		} else {
+			i[m] += sign * a
+		}
+	}
+	re, _ = poly.FromAscending(r)
+	im, _ = poly.FromAscending(i)
+	return re, im
+}
+
+// discrete reports whether the loop is in discrete time.
+func (lp *loop) discrete() bool { return lp.ts > 0 }
+
+// nyquist returns π/T for discrete loops and +Inf for continuous ones.
+func (lp *loop) nyquist() float64 {
+	if lp.discrete() {
+		return math.Pi / lp.ts
+	}
+	return math.Inf(1)
+}
+
+// toAxis maps a frequency ω in rad/s to the axis variable v.
+func (lp *loop) toAxis(w float64) float64 {
+	if !lp.discrete() {
+		return w
+	}
+	if w >= lp.nyquist() {
+		return math.Inf(1)
+	}
+	return math.Tan(w * lp.ts / 2)
+}
+
+// fromAxis maps the axis variable v to the frequency ω in rad/s.
+func (lp *loop) fromAxis(v float64) float64 {
+	if !lp.discrete() {
+		return v
+	}
+	return 2 * math.Atan(v) / lp.ts
+}
+
+// point returns s = jω or z = e^(jωT).
+func (lp *loop) point(w float64) complex128 {
+	if lp.discrete() {
+		return cmplx.Rect(1, w*lp.ts)
+	}
+	return complex(0, w)
+}
+
+// parts returns num and den at the frequency point of ω, and the delay
+// factor e^(−jωτ).
+func (lp *loop) parts(w float64) (n, d, e complex128) {
+	x := lp.point(w)
+	n = lp.num.EvalComplex(x)
+	d = lp.den.EvalComplex(x)
+	e = 1
+	if lp.tau != 0 {
+		e = cmplx.Rect(1, -w*lp.tau)
+	}
+	return n, d, e
+}
+
+// value returns L at frequency ω (complex infinity at a pole).
+func (lp *loop) value(w float64) complex128 {
+	n, d, e := lp.parts(w)
+	if d == 0 {
+		return cmplx.Inf()
+	}
+	return n / d * e
+}
+
+// logValue returns ln L(ω) = ln|L| + j·(principal phase − ωτ) and its
+// derivative with respect to ω.
+func (lp *loop) logValue(w float64) (val, der complex128) {
+	x := lp.point(w)
+	n, n1 := lp.num.EvalWithDerivative(x)
+	d, d1 := lp.den.EvalWithDerivative(x)
+	val = cmplx.Log(n/d) - complex(0, w*lp.tau)
+	dx := complex(0, 1) // ds/dω
+	if lp.discrete() {
+		dx = complex(0, lp.ts) * x // dz/dω
+	}
+	der = dx*(n1/n-d1/d) - complex(0, lp.tau)
+	return val, der
+}
+
+// rootAngle returns the continuous branch of arg(jv − r) for v ≥ 0:
+// in (−π/2, π/2) for Re r < 0, in (π/2, 3π/2) for Re r > 0, and ±π/2 for
+// roots on the imaginary axis (a jump of π where v passes Im r; at v = Im r
+// the value after the jump is returned).
+func rootAngle(v float64, r complex128) float64 {
+	a, b := real(r), imag(r)
+	if a == 0 {
+		if v >= b {
+			return math.Pi / 2
+		}
+		return -math.Pi / 2
+	}
+	t := math.Atan2(v-b, -a)
+	if a > 0 && t < 0 {
+		t += 2 * math.Pi
+	}
+	return t
+}
+
+// sumPhase returns the continuous phase of the rational part, in radians,
+// from the roots of an and ad: c0 + Σ arg(jv − zᵢ) − Σ arg(jv − pⱼ). It is
+// exact up to the accuracy of the roots and serves to choose the branch of
+// the accurately evaluated phase.
+func (lp *loop) sumPhase(v float64) float64 {
+	if math.IsInf(v, 1) {
+		return lp.c0 + float64(len(lp.zeros)-len(lp.poles))*math.Pi/2
+	}
+	p := lp.c0
+	for _, z := range lp.zeros {
+		p += rootAngle(v, z)
+	}
+	for _, q := range lp.poles {
+		p -= rootAngle(v, q)
+	}
+	return p
+}
+
+// phase returns the continuous (unwrapped) phase of L at ω in radians,
+// dead time included: the principal phase of the directly evaluated L on
+// the branch selected by sumPhase.
+func (lp *loop) phase(w float64) float64 {
+	v := lp.toAxis(w)
+	ref := lp.sumPhase(v)
+	n, d, _ := lp.parts(w)
+	if d == 0 || n == 0 || cmplx.IsInf(n/d) {
+		return ref - w*lp.tau
+	}
+	p := cmplx.Phase(n / d)
+	p += 2 * math.Pi * math.Round((ref-p)/(2*math.Pi))
+	return p - w*lp.tau
+}
+
+// onAxisFrequencies returns the frequencies ω > 0 of the poles (and zeros)
+// of L on the imaginary axis (unit circle for discrete loops), ascending.
+func (lp *loop) onAxisFrequencies(includeZeros bool) []float64 {
+	var out []float64
+	add := func(rs []complex128) {
+		for _, r := range rs {
+			if real(r) == 0 && imag(r) > 0 {
+				out = append(out, lp.fromAxis(imag(r)))
+			}
+		}
+	}
+	add(lp.poles)
+	if includeZeros {
+		add(lp.zeros)
+	}
+	return sortUnique(out, 0)
+}
+
+// integrators returns the number of poles of L at s = 0 (z = 1).
+func (lp *loop) integrators() int {
+	k := 0
+	for _, p := range lp.poles {
+		if p == 0 {
+			k++
+		}
+	}
+	return k
+}
+
+// unstablePoles returns the number of poles of L with Re s > 0 (|z| > 1).
+func (lp *loop) unstablePoles() int {
+	k := 0
+	for _, p := range lp.poles {
+		if real(p) > 0 {
+			k++
+		}
+	}
+	return k
+}
+
+// characteristicScale returns the smallest and largest non-zero magnitudes
+// of the poles and zeros, as frequencies in rad/s (0, 0 when there are none).
+func (lp *loop) characteristicScale() (lo, hi float64) {
+	lo = math.Inf(1)
+	for _, rs := range [][]complex128{lp.zeros, lp.poles} {
+		for _, r := range rs {
+			m := cmplx.Abs(r)
+			if m == 0 {
+				continue
+			}
+			w := lp.fromAxis(m)
+			lo = math.Min(lo, w)
+			hi = math.Max(hi, w)
+		}
+	}
+	if math.IsInf(lo, 1) {
+		return 0, 0
+	}
+	return lo, hi
+}
