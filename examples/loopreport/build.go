@@ -1,0 +1,210 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strings"
+	"unicode/utf8"
+
+	"github.com/loopwise/loopwise/tf"
+)
+
+// loopModel is a loop file turned into transfer functions.
+type loopModel struct {
+	file *loopFile
+	// gain is the nominal loop gain k.
+	gain float64
+	// controller, plant and sensor are the parsed expressions at the
+	// nominal parameter value, before any discretization.
+	controller, plant, sensor tf.TF
+	// base is controller·plant·sensor with the dead time, converted to z
+	// when the file asks for it: the loop whose root locus in k is drawn.
+	base tf.TF
+	// open is L = k·base, the loop at which margins and responses are
+	// evaluated.
+	open tf.TF
+	// forward is k·controller·plant (converted like base): the path from
+	// reference to output. It equals open when the sensor is 1.
+	forward tf.TF
+	// unitySensor reports whether the sensor is 1, so that the closed loop
+	// from reference to output is L/(1 + L).
+	unitySensor bool
+	// loopAt returns k·controller·plant·sensor (with dead time and
+	// discretization) at the parameter value p; nil without a parameter.
+	loopAt func(p float64) (tf.TF, error)
+	// discrete describes the conversion to z; nil without "discretize".
+	discrete *discreteLoopSection
+}
+
+// parseExpr reads the expression text of key, naming the key and the
+// position in the file on error.
+func (lf *loopFile) parseExpr(key, text string, params map[string]float64) (tf.TF, error) {
+	g, err := tf.ParseWith(text, &tf.ParseSettings{SampleTimeSec: lf.SampleTimeSec, Params: params})
+	if err == nil {
+		return g, nil
+	}
+	where := ""
+	if p, ok := lf.pos[key]; ok {
+		where = " at " + p.String()
+	}
+	var se *tf.SyntaxError
+	if errors.As(err, &se) {
+		msg := fmt.Sprintf("key %q%s: cannot read the expression %q: at column %d of the text", key, where, text, utf8.RuneCountInString(text[:min(se.Offset, len(text))])+1)
+		if off, ok := lf.off[key]; ok && verbatim(lf.data, off, text) {
+			msg += fmt.Sprintf(" (%s of the file)", positionOf(lf.data, off+1+se.Offset))
+		}
+		return tf.TF{}, badInput("%s: %s", msg, se.Msg)
+	}
+	return tf.TF{}, badInput("key %q%s: the expression %q is not usable: %s", key, where, text, strings.TrimPrefix(err.Error(), "tf: "))
+}
+
+// verbatim reports whether the JSON string at offset off of data holds text
+// without escapes, so that offsets in text map to offsets in the file.
+func verbatim(data []byte, off int, text string) bool {
+	end := off + 1 + len(text)
+	return off >= 0 && end < len(data) && data[off] == '"' && string(data[off+1:end]) == text && data[end] == '"'
+}
+
+// buildAt parses controller, plant and sensor with the parameter (if any)
+// set to p and returns them.
+func (lf *loopFile) buildAt(p float64) (c, g, h tf.TF, err error) {
+	var params map[string]float64
+	if lf.Parameter != nil {
+		params = map[string]float64{lf.Parameter.Name: p}
+	}
+	if c, err = lf.parseExpr("controller", lf.Controller, params); err != nil {
+		return
+	}
+	if g, err = lf.parseExpr("plant", lf.Plant, params); err != nil {
+		return
+	}
+	h, err = lf.parseExpr("sensor", lf.Sensor, params)
+	return
+}
+
+// product returns k·c·g·h with the file's extra dead time added.
+func (lf *loopFile) product(k float64, parts ...tf.TF) (tf.TF, error) {
+	out := parts[0]
+	for _, p := range parts[1:] {
+		var err error
+		if out, err = out.Series(p); err != nil {
+			return tf.TF{}, badInput("the loop cannot be formed: %v", err)
+		}
+	}
+	out, err := out.Scale(k)
+	if err != nil {
+		return tf.TF{}, badInput("key \"gain\": %v", err)
+	}
+	if lf.DelaySec > 0 {
+		if out, err = out.WithDelay(out.DelaySec() + lf.DelaySec); err != nil {
+			return tf.TF{}, badInput("key \"delay_sec\": %v", err)
+		}
+	}
+	return out, nil
+}
+
+// build turns the loop file into transfer functions and checks that the
+// loop can be analysed.
+func build(lf *loopFile) (*loopModel, error) {
+	if lf.Parameter != nil && !validName(lf.Parameter.Name) {
+		return nil, badInput("key \"parameter.name\" %s: %q is not a usable name; use letters, digits and '_', starting with a letter, and not s, z or exp", lf.pos["parameter"], lf.Parameter.Name)
+	}
+	p := 0.0
+	if lf.Parameter != nil {
+		p = lf.Parameter.Value
+	}
+	c, g, h, err := lf.buildAt(p)
+	if err != nil {
+		return nil, err
+	}
+	m := &loopModel{file: lf, gain: lf.Gain, controller: c, plant: g, sensor: h}
+	if m.base, err = lf.product(1, c, g, h); err != nil {
+		return nil, err
+	}
+	if !m.base.IsProper() {
+		return nil, badInput("the loop controller·plant·sensor = %s is improper (numerator degree %d above denominator degree %d); a physical loop needs at least as many poles as zeros — add the roll-off of the sensor or the controller",
+			m.base, m.base.Num().Degree(), m.base.Den().Degree())
+	}
+	if m.base.IsZero() {
+		return nil, badInput("the loop controller·plant·sensor is zero; there is nothing to analyse")
+	}
+	fwd, err := lf.product(1, c, g)
+	if err != nil {
+		return nil, err
+	}
+	one, _ := tf.New([]float64{1}, []float64{1})
+	m.unitySensor = h.WithoutDelay().EqualApprox(one, 0) && h.DelaySec() == 0
+	if d := lf.Discretize; d != nil {
+		if m.base, err = discretize(m.base, d); err != nil {
+			return nil, err
+		}
+		if fwd, err = discretize(fwd, d); err != nil {
+			return nil, err
+		}
+	}
+	if m.open, err = m.base.Scale(lf.Gain); err != nil {
+		return nil, badInput("key \"gain\": %v", err)
+	}
+	if m.forward, err = fwd.Scale(lf.Gain); err != nil {
+		return nil, badInput("key \"gain\": %v", err)
+	}
+	if m.unitySensor {
+		m.forward = m.open
+	}
+	if d := lf.Discretize; d != nil {
+		mo, err := m.open.WithoutDelay().Den().Monic()
+		if err != nil {
+			return nil, badInput("the discretized loop has a zero denominator")
+		}
+		lead := m.open.Den().Lead()
+		num := m.open.Num().Coeffs()
+		for i := range num {
+			num[i] /= lead
+		}
+		m.discrete = &discreteLoopSection{Method: d.Method, SampleTimeSec: number(d.SampleTimeSec), Num: numbers(num), Den: numbers(mo.Coeffs())}
+	}
+	if lf.Parameter != nil {
+		k := lf.Gain
+		m.loopAt = func(p float64) (tf.TF, error) {
+			c, g, h, err := lf.buildAt(p)
+			if err != nil {
+				return tf.TF{}, err
+			}
+			l, err := lf.product(k, c, g, h)
+			if err != nil {
+				return tf.TF{}, err
+			}
+			if d := lf.Discretize; d != nil {
+				return discretize(l, d)
+			}
+			return l, nil
+		}
+	}
+	return m, nil
+}
+
+func numbers(v []float64) []number {
+	out := make([]number, len(v))
+	for i, x := range v {
+		out[i] = number(x)
+	}
+	return out
+}
+
+// validName reports whether name can be a parameter of the text form.
+func validName(name string) bool {
+	if name == "" || name == "s" || name == "z" || name == "exp" {
+		return false
+	}
+	for i, r := range name {
+		letter := r == '_' || (r >= 'a' && r <= 'z') || (r >= 'A' && r <= 'Z')
+		if !letter && (i == 0 || r < '0' || r > '9') {
+			return false
+		}
+	}
+	return true
+}
+
+// finite reports whether x is neither NaN nor infinite.
+func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }

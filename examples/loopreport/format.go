@@ -1,0 +1,129 @@
+package main
+
+import (
+	"fmt"
+	"math"
+	"strings"
+)
+
+// g formats x with 4 significant digits; infinite and missing values are
+// words.
+func g(x number) string {
+	v := float64(x)
+	switch {
+	case math.IsNaN(v):
+		return "none"
+	case math.IsInf(v, 1):
+		return "infinite"
+	case math.IsInf(v, -1):
+		return "−infinite"
+	}
+	if v == 0 {
+		return "0"
+	}
+	s := fmt.Sprintf("%.4g", v)
+	if strings.Contains(s, "e") {
+		mant, exp, _ := strings.Cut(s, "e")
+		e := strings.TrimLeft(strings.TrimPrefix(exp, "+"), "0")
+		if strings.HasPrefix(exp, "-") {
+			e = "-" + strings.TrimLeft(exp[1:], "0")
+		}
+		s = mant + "e" + e
+	}
+	return strings.Replace(s, "-", "−", 1)
+}
+
+// gUnit formats x followed by a unit, or a word for a missing value.
+func gUnit(x number, unit string) string {
+	if !finite(float64(x)) {
+		return g(x)
+	}
+	if unit == "°" || unit == "%" {
+		return g(x) + unit
+	}
+	return g(x) + " " + unit
+}
+
+// cplx formats a complex number, "−1.5 ± 2j" style when paired is true.
+func cplx(c complexNumber, paired bool) string {
+	re, im := float64(c.Re), float64(c.Im)
+	if im == 0 {
+		return g(c.Re)
+	}
+	sign := "+"
+	if paired {
+		sign = "±"
+		im = math.Abs(im)
+	} else if im < 0 {
+		sign = "−"
+		im = -im
+	}
+	if re == 0 {
+		if paired {
+			return "±" + g(number(im)) + "j"
+		}
+		return strings.TrimPrefix(sign, "+") + g(number(im)) + "j"
+	}
+	return fmt.Sprintf("%s %s %sj", g(c.Re), sign, g(number(im)))
+}
+
+// rootList formats a list of roots, writing each conjugate pair once.
+func rootList(cs []complexNumber) string {
+	if len(cs) == 0 {
+		return "none"
+	}
+	var parts []string
+	used := make([]bool, len(cs))
+	for i, c := range cs {
+		if used[i] {
+			continue
+		}
+		used[i] = true
+		paired := false
+		if c.Im != 0 {
+			for j := i + 1; j < len(cs); j++ {
+				if !used[j] && cs[j].Re == c.Re && cs[j].Im == -c.Im {
+					used[j] = true
+					paired = true
+					break
+				}
+			}
+		}
+		parts = append(parts, cplx(c, paired))
+	}
+	return strings.Join(parts, ", ")
+}
+
+// intervalText formats (lo, hi) with words for unbounded ends.
+func intervalText(iv interval) string {
+	lo, hi := "−∞", "∞"
+	if finite(float64(iv[0])) {
+		lo = g(iv[0])
+	}
+	if finite(float64(iv[1])) {
+		hi = g(iv[1])
+	}
+	return "(" + lo + ", " + hi + ")"
+}
+
+func intervalList(ivs []interval) string {
+	if len(ivs) == 0 {
+		return "none"
+	}
+	parts := make([]string, len(ivs))
+	for i, iv := range ivs {
+		parts[i] = intervalText(iv)
+	}
+	return strings.Join(parts, " ∪ ")
+}
+
+// stableWord describes a three-state stability flag.
+func stableWord(b *bool) string {
+	switch {
+	case b == nil:
+		return "not determined"
+	case *b:
+		return "stable"
+	}
+	return "unstable"
+}

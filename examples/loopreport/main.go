@@ -1,0 +1,187 @@
+// Command loopreport analyses a linear feedback loop and prints or writes
+// everything loopwise knows about it: open- and closed-loop poles, the root
+// locus with its construction quantities and stable intervals, margins,
+// step response and steady-state errors, requirement verdicts, and plots.
+//
+// Usage:
+//
+//	loopreport [-loop FILE] [-json] [-out DIR] [-quiet]
+//
+// Without -loop it analyses a built-in demonstration loop. The loop file
+// format and the JSON output are documented in README.md and by -h.
+package main
+
+import (
+	_ "embed"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+)
+
+//go:embed demo.json
+var demoLoop []byte
+
+func main() {
+	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+}
+
+const usageHead = `loopreport analyses a linear feedback loop L = k·controller·plant·sensor
+(negative feedback) and prints a summary, or the full analysis as JSON, and
+writes a report folder with plots, a Markdown summary and index.html.
+
+Usage:
+  loopreport [-loop FILE] [-json] [-out DIR] [-quiet]
+
+Without -loop the built-in demonstration loop is analysed (print it with
+-print-demo to start a loop file of your own).
+
+Flags:
+`
+
+const usageFormat = `
+Loop file (JSON; unknown keys are rejected):
+  name             text; a name for the report
+  description      text; a sentence shown in the report
+  plant            text, required: transfer function in s, or in z when
+                   sample_time_sec > 0, e.g. "2.5/(s*(0.2s+1))"; exp(-0.1s)
+                   adds dead time
+  controller       text, default "1"; may use the parameter name
+  sensor           text, default "1": the feedback path
+  gain             number, default 1: the loop gain k at which margins and
+                   responses are evaluated
+  gain_range       [min, max], default [0, null]: the range of k for the
+                   root locus; null is an unbounded end; a negative range
+                   gives the complementary locus
+  parameter        {"name": "p", "value": 0.5, "range": [0, 5]}: the locus,
+                   break points, crossings and stable intervals are then in
+                   the parameter (at the given gain); margins and responses
+                   are evaluated at the given value
+  delay_sec        number, default 0: dead time added to the loop
+  sample_time_sec  number, default 0 (continuous, expressions in s);
+                   positive: the expressions are in z
+  discretize       {"method": "zoh"|"foh"|"tustin"|"matched",
+                    "sample_time_sec": T, "prewarp_rad_per_sec": w}: the
+                   continuous loop is converted and analysed in z
+  requirements     limits checked against the loop:
+                   min_phase_margin_deg, min_gain_margin_db,
+                   min_delay_margin_sec, max_peak_sensitivity,
+                   min_damping_ratio, max_overshoot_pct, max_rise_time_sec,
+                   max_settling_time_sec, max_steady_state_error
+
+Example:
+  {"name": "speed loop", "plant": "40/((s+2)(s+8))",
+   "controller": "(1 + 1/(0.5s))", "gain": 0.8,
+   "requirements": {"min_phase_margin_deg": 45, "max_overshoot_pct": 10}}
+
+JSON output: open_loop, closed_loop, locus, margins, step, steady_state,
+discrete_loop (with discretize), requirements, warnings; a quantity that is
+infinite or does not exist is null; complex numbers are {"re": x, "im": y}.
+See README.md for every key.
+
+Exit status: 0 on success, 2 for bad input (flags, loop file), 1 when the
+report cannot be written.
+
+Results describe a linear model. They do not guarantee the behaviour of real
+hardware: validate loops that drive machines on the real plant with limits
+and interlocks in place.
+`
+
+// run is the whole program: it parses args, reads the loop, analyses it
+// and writes the output. It returns the exit status.
+func run(args []string, stdout, stderr io.Writer) int {
+	fs := flag.NewFlagSet("loopreport", flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	loopPath := fs.String("loop", "", "read the loop from `FILE` (JSON, format below) instead of using the demonstration loop")
+	asJSON := fs.Bool("json", false, "print the full analysis as JSON on stdout instead of the summary; the report folder is then written only when -out is given")
+	outDir := fs.String("out", "loopreport-out", "write the report (plots, summary.md, index.html) into `DIR`; an empty DIR writes no report")
+	quiet := fs.Bool("quiet", false, "do not show the progress line on stderr")
+	printDemo := fs.Bool("print-demo", false, "print the demonstration loop file and exit")
+	fs.Usage = func() {
+		fmt.Fprint(fs.Output(), usageHead)
+		fs.PrintDefaults()
+		fmt.Fprint(fs.Output(), usageFormat)
+	}
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			return 0
+		}
+		return 2
+	}
+	if fs.NArg() > 0 {
+		fmt.Fprintf(stderr, "loopreport: unexpected argument %q; the loop file is given with -loop FILE (see -h)\n", fs.Arg(0))
+		return 2
+	}
+	if *printDemo {
+		stdout.Write(demoLoop)
+		return 0
+	}
+	outGiven := false
+	fs.Visit(func(f *flag.Flag) { outGiven = outGiven || f.Name == "out" })
+	writeReport := *outDir != "" && (!*asJSON || outGiven)
+
+	name, data := "the demonstration loop", demoLoop
+	if *loopPath != "" {
+		var err error
+		name = *loopPath
+		data, err = os.ReadFile(*loopPath)
+		if err != nil {
+			fmt.Fprintf(stderr, "loopreport: cannot read the loop file: %s\n", describeFileError(*loopPath, err))
+			return 2
+		}
+	}
+	lf, err := readLoopFile(name, data)
+	if err != nil {
+		fmt.Fprintf(stderr, "loopreport: %v\n", err)
+		return 2
+	}
+	m, err := build(lf)
+	if err != nil {
+		fmt.Fprintf(stderr, "loopreport: %s: %v\n", name, err)
+		return 2
+	}
+	prog := newProgress(stderr, *quiet)
+	rep, figs := analyze(m, prog, writeReport)
+	if *asJSON {
+		b, err := marshalReport(rep)
+		if err != nil {
+			prog.done()
+			fmt.Fprintf(stderr, "loopreport: cannot encode the report: %v\n", err)
+			return 1
+		}
+		stdout.Write(b)
+	}
+	var index string
+	if writeReport {
+		prog.step("writing the report")
+		index, err = writeFolder(*outDir, rep, figs)
+		if err != nil {
+			prog.done()
+			fmt.Fprintf(stderr, "loopreport: cannot write the report: %v\n", err)
+			return 1
+		}
+	}
+	prog.done()
+	if !*asJSON {
+		printSummary(stdout, rep)
+		if index != "" {
+			fmt.Fprintf(stdout, "\nReport written to %s (open it in a browser).\n", index)
+		}
+	}
+	return 0
+}
+
+// describeFileError says why a file could not be read, in words.
+func describeFileError(path string, err error) string {
+	switch {
+	case errors.Is(err, os.ErrNotExist):
+		abs, _ := filepath.Abs(path)
+		return fmt.Sprintf("%s does not exist (looked for %s)", path, abs)
+	case errors.Is(err, os.ErrPermission):
+		return fmt.Sprintf("%s cannot be opened: permission denied", path)
+	}
+	return strings.TrimPrefix(err.Error(), "open ")
+}

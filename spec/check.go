@@ -1,0 +1,452 @@
+package spec
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"math/cmplx"
+	"strings"
+
+	"github.com/loopwise/loopwise/margins"
+	"github.com/loopwise/loopwise/response"
+	"github.com/loopwise/loopwise/tf"
+)
+
+// Settings controls Check. A nil *Settings means the defaults.
+type Settings struct {
+	// PadeOrder is the order of the Padé approximation of dead time used
+	// for the closed-loop poles (damping ratio) and the step metrics of a
+	// continuous loop with dead time, 1 to 20. If zero, defaults to 6.
+	PadeOrder int
+	// ReferenceToOutput is the closed loop from reference to output whose
+	// poles (damping ratio) and step response are judged, for a loop whose
+	// feedback path is not 1: with L = F·H (F forward path, H sensor), it
+	// is F/(1 + L). Dead time in it is replaced as in the loop. If zero
+	// (the zero TF), defaults to L/(1 + L).
+	ReferenceToOutput tf.TF
+}
+
+const defaultPadeOrder = 6 // the default of package locus as well
+
+// Result is the verdict on one requirement.
+type Result struct {
+	// Requirement is the requirement checked.
+	Requirement Requirement
+	// Name is the requirement in words ("minimum phase margin").
+	Name string
+	// Limit is the requirement's limit, in the unit of its name.
+	Limit float64
+	// Value is the measured value in the same unit: NaN when it could not
+	// be measured or does not exist, ±Inf when it is infinite.
+	Value float64
+	// Pass reports whether the requirement is met.
+	Pass bool
+	// Message is a sentence in full words: the measured value, the limit,
+	// the verdict, and the reason when the value could not be measured.
+	Message string
+	// Err is non-nil when the value could not be measured (with the reason,
+	// wrapping the analysis package's error) or the requirement is
+	// invalid; the result then fails.
+	Err error
+}
+
+// Report holds one Result per requirement, in the order of the
+// Requirements checked.
+type Report struct {
+	Results []Result
+}
+
+// Passed reports whether every requirement is met.
+func (r Report) Passed() bool {
+	for _, x := range r.Results {
+		if !x.Pass {
+			return false
+		}
+	}
+	return true
+}
+
+// Failures returns the results that did not pass, in order.
+func (r Report) Failures() []Result {
+	var out []Result
+	for _, x := range r.Results {
+		if !x.Pass {
+			out = append(out, x)
+		}
+	}
+	return out
+}
+
+// Err returns nil when every requirement is met, and otherwise a
+// *FailureError listing every failure, which matches ErrNotMet with
+// errors.Is (and ErrInvalidRequirement when a requirement was invalid).
+func (r Report) Err() error {
+	f := r.Failures()
+	if len(f) == 0 {
+		return nil
+	}
+	return &FailureError{Failures: f, Checked: len(r.Results)}
+}
+
+// String lists every verdict on its own line.
+func (r Report) String() string {
+	var b strings.Builder
+	for _, x := range r.Results {
+		verdict := "pass"
+		if !x.Pass {
+			verdict = "FAIL"
+		}
+		fmt.Fprintf(&b, "%s: %s\n", verdict, x.Message)
+	}
+	return b.String()
+}
+
+// FailureError is the error of Report.Err: the requirements not met.
+type FailureError struct {
+	// Failures are the results that did not pass.
+	Failures []Result
+	// Checked is the number of requirements checked.
+	Checked int
+}
+
+// Error lists every failure, one per line.
+func (e *FailureError) Error() string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "spec: %d of %d requirements not met:", len(e.Failures), e.Checked)
+	for _, f := range e.Failures {
+		b.WriteString("\n  - ")
+		b.WriteString(f.Message)
+	}
+	return b.String()
+}
+
+// Is reports whether target is ErrNotMet, or ErrInvalidRequirement when a
+// failure comes from an invalid requirement.
+func (e *FailureError) Is(target error) bool {
+	if target == ErrNotMet {
+		return true
+	}
+	for _, f := range e.Failures {
+		if f.Err != nil && errors.Is(f.Err, target) {
+			return true
+		}
+	}
+	return false
+}
+
+// Check evaluates the loop transfer function loop (unity negative
+// feedback) against every requirement, with the default settings. See
+// CheckWith.
+func Check(loop tf.TF, req Requirements) Report {
+	return CheckWith(loop, req, nil)
+}
+
+// CheckWith evaluates the loop transfer function loop against every
+// requirement and returns one Result per requirement, in order. Only the
+// analyses the requirements need are run: margins.Compute for the margins
+// and the peak sensitivity, the closed-loop poles for the damping ratio,
+// response.StepMetrics of L/(1 + L) for the step metrics and
+// response.SteadyState for the steady-state error. A failing analysis
+// fails the requirements that need it, with the reason in the message.
+// Invalid settings fail every requirement with ErrInvalidSettings.
+func CheckWith(loop tf.TF, req Requirements, set *Settings) Report {
+	e := &evaluator{loop: loop, padeOrder: defaultPadeOrder}
+	if set != nil && set.PadeOrder != 0 {
+		e.padeOrder = set.PadeOrder
+	}
+	if set != nil && !set.ReferenceToOutput.IsZero() {
+		e.refToOut = set.ReferenceToOutput
+		e.haveRefToOut = true
+	}
+	var setErr error
+	if e.padeOrder < 1 || e.padeOrder > 20 {
+		setErr = fmt.Errorf("%w: PadeOrder %d is outside 1…20", ErrInvalidSettings, e.padeOrder)
+	}
+	rep := Report{Results: make([]Result, 0, len(req))}
+	for _, r := range req {
+		res := Result{Requirement: r, Name: r.Name(), Limit: r.limit, Value: math.NaN()}
+		err := r.valid()
+		if err == nil {
+			err = setErr
+		}
+		if err != nil {
+			res.Err = err
+			res.Message = fmt.Sprintf("The requirement cannot be checked: %s.", strings.TrimPrefix(err.Error(), "spec: "))
+		} else {
+			e.evaluate(&res)
+		}
+		rep.Results = append(rep.Results, res)
+	}
+	return rep
+}
+
+// evaluator runs each analysis at most once.
+type evaluator struct {
+	loop      tf.TF
+	padeOrder int
+
+	refToOut     tf.TF
+	haveRefToOut bool
+
+	marginsDone bool
+	margins     margins.Result
+	marginsErr  error
+
+	closedDone bool
+	closed     tf.TF // L/(1+L), dead time replaced by Padé
+	closedNote string
+	closedErr  error
+
+	stepDone bool
+	step     response.Metrics
+	stepErr  error
+}
+
+func (e *evaluator) getMargins() (margins.Result, error) {
+	if !e.marginsDone {
+		e.marginsDone = true
+		e.margins, e.marginsErr = margins.Compute(e.loop, nil)
+	}
+	return e.margins, e.marginsErr
+}
+
+// getClosed returns the closed loop L/(1 + L), with dead time replaced by
+// a Padé approximation in continuous time.
+func (e *evaluator) getClosed() (tf.TF, string, error) {
+	if !e.closedDone {
+		e.closedDone = true
+		l := e.loop
+		if e.haveRefToOut {
+			l = e.refToOut
+		}
+		if l.DelaySec() > 0 {
+			// Exact for whole samples of a discrete loop.
+			p, err := l.Pade(e.padeOrder)
+			if err != nil {
+				e.closedErr = err
+				return e.closed, "", err
+			}
+			if !l.IsDiscrete() {
+				e.closedNote = fmt.Sprintf(" (dead time approximated by a Padé approximation of order %d)", e.padeOrder)
+			}
+			l = p
+		}
+		if e.haveRefToOut {
+			e.closed = l
+		} else {
+			e.closed, e.closedErr = l.ClosedLoop()
+		}
+	}
+	return e.closed, e.closedNote, e.closedErr
+}
+
+func (e *evaluator) getStep() (response.Metrics, error) {
+	if !e.stepDone {
+		e.stepDone = true
+		cl, _, err := e.getClosed()
+		if err != nil {
+			e.stepErr = err
+		} else {
+			e.step, e.stepErr = response.StepMetrics(cl, nil)
+		}
+	}
+	return e.step, e.stepErr
+}
+
+// cannot fills res for a value that could not be measured.
+func cannot(res *Result, what string, err error) {
+	res.Err = err
+	res.Message = fmt.Sprintf("The %s could not be measured, so the requirement (%s) is not met: %s.", what, res.Requirement, reason(err))
+}
+
+// reason turns an analysis error into words for a message.
+func reason(err error) string {
+	switch {
+	case errors.Is(err, response.ErrUnstable):
+		return "the closed loop is unstable"
+	case errors.Is(err, response.ErrZeroFinalValue):
+		return "the closed loop's static gain is zero, so the step response has no level to reach"
+	case errors.Is(err, response.ErrNotSettled):
+		return "the step response did not settle within the longest horizon tried"
+	}
+	s := err.Error()
+	for _, p := range []string{"margins: ", "response: ", "tf: ", "spec: "} {
+		s = strings.TrimPrefix(s, p)
+	}
+	return s
+}
+
+// judge fills Pass and Message from a measured value.
+func judge(res *Result, what, unit, extra string) {
+	info := quantities[res.Requirement.q]
+	v, lim := res.Value, res.Limit
+	if info.minimum {
+		res.Pass = v >= lim
+	} else {
+		res.Pass = v <= lim
+	}
+	val := withUnit(v, unit)
+	switch {
+	case info.minimum && res.Pass:
+		res.Message = fmt.Sprintf("The %s is %s%s, at least the required %s: met.", what, val, extra, withUnit(lim, unit))
+	case info.minimum:
+		res.Message = fmt.Sprintf("The %s is %s%s, below the required minimum of %s: not met.", what, val, extra, withUnit(lim, unit))
+	case res.Pass:
+		res.Message = fmt.Sprintf("The %s is %s%s, within the allowed maximum of %s: met.", what, val, extra, withUnit(lim, unit))
+	default:
+		res.Message = fmt.Sprintf("The %s is %s%s, above the allowed maximum of %s: not met.", what, val, extra, withUnit(lim, unit))
+	}
+}
+
+func (e *evaluator) evaluate(res *Result) {
+	info := quantities[res.Requirement.q]
+	switch res.Requirement.q {
+	case phaseMargin, gainMargin, delayMargin, peakSensitivity:
+		m, err := e.getMargins()
+		if err != nil {
+			cannot(res, info.what, err)
+			return
+		}
+		extra := ""
+		switch res.Requirement.q {
+		case phaseMargin:
+			res.Value = m.PhaseMarginDeg
+			if math.IsNaN(res.Value) && m.ClosedLoopStable {
+				// No gain crossover with a stable closed loop: |L| < 1 at
+				// every frequency, so no phase change can destabilise it.
+				res.Value = math.Inf(1)
+				extra = " (the loop gain stays below 1 at every frequency)"
+			} else if finite(m.GainCrossoverRadPerSec) {
+				extra = fmt.Sprintf(" at %s rad/s", num(m.GainCrossoverRadPerSec))
+			}
+		case gainMargin:
+			res.Value = m.GainMarginDB
+			if math.IsNaN(res.Value) && m.ClosedLoopStable {
+				res.Value = math.Inf(1)
+			}
+			if finite(m.PhaseCrossoverRadPerSec) && finite(res.Value) {
+				extra = fmt.Sprintf(" at %s rad/s", num(m.PhaseCrossoverRadPerSec))
+			}
+		case delayMargin:
+			res.Value = m.DelayMarginSec
+		case peakSensitivity:
+			res.Value = m.PeakSensitivity
+			if finite(m.PeakSensitivityRadPerSec) {
+				extra = fmt.Sprintf(" at %s rad/s", num(m.PeakSensitivityRadPerSec))
+			}
+		}
+		if !m.ClosedLoopStable {
+			res.Pass = false
+			res.Message = fmt.Sprintf("The closed loop is unstable, so the %s of %s is no safety margin and the requirement (%s) is not met.", info.what, withUnit(res.Value, info.unit), res.Requirement)
+			return
+		}
+		if math.IsNaN(res.Value) {
+			res.Message = fmt.Sprintf("The %s does not exist for this loop, so the requirement (%s) is not met.", info.what, res.Requirement)
+			return
+		}
+		judge(res, info.what, info.unit, extra)
+
+	case dampingRatio:
+		cl, note, err := e.getClosed()
+		if err != nil {
+			cannot(res, info.what, err)
+			return
+		}
+		poles, err := cl.Poles()
+		if err != nil {
+			cannot(res, info.what, err)
+			return
+		}
+		if len(poles) == 0 {
+			res.Value = math.Inf(1)
+			res.Pass = true
+			res.Message = fmt.Sprintf("The closed loop has no poles, so every pole meets the requirement (%s).", res.Requirement)
+			return
+		}
+		zeta, worst := math.Inf(1), complex128(0)
+		for _, p := range poles {
+			z := DampingRatio(p, cl.SampleTimeSec())
+			if z < zeta {
+				zeta, worst = z, p
+			}
+		}
+		res.Value = zeta
+		what := "smallest damping ratio of the closed-loop poles"
+		judge(res, what, "", fmt.Sprintf(" (pole %s%s)", formatPole(worst), note))
+
+	case overshoot, riseTime, settlingTime:
+		m, err := e.getStep()
+		if err != nil {
+			cannot(res, info.what, err)
+			return
+		}
+		_, note, _ := e.getClosed()
+		switch res.Requirement.q {
+		case overshoot:
+			res.Value = m.OvershootPct
+		case riseTime:
+			res.Value = m.RiseTimeSec
+		case settlingTime:
+			res.Value = m.SettlingTimeSec
+		}
+		if math.IsNaN(res.Value) {
+			res.Message = fmt.Sprintf("The %s does not exist for this loop%s, so the requirement (%s) is not met.", info.what, note, res.Requirement)
+			return
+		}
+		judge(res, info.what, info.unit, note)
+
+	case steadyStateError:
+		l := e.loop
+		extra := ""
+		if l.DelaySec() > 0 && !l.IsDiscrete() {
+			// Dead time does not change the limit L(0), but SteadyState
+			// cannot decide stability with it: use the Nyquist verdict.
+			m, err := e.getMargins()
+			if err != nil {
+				cannot(res, info.what, err)
+				return
+			}
+			if !m.ClosedLoopStable {
+				cannot(res, info.what, response.ErrUnstable)
+				return
+			}
+			l = l.WithoutDelay()
+			extra = ""
+		}
+		s, err := response.SteadyState(l)
+		if err != nil {
+			cannot(res, info.what, err)
+			return
+		}
+		res.Value = s.StepError
+		judge(res, info.what, info.unit, extra)
+	}
+}
+
+// DampingRatio returns the damping ratio of the pole p: −Re(p)/|p| for a
+// continuous pole (sampleTimeSec = 0), and that of s = ln(p)/T for a
+// discrete pole. A pole at s = 0 (z = 1) has damping ratio 0, a pole at
+// z = 0 (infinitely fast) 1.
+func DampingRatio(p complex128, sampleTimeSec float64) float64 {
+	s := p
+	if sampleTimeSec > 0 {
+		if p == 0 {
+			return 1
+		}
+		s = cmplx.Log(p) / complex(sampleTimeSec, 0)
+	}
+	r := cmplx.Abs(s)
+	if r == 0 {
+		return 0
+	}
+	return -real(s) / r
+}
+
+func formatPole(p complex128) string {
+	if imag(p) == 0 {
+		return num(real(p))
+	}
+	return fmt.Sprintf("%s ± %sj", num(real(p)), num(math.Abs(imag(p))))
+}
+
+func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }

@@ -1,0 +1,52 @@
+// Package spec checks a feedback loop against a list of requirements —
+// minimum phase, gain and delay margins, maximum peak sensitivity, minimum
+// damping ratio of the closed-loop poles, maximum overshoot, rise time,
+// settling time and steady-state error — and returns one verdict per
+// requirement with the measured value and a sentence in full words. It is
+// meant for test rigs and continuous integration: a Go test reads
+//
+//	req := spec.Requirements{
+//		spec.MinPhaseMarginDeg(45),
+//		spec.MinGainMarginDB(6),
+//		spec.MaxOvershootPct(10),
+//	}
+//	if err := spec.Check(loop, req).Err(); err != nil {
+//		t.Fatal(err)
+//	}
+//
+// and fails with a message that lists every requirement not met.
+//
+// # Conventions
+//
+// The loop is the loop transfer function L (in s, or in z with a sample
+// period) of a unity negative-feedback loop: the closed loop from reference
+// to output is L/(1 + L) and its characteristic polynomial is den(L) +
+// num(L). Margins are those of package margins (phase margin in degrees,
+// gain margin in dB, delay margin in seconds, peak sensitivity
+// Ms = max|1/(1 + L(jω))|); step metrics are those of package response for
+// the closed loop (rise time 10 % to 90 %, settling into the 2 % band,
+// overshoot in per cent of the final value; common practice); the
+// steady-state error is the error to a unit step, 1/(1 + Kp) with
+// Kp = L(0) (0 when L has a pole at the origin).
+//
+// The damping ratio of a continuous closed-loop pole p is −Re(p)/|p|
+// (1 for a real stable pole, negative for an unstable one, 0 for a pole on
+// the imaginary axis, including p = 0). A discrete pole z is first mapped
+// to s = ln(z)/T. Dead time has infinitely many closed-loop poles; they are
+// approximated by a Padé approximation of Settings.PadeOrder (the verdict's
+// message says so), as are the step metrics of a loop with dead time.
+//
+// A requirement on a margin fails when the closed loop is unstable, whatever
+// the margin's value: margins of an unstable loop are not safety margins.
+// A quantity that cannot be measured (the step metrics of an unstable loop)
+// fails its requirement, and the message says why. An infinite margin (no
+// crossover) passes a minimum; a phase margin that does not exist because
+// |L| < 1 at every frequency passes when the closed loop is stable.
+//
+// # Invariants
+//
+// Requirement, Requirements, Result and Report are values; Check never
+// modifies its inputs and is safe for concurrent use. Check returns exactly
+// one Result per Requirement, in the order given. Report.Err returns nil if
+// and only if every result passes.
+package spec

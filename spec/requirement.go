@@ -1,0 +1,181 @@
+package spec
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+)
+
+// quantity names what a requirement limits.
+type quantity int
+
+const (
+	invalidQuantity quantity = iota
+	phaseMargin
+	gainMargin
+	delayMargin
+	peakSensitivity
+	dampingRatio
+	overshoot
+	riseTime
+	settlingTime
+	steadyStateError
+)
+
+// quantityInfo describes a quantity in words.
+type quantityInfo struct {
+	key     string // loop-file key of the requirement
+	what    string // "phase margin"
+	unit    string // "°", " dB", " s", "%" or ""
+	minimum bool   // the limit is a minimum (else a maximum)
+}
+
+var quantities = map[quantity]quantityInfo{
+	phaseMargin:      {"min_phase_margin_deg", "phase margin", "°", true},
+	gainMargin:       {"min_gain_margin_db", "gain margin", " dB", true},
+	delayMargin:      {"min_delay_margin_sec", "delay margin", " s", true},
+	peakSensitivity:  {"max_peak_sensitivity", "peak sensitivity", "", false},
+	dampingRatio:     {"min_damping_ratio", "damping ratio of the closed-loop poles", "", true},
+	overshoot:        {"max_overshoot_pct", "step-response overshoot", " %", false},
+	riseTime:         {"max_rise_time_sec", "step-response rise time (10 % to 90 %)", " s", false},
+	settlingTime:     {"max_settling_time_sec", "step-response settling time (2 % band)", " s", false},
+	steadyStateError: {"max_steady_state_error", "steady-state error to a unit step", "", false},
+}
+
+// Requirement is one limit on a quantity of the loop. Make it with
+// MinPhaseMarginDeg, MinGainMarginDB, MinDelayMarginSec,
+// MaxPeakSensitivity, MinDampingRatio, MaxOvershootPct, MaxRiseTimeSec,
+// MaxSettlingTimeSec or MaxSteadyStateError; the zero value is not a valid
+// requirement and fails when checked.
+type Requirement struct {
+	q     quantity
+	limit float64
+}
+
+// Requirements is a list of requirements, checked in order by Check.
+type Requirements []Requirement
+
+// MinPhaseMarginDeg requires a phase margin of at least deg degrees.
+func MinPhaseMarginDeg(deg float64) Requirement { return Requirement{phaseMargin, deg} }
+
+// MinGainMarginDB requires a gain margin of at least db decibels: the loop
+// gain may rise by the factor 10^(db/20) before the closed loop becomes
+// unstable.
+func MinGainMarginDB(db float64) Requirement { return Requirement{gainMargin, db} }
+
+// MinDelayMarginSec requires that the closed loop tolerate at least sec
+// seconds of additional dead time.
+func MinDelayMarginSec(sec float64) Requirement { return Requirement{delayMargin, sec} }
+
+// MaxPeakSensitivity requires Ms = max|1/(1 + L(jω))| ≤ ms (a ratio, not
+// dB); 1/Ms is the shortest distance of the Nyquist curve from −1.
+func MaxPeakSensitivity(ms float64) Requirement { return Requirement{peakSensitivity, ms} }
+
+// MinDampingRatio requires every closed-loop pole to have a damping ratio
+// of at least zeta (see the package documentation for discrete poles and
+// dead time).
+func MinDampingRatio(zeta float64) Requirement { return Requirement{dampingRatio, zeta} }
+
+// MaxOvershootPct requires the closed-loop step response to overshoot its
+// final value by at most pct per cent.
+func MaxOvershootPct(pct float64) Requirement { return Requirement{overshoot, pct} }
+
+// MaxRiseTimeSec requires the closed-loop step response to rise from 10 %
+// to 90 % of its final value in at most sec seconds.
+func MaxRiseTimeSec(sec float64) Requirement { return Requirement{riseTime, sec} }
+
+// MaxSettlingTimeSec requires the closed-loop step response to enter and
+// stay in the band of ±2 % around its final value within sec seconds.
+func MaxSettlingTimeSec(sec float64) Requirement { return Requirement{settlingTime, sec} }
+
+// MaxSteadyStateError requires the steady-state error to a unit step,
+// 1/(1 + Kp), to be at most e (a fraction of the step, not per cent).
+func MaxSteadyStateError(e float64) Requirement { return Requirement{steadyStateError, e} }
+
+// ByKey returns the requirement named by key with the given limit. The
+// keys are those of the loop file of examples/loopreport:
+// "min_phase_margin_deg", "min_gain_margin_db", "min_delay_margin_sec",
+// "max_peak_sensitivity", "min_damping_ratio", "max_overshoot_pct",
+// "max_rise_time_sec", "max_settling_time_sec", "max_steady_state_error".
+// It returns ErrInvalidRequirement for an unknown key.
+func ByKey(key string, limit float64) (Requirement, error) {
+	for q := phaseMargin; q <= steadyStateError; q++ {
+		if quantities[q].key == key {
+			return Requirement{q, limit}, nil
+		}
+	}
+	return Requirement{}, fmt.Errorf("%w: unknown key %q", ErrInvalidRequirement, key)
+}
+
+// Keys returns the keys ByKey accepts, in the order of the constructors.
+func Keys() []string {
+	out := make([]string, 0, len(quantities))
+	for q := phaseMargin; q <= steadyStateError; q++ {
+		out = append(out, quantities[q].key)
+	}
+	return out
+}
+
+// Key returns the requirement's key ("min_phase_margin_deg"), or "" for the
+// zero value.
+func (r Requirement) Key() string { return quantities[r.q].key }
+
+// Limit returns the limit in the unit of the requirement's name.
+func (r Requirement) Limit() float64 { return r.limit }
+
+// Name returns the requirement in words: "minimum phase margin".
+func (r Requirement) Name() string {
+	info, ok := quantities[r.q]
+	if !ok {
+		return "invalid requirement"
+	}
+	if info.minimum {
+		return "minimum " + info.what
+	}
+	return "maximum " + info.what
+}
+
+// String returns the requirement with its limit: "phase margin at least
+// 45°".
+func (r Requirement) String() string {
+	info, ok := quantities[r.q]
+	if !ok {
+		return "invalid requirement"
+	}
+	bound := "at most"
+	if info.minimum {
+		bound = "at least"
+	}
+	return fmt.Sprintf("%s %s %s", info.what, bound, withUnit(r.limit, info.unit))
+}
+
+// valid reports whether the requirement can be checked, with the reason.
+func (r Requirement) valid() error {
+	if _, ok := quantities[r.q]; !ok {
+		return fmt.Errorf("%w: the zero Requirement; make requirements with MinPhaseMarginDeg and the other functions of package spec", ErrInvalidRequirement)
+	}
+	if math.IsNaN(r.limit) || math.IsInf(r.limit, 0) {
+		return fmt.Errorf("%w: %s has the limit %v; a limit must be a finite number", ErrInvalidRequirement, r.Name(), r.limit)
+	}
+	return nil
+}
+
+// num formats x with 4 significant digits for messages.
+func num(x float64) string {
+	switch {
+	case math.IsInf(x, 1):
+		return "infinite"
+	case math.IsInf(x, -1):
+		return "minus infinite"
+	case math.IsNaN(x):
+		return "undefined"
+	}
+	return strconv.FormatFloat(x, 'g', 4, 64)
+}
+
+func withUnit(x float64, unit string) string {
+	if math.IsInf(x, 0) || math.IsNaN(x) {
+		return num(x)
+	}
+	return num(x) + unit
+}
