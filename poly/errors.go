@@ -16,6 +16,8 @@ var (
 	ErrOverflow = errors.New("poly: result overflows float64")
 	// ErrNoConvergence reports that the eigenvalue solver behind Roots failed.
 	ErrNoConvergence = errors.New("poly: root finder did not converge")
+	// ErrRootCount reports a root set whose size differs from the degree.
+	ErrRootCount = errors.New("poly: number of roots differs from the degree")
 	// ErrBadTolerance reports a negative or NaN tolerance.
 	ErrBadTolerance = errors.New("poly: tolerance must be a finite non-negative number")
 )
