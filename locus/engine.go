@@ -1,0 +1,407 @@
+package locus
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+
+	"github.com/loopwise/loopwise/poly"
+)
+
+// kMap is a parameterisation k(t) of a piece, with dk/dt.
+type kMap func(t float64) (k, dk float64)
+
+// powerMap is k = k0 + d·τ^μ, τ ∈ [0, 1].
+func powerMap(k0, d float64, mu int) kMap {
+	return func(t float64) (float64, float64) {
+		if mu == 1 {
+			return k0 + d*t, d
+		}
+		tp := math.Pow(t, float64(mu-1))
+		return k0 + d*tp*t, float64(mu) * d * tp
+	}
+}
+
+// expMap is k = k0·e^u (towards ±∞) or k = e + (k0 − e)·e^(−u) (towards
+// the finite end e), u ≥ 0.
+func expMap(k0, e float64) kMap {
+	if math.IsInf(e, 0) {
+		return func(u float64) (float64, float64) {
+			k := k0 * math.Exp(u)
+			return k, k
+		}
+	}
+	return func(u float64) (float64, float64) {
+		d := (k0 - e) * math.Exp(-u)
+		return e + d, -d
+	}
+}
+
+// stopFunc decides after each accepted step whether root i at s has
+// finished; it may append a final point through the returned flag.
+type stopFunc func(i int, s complex128, k float64) bool
+
+// cont follows the roots start (the roots of a + k(0)·b, simple except for
+// the clusters given by clus/mult) from t = 0 to tEnd (or until stop has
+// finished every root) and returns each root's points, from its start
+// point on, and the final positions.
+func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []int, mu int, stop stopFunc) ([][]Point, []complex128, error) {
+	p := t.p
+	n := len(start)
+	s := append([]complex128(nil), start...)
+	active := make([]bool, n)
+	paths := make([][]Point, n)
+	k0, _ := km(0)
+	for i := range n {
+		active[i] = !cmplx.IsInf(s[i])
+		if active[i] {
+			paths[i] = []Point{{Value: k0, S: s[i]}}
+		}
+	}
+	// Puiseux coefficients of the clusters at t = 0: members leave along
+	// δ_j = (ρ·Δk)^(1/ν)·e^(2πij/ν), ρ = −b(s₀)·ν!/P^(ν)(s₀).
+	rho := make([]complex128, n)
+	member := make([]int, n)
+	count := map[int]int{}
+	hasCluster := false
+	for i := range n {
+		if clus == nil || clus[i] < 0 || !active[i] {
+			continue
+		}
+		hasCluster = true
+		nu := mult[i]
+		member[i] = count[clus[i]]
+		count[clus[i]]++
+		an := p.a.DerivativeN(nu).EvalComplex(s[i])
+		bn := p.b.DerivativeN(nu).EvalComplex(s[i])
+		pn := an + complex(k0, 0)*bn
+		rho[i] = -p.b.EvalComplex(s[i]) * complex(factorial(nu), 0) / pn
+	}
+	inCluster := func(i int) bool { return clus != nil && clus[i] >= 0 }
+	tan := make([]complex128, n)
+	acc := make([]complex128, n)
+	tanOK := make([]bool, n)
+	for i := range n {
+		if active[i] && !inCluster(i) {
+			tan[i], tanOK[i] = t.tangent(s[i], km, 0)
+		}
+	}
+	// Initial step.
+	h := 0.05
+	if hasCluster {
+		_, d1 := km(1)
+		kEnd, _ := km(1)
+		dk := kEnd - k0
+		_ = d1
+		for i := range n {
+			if !inCluster(i) || !active[i] {
+				continue
+			}
+			nu := float64(mult[i])
+			c := math.Pow(cabs(rho[i])*math.Abs(dk), 1/nu)
+			if c > 0 {
+				hi := math.Pow(0.1*t.chordAbs/c, nu/float64(mu))
+				h = math.Min(h, hi)
+			}
+		}
+		h = math.Max(h, 1e-12)
+	}
+	first := true
+	tc := 0.0
+	pred := make([]complex128, n)
+	corr := make([]complex128, n)
+	ntan := make([]complex128, n)
+	ntanOK := make([]bool, n)
+	steps := 0
+	for {
+		anyActive := false
+		for i := range n {
+			anyActive = anyActive || active[i]
+		}
+		if !anyActive || tc >= tEnd {
+			break
+		}
+		steps++
+		if steps%64 == 0 {
+			if err := t.r.ctx.Err(); err != nil {
+				return paths, s, fmt.Errorf("locus: trace cancelled: %w", err)
+			}
+		}
+		if tc+h > tEnd {
+			h = tEnd - tc
+		}
+		tn := tc + h
+		kn, _ := km(tn)
+		ok := true
+		for i := range n {
+			if !active[i] {
+				continue
+			}
+			switch {
+			case first && inCluster(i):
+				nu := float64(mult[i])
+				v := rho[i] * complex(kn-k0, 0)
+				r := math.Pow(cabs(v), 1/nu)
+				ang := (cmplx.Phase(v) + 2*math.Pi*float64(member[i])) / nu
+				pred[i] = s[i] + cmplx.Rect(r, ang)
+			default:
+				pred[i] = s[i] + complex(h, 0)*tan[i]
+				if !first {
+					pred[i] += complex(h*h/2, 0) * acc[i]
+				}
+			}
+			c, good := t.newton(pred[i], kn)
+			if !good {
+				ok = false
+				break
+			}
+			corr[i] = c
+		}
+		ratio := 0.0
+		if ok {
+			ratio, ok = t.checkStep(s, pred, corr, active, tan, tanOK, ntan, ntanOK, km, tn)
+		}
+		if !ok {
+			t.stats.RejectedSteps++
+			h *= 0.5
+			if h < 1e-14*math.Max(1, tc) {
+				return paths, s, fmt.Errorf("%w: step size underflow at %s = %v", ErrTraceFailed, p.variable, kn)
+			}
+			continue
+		}
+		t.stats.Steps++
+		for i := range n {
+			if !active[i] {
+				continue
+			}
+			if tanOK[i] && ntanOK[i] && !first {
+				acc[i] = (ntan[i] - tan[i]) / complex(h, 0)
+			} else {
+				acc[i] = 0
+			}
+			s[i], tan[i], tanOK[i] = corr[i], ntan[i], ntanOK[i]
+			paths[i] = append(paths[i], Point{Value: kn, S: s[i]})
+			t.traced++
+			if stop != nil && stop(i, s[i], kn) {
+				active[i] = false
+			}
+		}
+		if t.traced > t.r.maxPoints {
+			return paths, s, fmt.Errorf("%w: more than %d points", ErrTooManyPoints, t.r.maxPoints)
+		}
+		first = false
+		tc = tn
+		f := 2.0
+		if ratio > 0 {
+			f = math.Min(2, math.Max(0.5, 0.8/ratio))
+		}
+		h *= f
+	}
+	return paths, s, nil
+}
+
+func factorial(n int) float64 {
+	f := 1.0
+	for i := 2; i <= n; i++ {
+		f *= float64(i)
+	}
+	return f
+}
+
+// tangent returns ds/dt = −b(s)/(a′(s) + k·b′(s))·dk/dt.
+func (t *tracer) tangent(s complex128, km kMap, tt float64) (complex128, bool) {
+	k, dk := km(tt)
+	_, df := t.p.eval(s, k)
+	if df == 0 {
+		return 0, false
+	}
+	v := -t.p.b.EvalComplex(s) / df * complex(dk, 0)
+	if cmplx.IsInf(v) || cmplx.IsNaN(v) {
+		return 0, false
+	}
+	return v, true
+}
+
+// newton corrects s to a root of a + k·b. It reports failure when the
+// iteration does not converge in 12 steps.
+func (t *tracer) newton(s complex128, k float64) (complex128, bool) {
+	tol := 1e-13 * math.Max(cabs(s), 1e-6*t.scale)
+	for range 12 {
+		t.stats.NewtonIterations++
+		f, df := t.p.eval(s, k)
+		if df == 0 {
+			return s, false
+		}
+		d := f / df
+		s -= d
+		if cmplx.IsNaN(s) || cmplx.IsInf(s) {
+			return s, false
+		}
+		if cabs(d) <= tol {
+			return s, true
+		}
+	}
+	f, _ := t.p.eval(s, k)
+	return s, cabs(f) <= 1e-12*t.p.magnitude(s, k)
+}
+
+// checkStep accepts or rejects a step: every correction must be small
+// against the distance to the nearest other corrected root (so no iterate
+// was captured by another branch: a quarter of that distance lies well
+// inside Newton's basin, Kantorovich), and chords and turns must respect
+// the tolerances. It returns the largest ratio of a chord or turn to its
+// tolerance, and fills the tangents at the new points.
+func (t *tracer) checkStep(s, pred, corr []complex128, active []bool, tan []complex128, tanOK []bool, ntan []complex128, ntanOK []bool, km kMap, tn float64) (float64, bool) {
+	n := len(s)
+	ratio := 0.0
+	for i := range n {
+		if !active[i] {
+			continue
+		}
+		e := corr[i] - pred[i]
+		e2 := real(e)*real(e) + imag(e)*imag(e)
+		for j := range n {
+			if j == i || !active[j] {
+				continue
+			}
+			d := corr[i] - corr[j]
+			d2 := real(d)*real(d) + imag(d)*imag(d)
+			if d2 == 0 || e2 > 0.0625*d2 {
+				return 0, false
+			}
+		}
+		lim := t.chordAbs * math.Max(1, cabs(corr[i]-t.centre)/t.scale)
+		ch := cabs(corr[i] - s[i])
+		ratio = math.Max(ratio, ch/lim)
+		if ch > lim {
+			return ratio, false
+		}
+		ntan[i], ntanOK[i] = t.tangent(corr[i], km, tn)
+		if tanOK[i] && ntanOK[i] && ch > 1e-3*lim && tan[i] != 0 && ntan[i] != 0 {
+			a := math.Abs(cmplx.Phase(ntan[i] / tan[i]))
+			ratio = math.Max(ratio, a/t.r.angleTolRad)
+			if a > t.r.angleTolRad {
+				return ratio, false
+			}
+		}
+	}
+	return ratio, true
+}
+
+// muOf returns the least common multiple of the cluster multiplicities
+// (capped at 12, then their maximum).
+func muOf(mult []int) int {
+	l := 1
+	mx := 1
+	for _, m := range mult {
+		mx = max(mx, m)
+		l = lcm(l, m)
+	}
+	if l > 12 {
+		return mx
+	}
+	return l
+}
+
+func lcm(a, b int) int {
+	g, x := a, b
+	for x != 0 {
+		g, x = x, g%x
+	}
+	return a / g * b
+}
+
+// traceHalf traces from a regular node to the value kEnd (the middle of
+// the piece), leaving the node's clusters along their Puiseux directions.
+func (t *tracer) traceHalf(nd node, kEnd float64) ([][]Point, []complex128, error) {
+	mu := muOf(nd.mult)
+	km := powerMap(nd.k, kEnd-nd.k, mu)
+	paths, fin, err := t.cont(km, 1, nd.slots, nd.clus, nd.mult, mu, nil)
+	if err != nil {
+		return paths, fin, err
+	}
+	// The last point is at exactly kEnd.
+	for i := range paths {
+		if n := len(paths[i]); n > 0 {
+			paths[i][n-1].Value = kEnd
+		}
+	}
+	return paths, fin, nil
+}
+
+// traceToEnd traces from a regular node towards an end node (k = ±∞ or the
+// degree-drop value): each root stops at its limit (a finite root of the
+// end node, appended exactly) or when it leaves the extent disc. It
+// returns the paths indexed by the start slot and, for each, the slot of
+// the end node it reaches.
+func (t *tracer) traceToEnd(nd node, end node) ([][]Point, []int, error) {
+	n := len(nd.slots)
+	mu := muOf(nd.mult)
+	if mu != 1 {
+		return nil, nil, fmt.Errorf("%w: multiple root at the buffer value %v", ErrTraceFailed, nd.k)
+	}
+	km := expMap(nd.k, end.k)
+	to := make([]int, n)
+	for i := range to {
+		to[i] = -1
+	}
+	taken := make([]bool, len(end.slots))
+	eps := 1e-4 * t.chordAbs
+	stop := func(i int, s complex128, k float64) bool {
+		if cabs(s-t.centre) > t.extent {
+			for j, z := range end.slots {
+				if !taken[j] && cmplx.IsInf(z) {
+					taken[j] = true
+					to[i] = j
+					return true
+				}
+			}
+			return false
+		}
+		for j, z := range end.slots {
+			if !taken[j] && !cmplx.IsInf(z) && cabs(s-z) <= eps*math.Max(1, cabs(z)/t.scale) {
+				taken[j] = true
+				to[i] = j
+				return true
+			}
+		}
+		return false
+	}
+	// The end of the parameter: k overflow towards ±∞, or k − e below
+	// the resolution of e.
+	var uMax float64
+	if math.IsInf(end.k, 0) {
+		uMax = math.Log(1e250 / math.Abs(nd.k))
+	} else {
+		uMax = math.Log(math.Abs(nd.k-end.k) / (1e-15 * math.Max(1, math.Abs(end.k))))
+	}
+	paths, fin, err := t.cont(km, uMax, nd.slots, nil, nil, 1, stop)
+	// Roots still unfinished at the end of the parameter: nearest free
+	// limit, else infinity.
+	for i := range n {
+		if to[i] >= 0 {
+			continue
+		}
+		j := nearestSlot(end.slots, taken, fin[i])
+		if j < 0 {
+			for jj, z := range end.slots {
+				if !taken[jj] && cmplx.IsInf(z) {
+					j = jj
+					break
+				}
+			}
+		}
+		if j >= 0 {
+			taken[j] = true
+			to[i] = j
+		}
+	}
+	for i := range n {
+		if to[i] >= 0 && !cmplx.IsInf(end.slots[to[i]]) {
+			paths[i] = append(paths[i], Point{Value: end.k, S: end.slots[to[i]]})
+		}
+	}
+	return paths, to, err
+}
+
+var _ = poly.Root{}
