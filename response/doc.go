@@ -1,0 +1,73 @@
+// Package response computes the time-domain behaviour of a transfer
+// function — typically a closed loop T = L/(1+L) — and the numbers an
+// engineer writes in a requirement: step, impulse, ramp and arbitrary
+// sampled-input responses, step metrics (rise, settling, overshoot,
+// undershoot, peak, final value) and steady-state errors with the error
+// constants.
+//
+//	r, err := response.Step(T, nil)            // sampled response, automatic grid
+//	m, err := response.StepMetrics(T, nil)     // exact metrics
+//	e, err := response.SteadyState(L)          // Kp, Kv, Ka and errors of the loop L
+//	r, err := response.Simulate(T, t, u, &response.SimulateSettings{Interpolation: response.Linear})
+//
+// # Method
+//
+// A transfer function is realised in state space (internal/statespace: the
+// companion form scaled by powers of a pole-modulus bound and balanced by
+// Parlett & Reinsch 1969), so that the matrix exponential stays accurate at
+// high order. Over each sample interval the state advances by its exact
+// hold equivalent, x[k+1] = Φ·x[k] + Γ·u[k] (+ Γ2·(u[k+1] − u[k]) for a
+// linearly interpolated input), computed from one block matrix exponential
+// (Van Loan 1978, gonum mat.Exp). Steps and ramps are exactly piecewise
+// constant and linear, so the samples carry only rounding errors (measured
+// ≤ 1e-12 of the peak for orders 2–24 against mpmath partial fractions,
+// see BenchmarkStep). Dead time is an exact shift, never a Padé
+// approximation. Discrete-time transfer functions are run as their
+// difference equation through the same realisation.
+//
+// # Conventions
+//
+// Times are in seconds from the application of the input at t = 0; a
+// response's dead time delays the response to the input (not the free
+// response from an initial state). Inputs are unit step, unit Dirac impulse
+// (unit pulse in discrete time) and unit ramp u = t.
+//
+// Step metrics follow the Conventions of the shared reference cases
+// (common practice for the levels):
+//   - FinalValue is the static gain T(0) (T(1) in discrete time).
+//   - Rise: RiseStartSec, RiseEndSec are the first times y/FinalValue
+//     reaches 0.1 and 0.9 (configurable); RiseTimeSec is their difference.
+//   - SettlingTimeSec is the last time |y − FinalValue| = 0.02·|FinalValue|
+//     (band configurable): the last exit from the band.
+//   - OvershootPct = 100·(max y/FinalValue − 1) when positive, with
+//     PeakValue and PeakTimeSec; otherwise 0 and NaN.
+//   - UndershootPct = 100·max(0, −min y/FinalValue), with
+//     UndershootValue and UndershootTimeSec (NaN when there is none).
+//
+// Unstable or marginally stable systems have no metrics: StepMetrics
+// returns ErrUnstable rather than an invented settling time. Steady-state
+// errors follow the unity negative-feedback convention e = r − y.
+//
+// The automatic grid: horizon DelaySec + 10/σ (σ the slowest stable
+// decay rate), step min(horizon/400, 0.1/max|p|), at most 20000 intervals;
+// both overridable in Settings. Metrics do not depend on the grid.
+//
+// # Invariants
+//
+// Inputs are never modified; results own their slices. All functions are
+// safe for concurrent use. No function panics on bad input: every error
+// wraps a sentinel of errors.go and names the input and the reason.
+//
+// References:
+//   - C. F. Van Loan, "Computing integrals involving the matrix
+//     exponential", IEEE Trans. Automatic Control 23(3), 395–404, 1978.
+//   - B. N. Parlett and C. Reinsch, "Balancing a matrix for calculation of
+//     eigenvalues and eigenvectors", Numer. Math. 13, 293–304, 1969.
+//   - N. J. Higham, Functions of Matrices, SIAM 2008, Alg. 10.20 (gonum
+//     mat.Exp).
+//   - R. P. Brent, Algorithms for Minimization without Derivatives, 1973,
+//     ch. 4 (root finding of the metric times).
+//   - G. F. Franklin, J. D. Powell and M. L. Workman, Digital Control of
+//     Dynamic Systems, 3rd ed., 1998 (triangle hold; discrete error
+//     constants), from memory.
+package response
