@@ -86,6 +86,13 @@ func rootsNonZero(c []float64, s *RootSettings) ([]Root, error) {
 		z = vals
 		aberth(sc, z)
 	}
+	return unscale(finish(sc, z, s), e), nil
+}
+
+// finish turns refined approximations z of the roots of the scaled
+// polynomial sc into the final candidates: clusters, math/big fallback,
+// symmetry.
+func finish(sc []float64, z []complex128, s *RootSettings) []candidate {
 	var cands []candidate
 	if s.clusterTolerance() > 0 {
 		cands = findClusters(sc, z, s.clusterTolerance())
@@ -97,7 +104,7 @@ func rootsNonZero(c []float64, s *RootSettings) ([]Root, error) {
 	}
 	polishWithBig(sc, cands)
 	symmetrize(cands)
-	return unscale(cands, e), nil
+	return cands
 }
 
 // scaleToUnitRoots returns the coefficients of p(2ᵉ·y)/2^k for the e that
