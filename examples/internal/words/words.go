@@ -143,3 +143,48 @@ func Roots(rs []poly.Root) string {
 	}
 	return strings.Join(parts, ", ")
 }
+
+// Polynomial writes p in the variable v with 6 significant digits per
+// coefficient, highest power first: "3.72727 z - 3.54545".
+func Polynomial(p poly.Poly, v string) string {
+	c := p.Coeffs()
+	n := len(c) - 1
+	var b strings.Builder
+	for i, a := range c {
+		if a == 0 && n > 0 {
+			continue
+		}
+		pow := n - i
+		switch {
+		case b.Len() == 0 && a < 0:
+			b.WriteString("-")
+		case b.Len() > 0 && a < 0:
+			b.WriteString(" - ")
+		case b.Len() > 0:
+			b.WriteString(" + ")
+		}
+		mag := math.Abs(a)
+		coef := fmt.Sprintf("%.6g", mag)
+		switch {
+		case pow == 0:
+			b.WriteString(coef)
+		case mag == 1:
+			b.WriteString(v)
+		default:
+			b.WriteString(coef + " " + v)
+		}
+		if pow > 1 {
+			fmt.Fprintf(&b, "^%d", pow)
+		}
+	}
+	if b.Len() == 0 {
+		return "0"
+	}
+	return b.String()
+}
+
+// Rational writes num/den in the variable v as "(num)/(den)" with 6
+// significant digits per coefficient.
+func Rational(num, den poly.Poly, v string) string {
+	return "(" + Polynomial(num, v) + ")/(" + Polynomial(den, v) + ")"
+}
