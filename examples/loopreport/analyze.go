@@ -60,7 +60,7 @@ func analyze(m *loopModel, prog *progress, plots bool) (*report, []figure) {
 		rep.Name = "Loop " + strings.TrimSuffix(lf.file, ".json")
 	}
 	rep.Description = lf.Description
-	rep.Loop = loopText{OpenLoop: m.open.String(), Gain: number(m.gain), SampleTimeSec: number(m.open.SampleTimeSec()), DelaySec: number(m.open.DelaySec())}
+	rep.Loop = loopText{Controller: lf.Controller, Plant: lf.Plant, Sensor: lf.Sensor, OpenLoop: m.open.String(), Gain: number(m.gain), SampleTimeSec: number(m.open.SampleTimeSec()), DelaySec: number(m.open.DelaySec())}
 	if p := lf.Parameter; p != nil {
 		s := fmt.Sprintf("%s = %s, locus over %s", p.Name, g(number(p.Value)), intervalText(interval{number(p.Range[0]), number(p.Range[1])}))
 		rep.Loop.Parameter = &s
@@ -123,6 +123,15 @@ func (a *analysis) loops() {
 		rep.OpenLoop.Zeros = complexList(z)
 	} else {
 		a.warn("open-loop zeros: %s", short(err))
+	}
+	if len(rep.OpenLoop.Poles) > 0 || ol.Den().Degree() == 0 {
+		p, _ := ol.Poles()
+		z, _ := ol.Zeros()
+		delay := m.open.DelaySec()
+		if ol.DelaySec() == 0 && ol.IsDiscrete() && m.open.DelaySec() > 0 {
+			delay = 0 // already poles at z = 0
+		}
+		rep.Loop.OpenLoopFactored = factoredText(ol.GainFactor(), z, p, ol.Variable(), delay, ol.IsDiscrete())
 	}
 	if k, err := m.open.StaticGain(); err == nil {
 		rep.OpenLoop.StaticGain = number(k)

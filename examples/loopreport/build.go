@@ -44,10 +44,7 @@ func (lf *loopFile) parseExpr(key, text string, params map[string]float64) (tf.T
 	if err == nil {
 		return g, nil
 	}
-	where := ""
-	if p, ok := lf.pos[key]; ok {
-		where = " at " + p.String()
-	}
+	where := lf.where(key)
 	var se *tf.SyntaxError
 	if errors.As(err, &se) {
 		msg := fmt.Sprintf("key %q%s: cannot read the expression %q: at column %d of the text", key, where, text, utf8.RuneCountInString(text[:min(se.Offset, len(text))])+1)
@@ -108,7 +105,7 @@ func (lf *loopFile) product(k float64, parts ...tf.TF) (tf.TF, error) {
 // loop can be analysed.
 func build(lf *loopFile) (*loopModel, error) {
 	if lf.Parameter != nil && !validName(lf.Parameter.Name) {
-		return nil, badInput("key \"parameter.name\" %s: %q is not a usable name; use letters, digits and '_', starting with a letter, and not s, z or exp", lf.pos["parameter"], lf.Parameter.Name)
+		return nil, badInput("key \"parameter.name\"%s: %q is not a usable name; use letters, digits and '_', starting with a letter, and not s, z or exp", lf.where("parameter.name"), lf.Parameter.Name)
 	}
 	p := 0.0
 	if lf.Parameter != nil {

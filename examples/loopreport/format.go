@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 )
 
@@ -22,6 +23,9 @@ func g(x number) string {
 		return "0"
 	}
 	s := fmt.Sprintf("%.4g", v)
+	if r, err := strconv.ParseFloat(s, 64); err == nil && math.Abs(r) >= 1e-4 && math.Abs(r) < 1e6 {
+		s = strconv.FormatFloat(r, 'f', -1, 64)
+	}
 	if strings.Contains(s, "e") {
 		mant, exp, _ := strings.Cut(s, "e")
 		e := strings.TrimLeft(strings.TrimPrefix(exp, "+"), "0")
@@ -126,4 +130,73 @@ func stableWord(b *bool) string {
 		return "stable"
 	}
 	return "unstable"
+}
+
+// factorText returns the factors of a polynomial with the given roots, as
+// "s·(s + 2)·(s^2 + 7.2s + 144)": real roots give first-order factors,
+// conjugate pairs second-order ones; numbers have 4 significant digits.
+func factorText(roots []complex128, v string) string {
+	var parts []string
+	used := make([]bool, len(roots))
+	for i, r := range roots {
+		if used[i] {
+			continue
+		}
+		used[i] = true
+		if imag(r) == 0 {
+			switch {
+			case real(r) == 0:
+				parts = append(parts, v)
+			case real(r) < 0:
+				parts = append(parts, fmt.Sprintf("(%s + %s)", v, g(number(-real(r)))))
+			default:
+				parts = append(parts, fmt.Sprintf("(%s − %s)", v, g(number(real(r)))))
+			}
+			continue
+		}
+		for j := i + 1; j < len(roots); j++ {
+			if !used[j] && roots[j] == complex(real(r), -imag(r)) {
+				used[j] = true
+				break
+			}
+		}
+		b := -2 * real(r)
+		c := real(r)*real(r) + imag(r)*imag(r)
+		mid := ""
+		switch {
+		case b > 0:
+			mid = fmt.Sprintf(" + %s%s", g(number(b)), v)
+		case b < 0:
+			mid = fmt.Sprintf(" − %s%s", g(number(-b)), v)
+		}
+		parts = append(parts, fmt.Sprintf("(%s^2%s + %s)", v, mid, g(number(c))))
+	}
+	if len(parts) == 0 {
+		return "1"
+	}
+	return strings.Join(parts, "·")
+}
+
+// factoredText writes k·∏(v − zᵢ)/∏(v − pⱼ) with the dead time, in the
+// form an engineer writes on paper.
+func factoredText(gain float64, zeros, poles []complex128, v string, delaySec float64, discrete bool) string {
+	s := g(number(gain))
+	if len(zeros) > 0 {
+		s += "·" + factorText(zeros, v)
+	}
+	if len(poles) > 0 {
+		d := factorText(poles, v)
+		if len(poles) > 1 && strings.Contains(d, "·") {
+			d = "(" + d + ")"
+		}
+		s += "/" + d
+	}
+	if delaySec > 0 {
+		if discrete {
+			s += fmt.Sprintf(" with %s s of dead time", g(number(delaySec)))
+		} else {
+			s += fmt.Sprintf("·e^(−%ss)", g(number(delaySec)))
+		}
+	}
+	return s
 }

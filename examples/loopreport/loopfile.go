@@ -144,7 +144,7 @@ func objectFields(data []byte, raw []byte, base int, what string) ([]field, erro
 			return nil, syntaxError(data, base, err)
 		}
 		if seen[key] {
-			return nil, badInput("%s: key %q %s appears twice", what, key, at(data, base+keyOff))
+			return nil, badInput("key %q %s appears twice in %s", key, at(data, base+keyOff), what)
 		}
 		seen[key] = true
 		fields = append(fields, field{key: key, keyOff: base + keyOff, valOff: base + valOff, raw: val})
@@ -197,12 +197,12 @@ func at(data []byte, off int) string { return "at " + positionOf(data, off).Stri
 func syntaxError(data []byte, base int, err error) error {
 	var se *json.SyntaxError
 	if errors.As(err, &se) {
-		return badInput("malformed JSON %s: %s", at(data, base+int(se.Offset)-1), strings.TrimPrefix(se.Error(), "json: "))
+		return badInput("the file is not valid JSON: %s: %s", at(data, base+int(se.Offset)-1), strings.TrimPrefix(se.Error(), "json: "))
 	}
 	if errors.Is(err, io.EOF) || errors.Is(err, io.ErrUnexpectedEOF) || strings.Contains(err.Error(), "unexpected EOF") {
-		return badInput("malformed JSON: the text ends before the object is complete")
+		return badInput("the file is not valid JSON: the text ends before the object is complete")
 	}
-	return badInput("malformed JSON: %v", err)
+	return badInput("the file is not valid JSON: %v", err)
 }
 
 // readLoopFile reads a loop description. name is the file name used in
@@ -210,6 +210,9 @@ func syntaxError(data []byte, base int, err error) error {
 func readLoopFile(name string, data []byte) (*loopFile, error) {
 	if !utf8.Valid(data) {
 		return nil, badInput("%s: the file is not UTF-8 text", name)
+	}
+	if len(bytes.TrimSpace(data)) == 0 {
+		return nil, badInput("%s: the file is empty; it should hold a JSON object such as {\"plant\": \"1/(s*(s+1))\"}", name)
 	}
 	if !json.Valid(data) {
 		var v any
@@ -268,9 +271,9 @@ func decodeLoop(data []byte) (*loopFile, error) {
 		case "sample_time_sec":
 			err = decodeNumber(data, f, f.key, &lf.SampleTimeSec)
 		case "parameter":
-			lf.Parameter, err = decodeParameter(data, f)
+			lf.Parameter, err = decodeParameter(data, f, lf.pos)
 		case "discretize":
-			lf.Discretize, err = decodeDiscretize(data, f)
+			lf.Discretize, err = decodeDiscretize(data, f, lf.pos)
 		case "requirements":
 			lf.Requirements, err = decodeRequirements(data, f)
 		default:
@@ -284,36 +287,45 @@ func decodeLoop(data []byte) (*loopFile, error) {
 		return nil, badInput("the key \"plant\" is missing; it is required (for example \"plant\": \"2/(s*(s+1))\")")
 	}
 	if strings.TrimSpace(lf.Plant) == "" {
-		return nil, badInput("key \"plant\" %s is empty; give a transfer function such as \"2/(s*(s+1))\"", lf.pos["plant"])
+		return nil, badInput("key \"plant\"%s is empty; give a transfer function such as \"2/(s*(s+1))\"", lf.where("plant"))
 	}
 	return lf, lf.validate()
+}
+
+// where returns " at line L, column C" for a key of the file, or "" when
+// the loop did not come from a file.
+func (lf *loopFile) where(key string) string {
+	if p, ok := lf.pos[key]; ok {
+		return " at " + p.String()
+	}
+	return ""
 }
 
 // validate checks the values that parse as JSON but make no sense.
 func (lf *loopFile) validate() error {
 	if lf.DelaySec < 0 {
-		return badInput("key \"delay_sec\" %s: the dead time must be zero or positive, got %g", lf.pos["delay_sec"], lf.DelaySec)
+		return badInput("key \"delay_sec\"%s: the dead time must be zero or positive, got %g", lf.where("delay_sec"), lf.DelaySec)
 	}
 	if lf.SampleTimeSec < 0 {
-		return badInput("key \"sample_time_sec\" %s: the sample time must be zero (continuous time) or positive, got %g", lf.pos["sample_time_sec"], lf.SampleTimeSec)
+		return badInput("key \"sample_time_sec\"%s: the sample time must be zero (continuous time) or positive, got %g", lf.where("sample_time_sec"), lf.SampleTimeSec)
 	}
 	if lf.GainRange[0] >= lf.GainRange[1] {
-		return badInput("key \"gain_range\" %s: the lower end must be below the upper end, got [%g, %g]", lf.pos["gain_range"], lf.GainRange[0], lf.GainRange[1])
+		return badInput("key \"gain_range\"%s: the lower end must be below the upper end, got [%g, %g]", lf.where("gain_range"), lf.GainRange[0], lf.GainRange[1])
 	}
 	if p := lf.Parameter; p != nil {
 		if p.Range[0] >= p.Range[1] {
-			return badInput("key \"parameter.range\" %s: the lower end must be below the upper end, got [%g, %g]", lf.pos["parameter"], p.Range[0], p.Range[1])
+			return badInput("key \"parameter.range\"%s: the lower end must be below the upper end, got [%g, %g]", lf.where("parameter.range"), p.Range[0], p.Range[1])
 		}
 	}
 	if d := lf.Discretize; d != nil {
 		if lf.SampleTimeSec > 0 {
-			return badInput("keys \"sample_time_sec\" %s and \"discretize\" %s exclude each other: \"discretize\" converts a continuous loop written in s, \"sample_time_sec\" says the loop is already written in z", lf.pos["sample_time_sec"], lf.pos["discretize"])
+			return badInput("keys \"sample_time_sec\"%s and \"discretize\"%s exclude each other: \"discretize\" converts a continuous loop written in s, \"sample_time_sec\" says the loop is already written in z", lf.where("sample_time_sec"), lf.where("discretize"))
 		}
 		if !(d.SampleTimeSec > 0) {
-			return badInput("key \"discretize.sample_time_sec\" %s: the sample time must be positive, got %g", lf.pos["discretize"], d.SampleTimeSec)
+			return badInput("key \"discretize.sample_time_sec\"%s: the sample time must be positive, got %g", lf.where("discretize.sample_time_sec"), d.SampleTimeSec)
 		}
 		if d.PrewarpRadPerSec < 0 {
-			return badInput("key \"discretize.prewarp_rad_per_sec\" %s: the prewarp frequency must be positive, got %g", lf.pos["discretize"], d.PrewarpRadPerSec)
+			return badInput("key \"discretize.prewarp_rad_per_sec\"%s: the prewarp frequency must be positive, got %g", lf.where("discretize.prewarp_rad_per_sec"), d.PrewarpRadPerSec)
 		}
 	}
 	return nil
@@ -373,7 +385,7 @@ func decodeRange(data []byte, f field, key string, dst *[2]float64) error {
 	return nil
 }
 
-func decodeParameter(data []byte, f field) (*parameterSpec, error) {
+func decodeParameter(data []byte, f field, pos map[string]position) (*parameterSpec, error) {
 	fields, err := objectFields(data, f.raw, f.valOff, "key \"parameter\"")
 	if err != nil {
 		return nil, err
@@ -383,6 +395,7 @@ func decodeParameter(data []byte, f field) (*parameterSpec, error) {
 	for _, g := range fields {
 		seen[g.key] = true
 		key := "parameter." + g.key
+		pos[key] = positionOf(data, g.valOff)
 		switch g.key {
 		case "name":
 			err = decodeString(data, g, key, &p.Name)
@@ -412,7 +425,7 @@ func decodeParameter(data []byte, f field) (*parameterSpec, error) {
 	return p, nil
 }
 
-func decodeDiscretize(data []byte, f field) (*discretizeSpec, error) {
+func decodeDiscretize(data []byte, f field, pos map[string]position) (*discretizeSpec, error) {
 	fields, err := objectFields(data, f.raw, f.valOff, "key \"discretize\"")
 	if err != nil {
 		return nil, err
@@ -422,6 +435,7 @@ func decodeDiscretize(data []byte, f field) (*discretizeSpec, error) {
 	for _, g := range fields {
 		seen[g.key] = true
 		key := "discretize." + g.key
+		pos[key] = positionOf(data, g.valOff)
 		switch g.key {
 		case "method":
 			err = decodeString(data, g, key, &d.Method)

@@ -61,6 +61,13 @@ type report struct {
 
 // loopText echoes the loop that was analysed, in the text form of tf.
 type loopText struct {
+	// Controller, Plant and Sensor are the expressions as written.
+	Controller string `json:"controller"`
+	Plant      string `json:"plant"`
+	Sensor     string `json:"sensor"`
+	// OpenLoopFactored is L as gain·∏(s − z)/∏(s − p), 4 significant
+	// digits, for reading.
+	OpenLoopFactored string `json:"open_loop_factored"`
 	// OpenLoop is L = k·controller·plant·sensor at the nominal gain (and
 	// parameter value), with dead time.
 	OpenLoop      string  `json:"open_loop"`

@@ -21,7 +21,16 @@ func sections(r *report) []section {
 	var out []section
 
 	loop := section{title: "Loop"}
-	loop.rows = append(loop.rows, row{"open loop L = k·controller·plant·sensor", r.Loop.OpenLoop})
+	loop.rows = append(loop.rows,
+		row{"plant", r.Loop.Plant},
+		row{"controller", r.Loop.Controller},
+		row{"sensor (feedback path)", r.Loop.Sensor},
+	)
+	if r.Loop.OpenLoopFactored != "" {
+		loop.rows = append(loop.rows, row{"open loop L = k·controller·plant·sensor", r.Loop.OpenLoopFactored})
+	} else {
+		loop.rows = append(loop.rows, row{"open loop L = k·controller·plant·sensor", r.Loop.OpenLoop})
+	}
 	loop.rows = append(loop.rows, row{"loop gain k", g(r.Loop.Gain)})
 	if r.Loop.Parameter != nil {
 		loop.rows = append(loop.rows, row{"parameter", *r.Loop.Parameter})

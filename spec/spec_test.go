@@ -1,0 +1,297 @@
+package spec_test
+
+import (
+	"errors"
+	"math"
+	"math/cmplx"
+	"strings"
+	"testing"
+
+	"github.com/loopwise/loopwise/internal/testutil"
+	"github.com/loopwise/loopwise/spec"
+	"github.com/loopwise/loopwise/tf"
+)
+
+// Loops whose quantities are known in closed form.
+var (
+	// secondOrder is ωn²/(s(s + 2ζωn)) with ζ = 0.5, ωn = 2: the closed
+	// loop is ωn²/(s² + 2ζωn s + ωn²) (Ogata, Modern Control Engineering,
+	// 5th ed., Sec. 5-3, from memory).
+	zeta, wn    = 0.5, 2.0
+	secondOrder = tf.MustParse("4/(s*(s+2))")
+	// firstOrder is a/s with a = 2: T = a/(s + a), y = 1 − e^(−at).
+	a          = 2.0
+	firstOrder = tf.MustParse("2/s")
+	// cubic is K/(s(s+1)(s+2)) at K = 1: gain margin 6 at √2 rad/s
+	// (Ogata, Modern Control Engineering, 5th ed., Example 6-1, from
+	// memory; the crossing K = 6 at ω = √2 follows from Routh's array).
+	cubic = tf.MustParse("1/(s*(s+1)*(s+2))")
+	// typeZero is 4/(s+1): Kp = 4, step error 1/(1 + Kp) = 0.2.
+	typeZero = tf.MustParse("4/(s+1)")
+	// deadTimeIntegrator is e^(−s)/s: gain crossover at 1 rad/s with
+	// phase margin 90° − 180°/π, so the delay margin is π/2 − 1 s; phase
+	// crossover at π/2 with gain margin π/2 (hand derivation; reference
+	// case C04).
+	deadTimeIntegrator = tf.MustParse("exp(-s)/s")
+)
+
+// Closed forms.
+var (
+	// Phase margin of ωn²/(s(s+2ζωn)): ωc = ωn·√(√(1+4ζ⁴) − 2ζ²) and
+	// PM = atan(2ζωn/ωc) (Ogata, Modern Control Engineering, 5th ed.,
+	// Sec. 7-6, from memory; it follows from |L(jωc)| = 1).
+	wc          = wn * math.Sqrt(math.Sqrt(1+4*math.Pow(zeta, 4))-2*zeta*zeta)
+	pmSecond    = math.Atan2(2*zeta*wn, wc) * 180 / math.Pi
+	osSecond    = 100 * math.Exp(-zeta*math.Pi/math.Sqrt(1-zeta*zeta))
+	riseFirst   = math.Log(9) / a  // 10 % to 90 % of 1 − e^(−at)
+	settleFirst = math.Log(50) / a // |e^(−at)| = 0.02
+	gmCubicDB   = 20 * math.Log10(6)
+)
+
+func TestCheckEachRequirement(t *testing.T) {
+	// Each quantity is checked with a limit just on the passing side and
+	// just on the failing side of its closed-form value: the relative
+	// margin 1e-6 is far above the accuracy of the analyses (about 1e-12)
+	// and far below any rounding that could flip a verdict by accident.
+	const eps = 1e-6
+	tests := []struct {
+		name  string
+		loop  tf.TF
+		value float64 // closed-form value of the quantity
+		req   func(float64) spec.Requirement
+		min   bool
+	}{
+		{"phase margin of the second-order loop", secondOrder, pmSecond, spec.MinPhaseMarginDeg, true},
+		{"gain margin of K/(s(s+1)(s+2))", cubic, gmCubicDB, spec.MinGainMarginDB, true},
+		{"delay margin of e^(−s)/s", deadTimeIntegrator, math.Pi/2 - 1, spec.MinDelayMarginSec, true},
+		// Peak sensitivity of K/(s(s+1)(s+2)), reference case C01 (mpmath,
+		// 50 digits).
+		{"peak sensitivity of K/(s(s+1)(s+2))", cubic, 1.5683807467542445, spec.MaxPeakSensitivity, false},
+		{"damping ratio of the second-order closed loop", secondOrder, zeta, spec.MinDampingRatio, true},
+		{"overshoot of the second-order closed loop", secondOrder, osSecond, spec.MaxOvershootPct, false},
+		{"rise time of the first-order closed loop", firstOrder, riseFirst, spec.MaxRiseTimeSec, false},
+		{"settling time of the first-order closed loop", firstOrder, settleFirst, spec.MaxSettlingTimeSec, false},
+		{"step error of 4/(s+1)", typeZero, 0.2, spec.MaxSteadyStateError, false},
+	}
+	for _, test := range tests {
+		t.Run(test.name, func(t *testing.T) {
+			passLimit, failLimit := test.value*(1+eps), test.value*(1-eps)
+			if test.min {
+				passLimit, failLimit = failLimit, passLimit
+			}
+			rep := spec.Check(test.loop, spec.Requirements{test.req(passLimit), test.req(failLimit)})
+			if len(rep.Results) != 2 {
+				t.Fatalf("%d results, want 2", len(rep.Results))
+			}
+			pass, fail := rep.Results[0], rep.Results[1]
+			if !testutil.Close(pass.Value, test.value, 1e-9, 1e-12) {
+				t.Errorf("measured %v, want %v", pass.Value, test.value)
+			}
+			if !pass.Pass || pass.Err != nil {
+				t.Errorf("limit %v: failed (%v): %s", passLimit, pass.Err, pass.Message)
+			}
+			if fail.Pass {
+				t.Errorf("limit %v: passed: %s", failLimit, fail.Message)
+			}
+			if !strings.HasSuffix(pass.Message, "met.") || !strings.HasSuffix(fail.Message, "not met.") {
+				t.Errorf("messages do not end with the verdict:\n%s\n%s", pass.Message, fail.Message)
+			}
+			if pass.Name != test.req(1).Name() || pass.Limit != passLimit {
+				t.Errorf("result names %q with limit %v", pass.Name, pass.Limit)
+			}
+			if rep.Err() == nil || len(rep.Failures()) != 1 || rep.Passed() {
+				t.Errorf("report with one failure: Err %v, %d failures", rep.Err(), len(rep.Failures()))
+			}
+		})
+	}
+}
+
+func TestErrListsEveryFailure(t *testing.T) {
+	req := spec.Requirements{
+		spec.MinPhaseMarginDeg(80),    // PM ≈ 51.8°
+		spec.MinGainMarginDB(3),       // infinite: passes
+		spec.MaxOvershootPct(5),       // 16.3 %
+		spec.MinDampingRatio(0.7),     // 0.5
+		spec.MaxSteadyStateError(0.1), // 0 (type 1): passes
+	}
+	rep := spec.Check(secondOrder, req)
+	err := rep.Err()
+	if err == nil {
+		t.Fatal("Err() = nil with three failures")
+	}
+	if !errors.Is(err, spec.ErrNotMet) {
+		t.Errorf("Err does not match ErrNotMet: %v", err)
+	}
+	if errors.Is(err, spec.ErrInvalidRequirement) {
+		t.Errorf("Err matches ErrInvalidRequirement without an invalid requirement")
+	}
+	var fe *spec.FailureError
+	if !errors.As(err, &fe) || len(fe.Failures) != 3 || fe.Checked != 5 {
+		t.Fatalf("FailureError %+v", fe)
+	}
+	msg := err.Error()
+	if !strings.HasPrefix(msg, "spec: 3 of 5 requirements not met:") {
+		t.Errorf("message starts %q", strings.SplitN(msg, "\n", 2)[0])
+	}
+	for _, r := range rep.Results {
+		if r.Pass == strings.Contains(msg, r.Message) {
+			t.Errorf("pass=%v but message listed=%v: %s", r.Pass, !r.Pass, r.Message)
+		}
+	}
+	if got := rep.Results[1]; !got.Pass || !math.IsInf(got.Value, 1) {
+		t.Errorf("infinite gain margin: pass %v value %v", got.Pass, got.Value)
+	}
+	if got := rep.Results[4]; !got.Pass || got.Value != 0 {
+		t.Errorf("type-1 step error: pass %v value %v", got.Pass, got.Value)
+	}
+}
+
+func TestAllPassGivesNilErr(t *testing.T) {
+	rep := spec.Check(secondOrder, spec.Requirements{spec.MinPhaseMarginDeg(45), spec.MaxOvershootPct(20)})
+	if err := rep.Err(); err != nil || !rep.Passed() {
+		t.Errorf("Err() = %v", err)
+	}
+	if err := spec.Check(secondOrder, nil).Err(); err != nil {
+		t.Errorf("no requirements: Err() = %v", err)
+	}
+}
+
+func TestUnstableLoopFailsEverything(t *testing.T) {
+	// K = 10 > 6: unstable (Ogata, Example 6-1, from memory).
+	loop, _ := cubic.Scale(10)
+	var req spec.Requirements
+	for _, k := range spec.Keys() {
+		r, err := spec.ByKey(k, 0)
+		if err != nil {
+			t.Fatal(err)
+		}
+		req = append(req, r)
+	}
+	// Even lenient limits fail: the margins of an unstable loop are no
+	// margins, and the step response has no metrics.
+	rep := spec.Check(loop, req)
+	for _, r := range rep.Results {
+		if r.Requirement.Key() == "max_steady_state_error" || r.Requirement.Key() == "min_damping_ratio" {
+			if r.Pass {
+				t.Errorf("%s passed on an unstable loop: %s", r.Name, r.Message)
+			}
+			continue
+		}
+		if r.Pass {
+			t.Errorf("%s passed on an unstable loop: %s", r.Name, r.Message)
+		}
+		if !strings.Contains(r.Message, "unstable") {
+			t.Errorf("%s: message does not say why: %s", r.Name, r.Message)
+		}
+	}
+}
+
+func TestInvalidRequirements(t *testing.T) {
+	rep := spec.Check(secondOrder, spec.Requirements{{}, spec.MinPhaseMarginDeg(math.NaN()), spec.MaxOvershootPct(math.Inf(1))})
+	for i, r := range rep.Results {
+		if r.Pass || !errors.Is(r.Err, spec.ErrInvalidRequirement) {
+			t.Errorf("result %d: pass %v, err %v", i, r.Pass, r.Err)
+		}
+	}
+	if err := rep.Err(); !errors.Is(err, spec.ErrInvalidRequirement) || !errors.Is(err, spec.ErrNotMet) {
+		t.Errorf("Err() = %v", err)
+	}
+	if _, err := spec.ByKey("max_phase_margin_deg", 1); !errors.Is(err, spec.ErrInvalidRequirement) {
+		t.Errorf("ByKey of an unknown key: %v", err)
+	}
+	bad := spec.CheckWith(secondOrder, spec.Requirements{spec.MinPhaseMarginDeg(1)}, &spec.Settings{PadeOrder: 99})
+	if bad.Passed() || !errors.Is(bad.Results[0].Err, spec.ErrInvalidSettings) {
+		t.Errorf("PadeOrder 99: %+v", bad.Results[0])
+	}
+}
+
+func TestKeysRoundTrip(t *testing.T) {
+	keys := spec.Keys()
+	if len(keys) != 9 {
+		t.Fatalf("%d keys", len(keys))
+	}
+	for _, k := range keys {
+		r, err := spec.ByKey(k, 1.5)
+		if err != nil || r.Key() != k || r.Limit() != 1.5 {
+			t.Errorf("ByKey(%q): %v %v", k, r, err)
+		}
+		if strings.HasPrefix(k, "min_") != strings.HasPrefix(r.Name(), "minimum ") {
+			t.Errorf("%q is named %q", k, r.Name())
+		}
+	}
+}
+
+func TestDeadTime(t *testing.T) {
+	// e^(−s)/s (reference case C04): phase margin 90° − 180°/π at 1 rad/s.
+	// The damping ratio and step metrics use a Padé approximation, which
+	// the message says.
+	rep := spec.Check(deadTimeIntegrator, spec.Requirements{
+		spec.MinPhaseMarginDeg(30), spec.MinDampingRatio(0.1), spec.MaxOvershootPct(50),
+	})
+	if want := 90 - 180/math.Pi; !testutil.Close(rep.Results[0].Value, want, 1e-9, 0) {
+		t.Errorf("phase margin %v, want %v", rep.Results[0].Value, want)
+	}
+	for _, r := range rep.Results[1:] {
+		if !strings.Contains(r.Message, "Padé") {
+			t.Errorf("message does not mention the Padé approximation: %s", r.Message)
+		}
+	}
+}
+
+func TestReferenceToOutput(t *testing.T) {
+	// With a sensor H = 1/(0.5s + 1) in the feedback path, the closed loop
+	// from reference to output F/(1 + F·H) for F = 2/s is
+	// 2(0.5s + 1)/(0.5s² + s + 2), whose overshoot is not that of L/(1+L).
+	f := tf.MustParse("2/s")
+	l := tf.MustParse("2/(s*(0.5s+1))")
+	refOut, err := tf.Feedback(f, tf.MustParse("1/(0.5s+1)"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	unity := spec.Check(l, spec.Requirements{spec.MaxOvershootPct(100)}).Results[0].Value
+	withSensor := spec.CheckWith(l, spec.Requirements{spec.MaxOvershootPct(100)}, &spec.Settings{ReferenceToOutput: refOut}).Results[0].Value
+	// L/(1+L) = 4/(s² + 2s + 4): ζ = 0.5, overshoot 16.3 % (closed form).
+	if !testutil.Close(unity, osSecond, 1e-9, 0) {
+		t.Errorf("unity overshoot %v, want %v", unity, osSecond)
+	}
+	if withSensor <= unity {
+		t.Errorf("overshoot with the sensor's zero %v, want above %v (the zero at −2 adds overshoot)", withSensor, unity)
+	}
+}
+
+func TestDampingRatio(t *testing.T) {
+	// A pole s = ωn(−ζ + j√(1−ζ²)) has damping ratio ζ by definition; its
+	// discrete image e^(sT) must give the same.
+	const T = 0.1
+	for _, z := range []float64{-0.3, 0, 0.2, 0.7, 1} {
+		s := complex(-z*3, 3*math.Sqrt(1-z*z))
+		if got := spec.DampingRatio(s, 0); !testutil.Close(got, z, 1e-14, 1e-15) {
+			t.Errorf("continuous ζ = %v: got %v", z, got)
+		}
+		if got := spec.DampingRatio(cmplx.Exp(s*T), T); !testutil.Close(got, z, 1e-12, 1e-14) {
+			t.Errorf("discrete ζ = %v: got %v", z, got)
+		}
+	}
+	if spec.DampingRatio(0, 0) != 0 || spec.DampingRatio(0, T) != 1 || spec.DampingRatio(-2, 0) != 1 {
+		t.Errorf("special cases")
+	}
+}
+
+func TestDiscreteLoop(t *testing.T) {
+	// The zero-order-hold loop of reference case C13 (T = 1 s): phase
+	// margin 30.384°, gain margin 7.576 dB (mpmath, 50 digits).
+	l, err := tf.NewDiscrete([]float64{0.36787944117144233, 0.2642411176571154}, []float64{1, -1.3678794411714423, 0.36787944117144233}, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep := spec.Check(l, spec.Requirements{spec.MinPhaseMarginDeg(30), spec.MinGainMarginDB(7.6), spec.MaxOvershootPct(100)})
+	if !rep.Results[0].Pass || !testutil.Close(rep.Results[0].Value, 30.384272800323433, 1e-9, 0) {
+		t.Errorf("phase margin %+v", rep.Results[0])
+	}
+	if rep.Results[1].Pass || !testutil.Close(rep.Results[1].Value, 7.57599035510848, 1e-9, 0) {
+		t.Errorf("gain margin %+v", rep.Results[1])
+	}
+	if !rep.Results[2].Pass {
+		t.Errorf("overshoot %+v", rep.Results[2])
+	}
+}
