@@ -1,0 +1,61 @@
+// Package chart turns the results of the analysis packages into pictures,
+// on gonum/plot: root loci, pole–zero maps, frequency responses (magnitude
+// and phase), Nyquist curves and step responses, written as SVG, PNG or
+// PDF. It is optional: nothing else in the library imports it, so a
+// program that never plots never compiles gonum/plot.
+//
+// Every figure function takes a result and a *Settings (nil = defaults)
+// and returns a *Figure:
+//
+//	l, _ := locus.Trace(loop, nil)
+//	f, _ := chart.RootLocus(l, &chart.LocusSettings{Mark: &chart.LocusMark{Value: 20}})
+//	_ = f.Save("locus.svg")                  // format from the extension
+//	_ = f.Render(w, chart.FormatSVG)         // inline SVG for an HTML page
+//
+//	f, _ = chart.PoleZero(g, nil)            // any tf.TF
+//	f, _ = chart.FrequencyResponse(resp, &result, nil) // margins.FrequencyResponse, margins.Compute
+//	f, _ = chart.Nyquist(curve, &result, nil)          // margins.NyquistCurve
+//	f, _ = chart.StepResponse(r, &metrics, nil)        // response.Step, response.StepMetrics
+//
+// A Figure holds ordinary gonum/plot panels (Figure.Panels) that may be
+// changed before writing. The building blocks are exported plotters that
+// follow gonum/plot's conventions (constructors copy and check the data,
+// styles are exported fields): Curve (lines with direction arrows), Marks,
+// Rays, StableRegion and Band.
+//
+// # Conventions
+//
+// Complex planes use equal scales on both axes, so that angles (asymptotes,
+// lines of constant damping) and circles (unit circle, sensitivity circle)
+// look true. The s-plane is labelled "real part σ (1/s)" and "imaginary
+// part ω (rad/s)"; the z-plane and the Nyquist plane are dimensionless.
+// Frequencies are in rad/s on a logarithmic axis, magnitudes in dB, phases
+// in degrees, times in seconds. Poles are ×, zeros ○ (the textbook
+// convention), break points orange diamonds, boundary crossings vermillion
+// squares, marked closed-loop poles black dots. Numbers are written with
+// three or four significant digits and a true minus sign; margins and
+// metrics are written out in words ("gain margin 9.93 dB (factor 3.14) at
+// 4.01 rad/s").
+//
+// The look is this project's own: the Okabe–Ito colour-blind-safe palette
+// (Palette), Liberation Sans text (shipped with gonum/plot, so output does
+// not depend on the fonts installed), thin grey guides, a lightly shaded
+// stable region. Text labels are placed by a greedy search that avoids
+// curves, marks, other labels and the edges.
+//
+// The view of a complex plane is chosen from the points that matter
+// (poles, zeros, break points, crossings, asymptote centroid, marked
+// poles, the stability boundary), not from the whole trace: branches that
+// run to infinity are clipped and their asymptotes show where they go.
+//
+// # Invariants
+//
+// Inputs are never modified; the figure functions copy what they keep.
+// Rendering is deterministic: the same figure gives the same bytes for SVG
+// and PNG on any machine, which the golden-image tests rely on. Bad input
+// (empty data, NaN or infinite values, mismatched lengths, out-of-range
+// settings, an unknown format) returns an error wrapping a sentinel of
+// errors.go, never a panic. A Figure is not safe for concurrent use while
+// it is being changed or rendered; the figure functions themselves are
+// safe for concurrent use.
+package chart

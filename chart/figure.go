@@ -1,0 +1,253 @@
+package chart
+
+import (
+	"bytes"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+	"gonum.org/v1/plot/vg/vgimg"
+	"gonum.org/v1/plot/vg/vgpdf"
+	"gonum.org/v1/plot/vg/vgsvg"
+)
+
+// Output formats understood by Figure.Render and Figure.Save.
+const (
+	FormatSVG = "svg"
+	FormatPNG = "png"
+	FormatPDF = "pdf"
+)
+
+// Default figure size and resolution.
+const (
+	defaultWidthCm  = 16
+	defaultHeightCm = 12
+	defaultDPI      = 150
+	maxSideCm       = 200 // a larger figure is almost surely a unit mistake
+)
+
+// Figure is a finished picture: one panel or several stacked vertically
+// that share the width (the frequency response has two). It is written with
+// Save or Render. The panels are ordinary gonum/plot plots and may be
+// changed before writing (titles, extra plotters); the sizes are exported.
+type Figure struct {
+	// Panels are the plots from top to bottom.
+	Panels []*plot.Plot
+	// Title is written across the top of the figure, above all panels.
+	// Empty means no figure title.
+	Title string
+	// WidthCm and HeightCm are the size of the whole figure in
+	// centimetres (0 < size ≤ 200).
+	WidthCm, HeightCm float64
+	// DPI is the resolution of PNG output in dots per inch (1..1200).
+	// SVG and PDF are vector formats and ignore it.
+	DPI int
+	// Notes are lines of text written under the panels, left-aligned (the
+	// numbers of the figure in words). Empty means none.
+	Notes []string
+	// EmbedFonts makes SVG output carry the fonts inside the file (larger,
+	// but it looks the same everywhere). Without it the SVG names Liberation
+	// Sans and falls back to the metric-compatible Arial or Helvetica and
+	// then to any sans-serif font.
+	EmbedFonts bool
+
+	theme Theme
+	// square lists panels whose two axes must have the same scale (complex
+	// planes), so angles and circles look true.
+	square map[int]bool
+}
+
+// newFigure returns a one-panel figure of the given size.
+func newFigure(p *plot.Plot, s Size, th Theme) *Figure {
+	w, h, dpi := s.resolve()
+	return &Figure{Panels: []*plot.Plot{p}, WidthCm: w, HeightCm: h, DPI: dpi, theme: th, square: map[int]bool{}}
+}
+
+// Size is the output size shared by all Settings types.
+type Size struct {
+	// WidthCm is the figure width in centimetres, in (0, 200]. If zero,
+	// defaults to 16.
+	WidthCm float64
+	// HeightCm is the figure height in centimetres, in (0, 200]. If zero,
+	// defaults to 12 (16 for the two-panel frequency response).
+	HeightCm float64
+	// DPI is the PNG resolution in dots per inch, in [1, 1200]. If zero,
+	// defaults to 150.
+	DPI int
+}
+
+func (s Size) resolve() (w, h float64, dpi int) {
+	w, h, dpi = s.WidthCm, s.HeightCm, s.DPI
+	if w == 0 {
+		w = defaultWidthCm
+	}
+	if h == 0 {
+		h = defaultHeightCm
+	}
+	if dpi == 0 {
+		dpi = defaultDPI
+	}
+	return w, h, dpi
+}
+
+func (s Size) check() error {
+	for _, v := range []struct {
+		name string
+		x    float64
+	}{{"WidthCm", s.WidthCm}, {"HeightCm", s.HeightCm}} {
+		if math.IsNaN(v.x) || v.x < 0 || v.x > maxSideCm {
+			return fmt.Errorf("%w: %s = %g, want 0 (default) or a value in (0, %d]", ErrSize, v.name, v.x, maxSideCm)
+		}
+	}
+	if s.DPI < 0 || s.DPI > 1200 {
+		return fmt.Errorf("%w: DPI = %d, want 0 (default) or a value in [1, 1200]", ErrSize, s.DPI)
+	}
+	return nil
+}
+
+// Save writes the figure to path in the format named by its extension:
+// .svg, .png or .pdf (case does not matter).
+func (f *Figure) Save(path string) error {
+	format := strings.ToLower(strings.TrimPrefix(filepath.Ext(path), "."))
+	var buf bytes.Buffer
+	if err := f.Render(&buf, format); err != nil {
+		return fmt.Errorf("chart: saving %s: %w", path, err)
+	}
+	return os.WriteFile(path, buf.Bytes(), 0o644)
+}
+
+// Render writes the figure to w in the given format: FormatSVG, FormatPNG
+// or FormatPDF. An SVG can be placed inline in an HTML page as it is.
+func (f *Figure) Render(w io.Writer, format string) error {
+	if f == nil || len(f.Panels) == 0 {
+		return fmt.Errorf("%w: figure has no panels", ErrNoData)
+	}
+	if err := (Size{WidthCm: f.WidthCm, HeightCm: f.HeightCm, DPI: f.DPI}).check(); err != nil {
+		return err
+	}
+	if f.WidthCm == 0 || f.HeightCm == 0 {
+		return fmt.Errorf("%w: figure size %g × %g cm", ErrSize, f.WidthCm, f.HeightCm)
+	}
+	wid, hei := vg.Length(f.WidthCm)*vg.Centimeter, vg.Length(f.HeightCm)*vg.Centimeter
+	switch format {
+	case FormatSVG:
+		c := vgsvg.NewWith(vgsvg.UseWH(wid, hei), vgsvg.EmbedFonts(f.EmbedFonts))
+		f.draw(draw.New(c))
+		var buf bytes.Buffer
+		if _, err := c.WriteTo(&buf); err != nil {
+			return err
+		}
+		out := buf.Bytes()
+		if !f.EmbedFonts {
+			out = bytes.ReplaceAll(out, []byte("font-family:Liberation Sans;"),
+				[]byte("font-family:'Liberation Sans',Arial,Helvetica,sans-serif;"))
+		}
+		_, err := w.Write(out)
+		return err
+	case FormatPNG:
+		dpi := f.DPI
+		if dpi == 0 {
+			dpi = defaultDPI
+		}
+		c := vgimg.NewWith(vgimg.UseWH(wid, hei), vgimg.UseDPI(dpi))
+		f.draw(draw.New(c))
+		_, err := vgimg.PngCanvas{Canvas: c}.WriteTo(w)
+		return err
+	case FormatPDF:
+		c := vgpdf.New(wid, hei)
+		c.EmbedFonts(true)
+		f.draw(draw.New(c))
+		_, err := c.WriteTo(w)
+		return err
+	default:
+		return fmt.Errorf("%w: %q (want svg, png or pdf)", ErrFormat, format)
+	}
+}
+
+// draw lays the panels out on the canvas.
+func (f *Figure) draw(c draw.Canvas) {
+	th := f.theme.withDefaults()
+	c.SetColor(th.background())
+	c.Fill(c.Rectangle.Path())
+	pad := vg.Points(6)
+	c = draw.Crop(c, pad, -pad, pad, -pad)
+	if f.Title != "" {
+		sty := th.textStyle(th.FontSizeTitle*1.1, true, draw.XLeft, draw.YTop)
+		c.FillText(sty, vg.Point{X: c.Min.X, Y: c.Max.Y}, f.Title)
+		c.Max.Y -= sty.Rectangle(f.Title).Size().Y + vg.Points(4)
+	}
+	if len(f.Notes) > 0 {
+		sty := th.textStyle(th.FontSizeLabel*0.95, false, draw.XLeft, draw.YBottom)
+		lineH := sty.Rectangle("Ag").Size().Y * 1.2
+		y := c.Min.Y
+		for i := len(f.Notes) - 1; i >= 0; i-- {
+			c.FillText(sty, vg.Point{X: c.Min.X + vg.Points(4), Y: y}, f.Notes[i])
+			y += lineH
+		}
+		c.Min.Y = y + vg.Points(4)
+	}
+	n := len(f.Panels)
+	col := make([][]*plot.Plot, n)
+	for i, p := range f.Panels {
+		col[i] = []*plot.Plot{p}
+	}
+	tiles := draw.Tiles{Rows: n, Cols: 1, PadY: vg.Points(10)}
+	// Square panels need their data area known before their ranges are
+	// final; two passes settle tick-label widths. The requested ranges are
+	// put back afterwards so that rendering leaves the panels unchanged.
+	type box struct{ x0, x1, y0, y1 float64 }
+	saved := map[int]box{}
+	for i, p := range f.Panels {
+		if f.square[i] {
+			saved[i] = box{p.X.Min, p.X.Max, p.Y.Min, p.Y.Max}
+		}
+	}
+	defer func() {
+		for i, b := range saved {
+			p := f.Panels[i]
+			p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = b.x0, b.x1, b.y0, b.y1
+		}
+	}()
+	for pass := 0; pass < 2 && len(saved) > 0; pass++ {
+		cans := plot.Align(col, tiles, c)
+		for i := range saved {
+			p := f.Panels[i]
+			equalScale(p, p.DataCanvas(cans[i][0]))
+		}
+	}
+	cans := plot.Align(col, tiles, c)
+	for i, p := range f.Panels {
+		p.Draw(cans[i][0])
+	}
+}
+
+// equalScale widens the shorter axis range of p so that one data unit has
+// the same length on both axes of the data canvas dc.
+func equalScale(p *plot.Plot, dc draw.Canvas) {
+	w := float64(dc.Max.X - dc.Min.X)
+	h := float64(dc.Max.Y - dc.Min.Y)
+	if w <= 0 || h <= 0 {
+		return
+	}
+	dx, dy := p.X.Max-p.X.Min, p.Y.Max-p.Y.Min
+	if dx <= 0 || dy <= 0 {
+		return
+	}
+	sx, sy := dx/w, dy/h // data units per point
+	switch {
+	case sx > sy:
+		grow := sx*h - dy
+		p.Y.Min -= grow / 2
+		p.Y.Max += grow / 2
+	case sy > sx:
+		grow := sy*w - dx
+		p.X.Min -= grow / 2
+		p.X.Max += grow / 2
+	}
+}

@@ -1,0 +1,402 @@
+package chart
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+
+	"github.com/loopwise/loopwise/poly"
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+)
+
+// valuedPoint is a point of the plane with the label that goes beside it.
+type valuedPoint struct {
+	At    complex128
+	Label string
+}
+
+// planeSpec is everything a complex-plane figure (root locus or pole–zero
+// map) may show, already in plain numbers.
+type planeSpec struct {
+	th          Theme
+	size        Size
+	title       string
+	discrete    bool
+	sampleTime  float64
+	poles       []poly.Root
+	zeros       []poly.Root
+	branches    [][]complex128
+	colourIndex []int // palette index per branch; nil means the branch index
+	hasAsym     bool
+	centroid    float64
+	anglesDeg   []float64
+	breaks      []valuedPoint
+	crossings   []valuedPoint
+	marked      []complex128
+	markedLabel string
+	dampings    []float64
+	freqs       []float64
+	autoGrid    bool
+	key         []keyEntry
+}
+
+// Style constants of complex-plane figures.
+var (
+	markRadius = vg.Points(4)
+	dashGuide  = []vg.Length{vg.Points(4), vg.Points(3)}
+	dotGuide   = []vg.Length{vg.Points(1), vg.Points(2)}
+)
+
+func (s *planeSpec) figure() (*Figure, error) {
+	th := s.th
+	xl, yl := "real part σ (1/s)", "imaginary part ω (rad/s)"
+	if s.discrete {
+		xl, yl = "real part of z", "imaginary part of z"
+	}
+	p := newPanel(th, s.title, xl, yl)
+
+	// Axis limits from the key points.
+	var key []complex128
+	for _, r := range s.poles {
+		key = append(key, r.Value)
+	}
+	for _, r := range s.zeros {
+		key = append(key, r.Value)
+	}
+	for _, b := range s.breaks {
+		key = append(key, b.At)
+	}
+	for _, c := range s.crossings {
+		key = append(key, c.At)
+	}
+	key = append(key, s.marked...)
+	if s.hasAsym {
+		key = append(key, complex(s.centroid, 0))
+	}
+	if len(key) == 0 && len(s.branches) > 0 {
+		// Nothing special to frame: frame the branches.
+		for _, b := range s.branches {
+			key = append(key, b...)
+		}
+	}
+	xmin, xmax, ymin, ymax := planeView(key, s.discrete)
+
+	avoid := &obstacles{}
+	// Stable region and its boundary.
+	p.Add(&StableRegion{Discrete: s.discrete, Color: th.Stable,
+		Boundary: draw.LineStyle{Color: th.Guide, Width: th.GuideWidth}})
+	// Real axis as a faint reference.
+	p.Add(&hLine{Y: 0, LineStyle: draw.LineStyle{Color: th.Guide, Width: th.GuideWidth * 0.8}})
+
+	// Damping grid, laid out when drawn (the view is final only then).
+	gridNotes := &annotations{Style: th.textStyle(th.FontSizeNote*0.95, false, draw.XLeft, draw.YBottom),
+		Leader: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.5)}, Avoid: avoid}
+	p.Add(&dampingGrid{spec: s, notes: gridNotes})
+
+	// Asymptotes.
+	if s.hasAsym && len(s.anglesDeg) > 0 {
+		p.Add(&Rays{OriginX: s.centroid, AnglesDeg: append([]float64(nil), s.anglesDeg...),
+			LineStyle: asymptoteLine(th)})
+		cm, _ := NewMarks([]float64{s.centroid}, []float64{0})
+		cm.GlyphStyle = draw.GlyphStyle{Color: th.Axis, Radius: vg.Points(2), Shape: draw.CircleGlyph{}}
+		p.Add(cm)
+	}
+
+	// Branches, one colour each, with arrows in the direction of increasing
+	// gain (the tracer orders points by value).
+	pal := Palette()
+	for i, b := range s.branches {
+		xs, ys := splitComplex(b)
+		if len(xs) < 2 {
+			continue
+		}
+		c, err := NewCurve(xs, ys)
+		if err != nil {
+			return nil, fmt.Errorf("branch %d: %w", i, err)
+		}
+		ci := i
+		if s.colourIndex != nil {
+			ci = s.colourIndex[i]
+		}
+		c.Color = pal[ci%len(pal)]
+		c.Width = th.LineWidth
+		c.Arrows = 2
+		c.ArrowSize = vg.Points(6.5)
+		p.Add(c)
+		avoid.addCurve(xs, ys)
+	}
+
+	// Break points, crossings, marked closed-loop poles, poles and zeros.
+	var notes []note
+	if len(s.breaks) > 0 {
+		xs, ys := splitValued(s.breaks)
+		m, _ := NewMarks(xs, ys)
+		m.GlyphStyle = breakGlyph()
+		p.Add(m)
+		for _, b := range s.breaks {
+			if b.Label != "" {
+				notes = append(notes, note{X: real(b.At), Y: imag(b.At), Text: b.Label})
+			}
+			avoid.addPoint(real(b.At), imag(b.At))
+		}
+	}
+	if len(s.crossings) > 0 {
+		xs, ys := splitValued(s.crossings)
+		m, _ := NewMarks(xs, ys)
+		m.GlyphStyle = crossingGlyph()
+		p.Add(m)
+		for _, c := range s.crossings {
+			if c.Label != "" {
+				notes = append(notes, note{X: real(c.At), Y: imag(c.At), Text: c.Label})
+			}
+			avoid.addPoint(real(c.At), imag(c.At))
+		}
+	}
+	if len(s.marked) > 0 {
+		xs, ys := splitComplex(s.marked)
+		m, _ := NewMarks(xs, ys)
+		m.GlyphStyle = markedGlyph()
+		p.Add(m)
+		for _, z := range s.marked {
+			avoid.addPoint(real(z), imag(z))
+		}
+	}
+	if len(s.poles) > 0 {
+		xs, ys, counts := splitRoots(s.poles)
+		m, _ := NewMarks(xs, ys)
+		m.GlyphStyle = poleGlyph()
+		p.Add(m)
+		p.Add(&multiplicities{X: xs, Y: ys, N: counts, Style: th.textStyle(th.FontSizeNote, true, draw.XLeft, draw.YBottom)})
+		for i := range xs {
+			avoid.addPoint(xs[i], ys[i])
+		}
+	}
+	if len(s.zeros) > 0 {
+		xs, ys, counts := splitRoots(s.zeros)
+		m, _ := NewMarks(xs, ys)
+		m.GlyphStyle = zeroGlyph()
+		p.Add(m)
+		p.Add(&multiplicities{X: xs, Y: ys, N: counts, Style: th.textStyle(th.FontSizeNote, true, draw.XLeft, draw.YBottom)})
+		for i := range xs {
+			avoid.addPoint(xs[i], ys[i])
+		}
+	}
+
+	layer := &textLayer{}
+	if len(s.key) > 0 {
+		layer.Boxes = append(layer.Boxes, &cornerBox{Entries: s.key,
+			Style:  th.textStyle(th.FontSizeNote, false, draw.XLeft, draw.YBottom),
+			Border: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.4)}, Avoid: avoid})
+	}
+	layer.Notes = append(layer.Notes, &annotations{Notes: notes,
+		Style:  th.textStyle(th.FontSizeNote, false, draw.XLeft, draw.YBottom),
+		Leader: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.5)}, Avoid: avoid}, gridNotes)
+	p.Add(layer)
+
+	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = xmin, xmax, ymin, ymax
+	f := newFigure(p, s.size, th)
+	f.square[0] = true
+	return f, nil
+}
+
+func breakGlyph() draw.GlyphStyle {
+	return draw.GlyphStyle{Color: Orange, Radius: vg.Points(3.2), Shape: diamondGlyph{}}
+}
+
+func crossingGlyph() draw.GlyphStyle {
+	return draw.GlyphStyle{Color: Vermillion, Radius: vg.Points(3.2), Shape: squareGlyph{}}
+}
+
+func markedGlyph() draw.GlyphStyle {
+	return draw.GlyphStyle{Color: Black, Radius: vg.Points(3.4), Shape: dotGlyph{}}
+}
+
+func asymptoteLine(th Theme) draw.LineStyle {
+	return draw.LineStyle{Color: th.Axis, Width: th.GuideWidth, Dashes: dashGuide}
+}
+
+func poleGlyph() draw.GlyphStyle {
+	return draw.GlyphStyle{Color: Black, Radius: markRadius, Shape: crossGlyph{Width: vg.Points(1.5)}}
+}
+
+func zeroGlyph() draw.GlyphStyle {
+	return draw.GlyphStyle{Color: Black, Radius: markRadius, Shape: ringGlyph{Width: vg.Points(1.3)}}
+}
+
+func splitComplex(z []complex128) (xs, ys []float64) {
+	xs, ys = make([]float64, 0, len(z)), make([]float64, 0, len(z))
+	for _, v := range z {
+		if cmplx.IsNaN(v) || cmplx.IsInf(v) {
+			continue
+		}
+		xs = append(xs, real(v))
+		ys = append(ys, imag(v))
+	}
+	return xs, ys
+}
+
+func splitValued(v []valuedPoint) (xs, ys []float64) {
+	for _, p := range v {
+		xs = append(xs, real(p.At))
+		ys = append(ys, imag(p.At))
+	}
+	return xs, ys
+}
+
+func splitRoots(r []poly.Root) (xs, ys []float64, n []int) {
+	for _, p := range r {
+		xs = append(xs, real(p.Value))
+		ys = append(ys, imag(p.Value))
+		n = append(n, p.Multiplicity)
+	}
+	return xs, ys, n
+}
+
+// multiplicities writes the multiplicity of a repeated pole or zero at the
+// upper right of its mark.
+type multiplicities struct {
+	X, Y  []float64
+	N     []int
+	Style draw.TextStyle
+}
+
+func (m *multiplicities) Plot(dc draw.Canvas, p *plot.Plot) {
+	tx, ty := p.Transforms(&dc)
+	for i := range m.X {
+		if m.N[i] < 2 {
+			continue
+		}
+		pt := vg.Point{X: tx(m.X[i]) + markRadius + vg.Points(0.5), Y: ty(m.Y[i]) + markRadius*0.4}
+		if dc.Contains(pt) {
+			dc.FillText(m.Style, pt, fmt.Sprint(m.N[i]))
+		}
+	}
+}
+
+// dampingGrid draws the lines of constant damping and natural frequency
+// for the view in force when the panel is drawn, and hands their labels to
+// notes, which the text layer places later with the other labels.
+type dampingGrid struct {
+	spec  *planeSpec
+	notes *annotations
+}
+
+func (g *dampingGrid) Plot(dc draw.Canvas, p *plot.Plot) {
+	parts := g.spec.gridPlotters(p.X.Min, p.X.Max, p.Y.Max)
+	for _, c := range parts.curves {
+		c.Plot(dc, p)
+	}
+	g.notes.Notes = parts.notes
+}
+
+// gridParts are the curves and labels of a damping grid.
+type gridParts struct {
+	curves []plot.Plotter
+	notes  []note
+}
+
+// gridPlotters returns lines of constant damping ratio ζ and arcs of
+// constant natural frequency ωn. In continuous time a pole
+// s = ωn(−ζ ± j√(1−ζ²)) lies on the ray at angle π ∓ arccos ζ and on the
+// circle of radius ωn. In discrete time the same poles map to z = e^(sT),
+// so the rays become spirals and the circles closed curves inside the
+// unit disc (common practice; see Franklin, Powell and Workman, Digital
+// Control of Dynamic Systems, 3rd ed., §4.3, from memory).
+func (s *planeSpec) gridPlotters(xmin, xmax, ymax float64) gridParts {
+	var out gridParts
+	zetas := append([]float64(nil), s.dampings...)
+	freqs := append([]float64(nil), s.freqs...)
+	if s.autoGrid && len(zetas) == 0 && len(freqs) == 0 {
+		zetas = []float64{0.2, 0.4, 0.6, 0.8}
+		if s.discrete {
+			ny := math.Pi / s.sampleTime
+			for _, f := range []float64{0.2, 0.4, 0.6, 0.8} {
+				freqs = append(freqs, f*ny)
+			}
+		} else {
+			r := math.Max(math.Abs(xmin), ymax)
+			step := niceCeil(r / 4)
+			for w := step; w < r*0.999; w += step {
+				freqs = append(freqs, w)
+			}
+		}
+	}
+	if len(zetas) == 0 && len(freqs) == 0 {
+		return out
+	}
+	sty := draw.LineStyle{Color: s.th.Guide, Width: s.th.GuideWidth * 0.8, Dashes: dotGuide}
+	add := func(xs, ys []float64) {
+		if c, err := NewCurve(xs, ys); err == nil {
+			c.LineStyle = sty
+			out.curves = append(out.curves, c)
+		}
+	}
+	if !s.discrete {
+		reach := 3 * math.Hypot(math.Max(math.Abs(xmin), math.Abs(xmax)), ymax)
+		for _, z := range zetas {
+			c := -z
+			sn := math.Sqrt(1 - z*z)
+			add([]float64{0, reach * c}, []float64{0, reach * sn})
+			add([]float64{0, reach * c}, []float64{0, -reach * sn})
+			// Label just inside the point where the ray leaves the view.
+			t := math.Min(ymax*0.9/sn, math.Abs(xmin)*0.9/math.Max(z, 1e-9))
+			out.notes = append(out.notes, note{X: t * c, Y: t * sn, Text: "ζ = " + formatNumber(z, 3), Color: s.th.Axis})
+		}
+		for _, w := range freqs {
+			var xs, ys []float64
+			for k := 0; k <= 90; k++ {
+				a := math.Pi/2 + float64(k)*math.Pi/90
+				sn, c := math.Sincos(a)
+				xs = append(xs, w*c)
+				ys = append(ys, w*sn)
+			}
+			add(xs, ys)
+			// Label where the arc meets the negative real axis.
+			if w < 0.95*math.Abs(xmin) {
+				a := math.Pi * 0.97
+				sn, c := math.Sincos(a)
+				out.notes = append(out.notes, note{X: w * c, Y: w * sn, Text: "ωn = " + formatNumber(w, 3) + " rad/s", Color: s.th.Axis})
+			}
+		}
+		return out
+	}
+	T := s.sampleTime
+	ny := math.Pi / T
+	for _, z := range zetas {
+		sn := math.Sqrt(1 - z*z)
+		var xs, ys, ym []float64
+		for k := 0; k <= 200; k++ {
+			wn := ny / sn * float64(k) / 200
+			zz := cmplx.Exp(complex(-z*wn*T, wn*sn*T))
+			xs = append(xs, real(zz))
+			ys = append(ys, imag(zz))
+			ym = append(ym, -imag(zz))
+		}
+		add(xs, ys)
+		add(xs, ym)
+		mid := 120
+		out.notes = append(out.notes, note{X: xs[mid], Y: ys[mid], Text: "ζ = " + formatNumber(z, 3), Color: s.th.Axis})
+	}
+	for _, w := range freqs {
+		var xs, ys []float64
+		for k := 0; k <= 90; k++ {
+			a := math.Pi/2 + float64(k)*math.Pi/180
+			sn, c := math.Sincos(a)
+			zz := cmplx.Exp(complex(w*c*T, w*sn*T))
+			xs = append(xs, real(zz))
+			ys = append(ys, imag(zz))
+		}
+		n := len(xs)
+		for k := n - 1; k >= 0; k-- {
+			xs = append(xs, xs[k])
+			ys = append(ys, -ys[k])
+		}
+		add(xs, ys)
+		out.notes = append(out.notes, note{X: xs[0], Y: ys[0], Text: "ωn = " + formatNumber(w, 3) + " rad/s", Color: s.th.Axis})
+	}
+	return out
+}
+
+func cmplxAbs(z complex128) float64 { return cmplx.Abs(z) }

@@ -1,0 +1,128 @@
+package chart
+
+import (
+	"fmt"
+
+	"github.com/loopwise/loopwise/poly"
+	"github.com/loopwise/loopwise/tf"
+)
+
+// PlaneSettings controls the complex-plane figures (PoleZero, RootLocus).
+// A nil *PlaneSettings means the defaults.
+type PlaneSettings struct {
+	// Size is the output size. Its zero value gives 16 × 12 cm at 150 dpi.
+	Size
+	// Theme is the look. If nil, defaults to DefaultTheme().
+	Theme *Theme
+	// Title is the panel title. If empty, defaults to a title naming the
+	// figure ("Pole–zero map", "Root locus", "Root locus over parameter a").
+	Title string
+	// DampingRatios are the damping ratios ζ, each in (0, 1), whose lines
+	// of constant damping are drawn as dotted guides. If nil, none (unless
+	// Grid is set).
+	DampingRatios []float64
+	// NaturalFrequenciesRadPerSec are the natural frequencies ωn > 0
+	// (rad/s) whose arcs are drawn as dotted guides. If nil, none (unless
+	// Grid is set).
+	NaturalFrequenciesRadPerSec []float64
+	// Grid draws a default damping grid (ζ = 0.2, 0.4, 0.6, 0.8 and a few
+	// round natural frequencies in view) when both lists above are empty.
+	Grid bool
+	// HideKey leaves out the box that explains the symbols.
+	HideKey bool
+}
+
+func (s *PlaneSettings) check() error {
+	if s == nil {
+		return nil
+	}
+	if err := s.Size.check(); err != nil {
+		return err
+	}
+	for i, z := range s.DampingRatios {
+		if !(z > 0 && z < 1) {
+			return fmt.Errorf("%w: DampingRatios[%d] = %g, want a value in (0, 1)", ErrSettings, i, z)
+		}
+	}
+	for i, w := range s.NaturalFrequenciesRadPerSec {
+		if !(w > 0) || !finite(w) {
+			return fmt.Errorf("%w: NaturalFrequenciesRadPerSec[%d] = %g, want a finite value > 0", ErrSettings, i, w)
+		}
+	}
+	return nil
+}
+
+func (s *PlaneSettings) theme() Theme {
+	if s == nil || s.Theme == nil {
+		return DefaultTheme()
+	}
+	return s.Theme.withDefaults()
+}
+
+// PoleZero returns the pole–zero map of g: poles as ×, zeros as ○, the
+// multiplicity of a repeated root written beside its mark, the stable
+// region lightly shaded (left half-plane, or the unit disc in discrete
+// time) and optional lines of constant damping and natural frequency.
+// The view frames every pole and zero. A transfer function without poles
+// or zeros (a constant) gives an error wrapping ErrNoData.
+func PoleZero(g tf.TF, set *PlaneSettings) (*Figure, error) {
+	if err := set.check(); err != nil {
+		return nil, err
+	}
+	poles, err := g.Den().RootsWithMultiplicity()
+	if err != nil {
+		return nil, fmt.Errorf("chart: poles of %v: %w", g, err)
+	}
+	var zeros []poly.Root
+	if !g.IsZero() {
+		if zeros, err = g.Num().RootsWithMultiplicity(); err != nil {
+			return nil, fmt.Errorf("chart: zeros of %v: %w", g, err)
+		}
+	}
+	if len(poles) == 0 && len(zeros) == 0 {
+		return nil, fmt.Errorf("%w: %v has neither poles nor zeros", ErrNoData, g)
+	}
+	spec := planeSpec{
+		th:         set.theme(),
+		title:      "Pole–zero map",
+		discrete:   g.IsDiscrete(),
+		sampleTime: g.SampleTimeSec(),
+		poles:      poles,
+		zeros:      zeros,
+	}
+	spec.applySettings(set)
+	if !spec.keyHidden(set) {
+		if len(poles) > 0 {
+			spec.key = append(spec.key, keyEntry{Text: "pole", Glyph: ptr(poleGlyph())})
+		}
+		if len(zeros) > 0 {
+			spec.key = append(spec.key, keyEntry{Text: "zero", Glyph: ptr(zeroGlyph())})
+		}
+		spec.key = append(spec.key, spec.stableKey())
+	}
+	return spec.figure()
+}
+
+func ptr[T any](v T) *T { return &v }
+
+func (s *planeSpec) applySettings(set *PlaneSettings) {
+	if set == nil {
+		return
+	}
+	s.size = set.Size
+	if set.Title != "" {
+		s.title = set.Title
+	}
+	s.dampings = set.DampingRatios
+	s.freqs = set.NaturalFrequenciesRadPerSec
+	s.autoGrid = set.Grid
+}
+
+func (s *planeSpec) keyHidden(set *PlaneSettings) bool { return set != nil && set.HideKey }
+
+func (s *planeSpec) stableKey() keyEntry {
+	if s.discrete {
+		return keyEntry{Text: "stable region (inside the unit circle)", Fill: s.th.Stable}
+	}
+	return keyEntry{Text: "stable region (left half-plane)", Fill: s.th.Stable}
+}

@@ -1,0 +1,293 @@
+package chart
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/loopwise/loopwise/response"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+)
+
+// StepSettings controls StepResponse. A nil *StepSettings means the
+// defaults.
+type StepSettings struct {
+	// Size is the output size. Its zero value gives 16 × 12 cm at 150 dpi.
+	Size
+	// Theme is the look. If nil, defaults to DefaultTheme().
+	Theme *Theme
+	// Title is the panel title. If empty, defaults to "Step response".
+	Title string
+	// OutputLabel names the output and its unit on the vertical axis. If
+	// empty, defaults to "output".
+	OutputLabel string
+	// Levels are the rise levels and the settling band the metrics were
+	// computed with; pass the same value given to response.StepMetrics.
+	// If nil, defaults to 10 % and 90 % and a band of ±2 %.
+	Levels *response.MetricSettings
+	// EndTimeSec is the right end of the time axis in seconds (> 0). If
+	// zero, the axis ends at 1.5 times the settling time (or the peak and
+	// rise times if later), but not after the last sample.
+	EndTimeSec float64
+}
+
+func (s *StepSettings) check() error {
+	if s == nil {
+		return nil
+	}
+	if err := s.Size.check(); err != nil {
+		return err
+	}
+	if s.EndTimeSec < 0 || !finite(s.EndTimeSec) {
+		return fmt.Errorf("%w: EndTimeSec = %g, want 0 (automatic) or a finite value > 0", ErrSettings, s.EndTimeSec)
+	}
+	if l := s.Levels; l != nil {
+		lo, hi, b := levels(l)
+		if !(lo > 0 && lo < hi && hi <= 1) || !(b > 0 && b < 1) {
+			return fmt.Errorf("%w: Levels rise %g–%g and band %g, want 0 < low < high ≤ 1 and 0 < band < 1", ErrSettings, lo, hi, b)
+		}
+	}
+	return nil
+}
+
+// levels returns the rise fractions and the band with defaults filled in,
+// as response.StepMetrics fills them.
+func levels(l *response.MetricSettings) (lo, hi, band float64) {
+	lo, hi, band = 0.1, 0.9, 0.02
+	if l != nil {
+		if l.RiseLowFraction != 0 {
+			lo = l.RiseLowFraction
+		}
+		if l.RiseHighFraction != 0 {
+			hi = l.RiseHighFraction
+		}
+		if l.SettlingBandFraction != 0 {
+			band = l.SettlingBandFraction
+		}
+	}
+	return lo, hi, band
+}
+
+// StepResponse returns a figure of a sampled time response r. With
+// metrics m (from response.StepMetrics for the same system) it also shows
+// the final value, the settling band shaded, the rise between its two
+// levels, the overshoot at its peak and the settling time, each marked on
+// the curve and written out in words in a corner box. With m nil it draws
+// the response alone (an impulse or ramp response, say). A discrete
+// response is drawn held between samples, with a dot at each sample.
+//
+// Errors: ErrNoData for an empty response, ErrLength when TimeSec and
+// Output differ in length, ErrNotFinite for a NaN or infinite sample or
+// metric that must be drawn, ErrSettings and ErrSize for bad settings.
+func StepResponse(r response.Response, m *response.Metrics, set *StepSettings) (*Figure, error) {
+	if err := set.check(); err != nil {
+		return nil, err
+	}
+	if err := checkXY("response", r.TimeSec, r.Output); err != nil {
+		return nil, err
+	}
+	th := DefaultTheme()
+	title, ylab := "Step response", "output"
+	var lv *response.MetricSettings
+	var size Size
+	endTime := 0.0
+	if set != nil {
+		if set.Theme != nil {
+			th = set.Theme.withDefaults()
+		}
+		if set.Title != "" {
+			title = set.Title
+		}
+		if set.OutputLabel != "" {
+			ylab = set.OutputLabel
+		}
+		lv, size, endTime = set.Levels, set.Size, set.EndTimeSec
+	}
+	if m == nil && (set == nil || set.Title == "") {
+		title = "Time response"
+	}
+	lo, hi, band := levels(lv)
+	p := newPanel(th, title, "time (s)", ylab)
+
+	ts, ys := r.TimeSec, r.Output
+	if r.SampleTimeSec > 0 {
+		ts, ys = heldSteps(ts, ys)
+	}
+	tEnd := r.TimeSec[len(r.TimeSec)-1]
+	xmax := tEnd
+	ymin, ymax := math.Min(0, minOf(r.Output)), math.Max(0, maxOf(r.Output))
+	avoid := &obstacles{}
+	avoid.addCurve(ts, ys)
+	layer := &textLayer{}
+	noteStyle := th.textStyle(th.FontSizeNote, false, draw.XLeft, draw.YBottom)
+	var notes []note
+	var key []keyEntry
+
+	if m != nil {
+		F := m.FinalValue
+		if !finite(F) {
+			return nil, fmt.Errorf("%w: final value %g", ErrNotFinite, F)
+		}
+		bandLo, bandHi := F-band*math.Abs(F), F+band*math.Abs(F)
+		ymin, ymax = math.Min(ymin, bandLo), math.Max(ymax, bandHi)
+		p.Add(&Band{Lo: bandLo, Hi: bandHi, Color: th.Stable,
+			Edge: draw.LineStyle{Color: alpha(BluishGreen, 0x80), Width: vg.Points(0.5)}})
+		p.Add(&hLine{Y: F, LineStyle: th.guideLine(dashGuide...)})
+		key = append(key, keyEntry{Text: "final value " + formatNumber(F, 4), Line: ptr(th.guideLine(dashGuide...))})
+		key = append(key, keyEntry{Text: fmt.Sprintf("settling band ±%s %%", formatNumber(100*band, 3)), Fill: th.Stable})
+
+		// Automatic end of the time axis: enough to see the response settle.
+		if endTime == 0 {
+			want := 0.0
+			for _, t := range []float64{1.5 * m.SettlingTimeSec, 1.3 * m.PeakTimeSec, 2 * m.RiseEndSec, 1.3 * m.UndershootTimeSec} {
+				if finite(t) {
+					want = math.Max(want, t)
+				}
+			}
+			if want > 0 && want < tEnd {
+				xmax = want
+			}
+		}
+
+		// Rise: the two levels on the curve and a bracket between them.
+		if finite(m.RiseStartSec) && finite(m.RiseEndSec) && m.RiseTimeSec > 0 {
+			yl, yh := lo*F, hi*F
+			rm, _ := NewMarks([]float64{m.RiseStartSec, m.RiseEndSec}, []float64{yl, yh})
+			rm.GlyphStyle = draw.GlyphStyle{Color: Vermillion, Radius: vg.Points(2.8), Shape: dotGlyph{}}
+			p.Add(&segment{X0: m.RiseStartSec, Y0: yl, X1: m.RiseStartSec, Y1: yh, LineStyle: draw.LineStyle{Color: alpha(Vermillion, 0xa0), Width: vg.Points(0.6), Dashes: dotGuide}})
+			p.Add(&segment{X0: m.RiseStartSec, Y0: yh, X1: m.RiseEndSec, Y1: yh, LineStyle: draw.LineStyle{Color: Vermillion, Width: vg.Points(0.9)}, Heads: vg.Points(5)})
+			p.Add(rm)
+			text := fmt.Sprintf("rise time %s s (%s–%s %%)", formatNumber(m.RiseTimeSec, 3), formatNumber(100*lo, 3), formatNumber(100*hi, 3))
+			key = append(key, keyEntry{Text: text, Glyph: &draw.GlyphStyle{Color: Vermillion, Radius: vg.Points(2.8), Shape: dotGlyph{}}})
+			notes = append(notes, note{X: (m.RiseStartSec + m.RiseEndSec) / 2, Y: yh, Text: "rise " + formatNumber(m.RiseTimeSec, 3) + " s"})
+		}
+		// Overshoot: the peak and its height above the final value.
+		if m.OvershootPct > 0 && finite(m.PeakTimeSec) && finite(m.PeakValue) {
+			pk := m.PeakValue
+			p.Add(&segment{X0: m.PeakTimeSec, Y0: F, X1: m.PeakTimeSec, Y1: pk, LineStyle: draw.LineStyle{Color: ReddishPurple, Width: vg.Points(0.9)}, Heads: vg.Points(5)})
+			pm, _ := NewMarks([]float64{m.PeakTimeSec}, []float64{pk})
+			pm.GlyphStyle = draw.GlyphStyle{Color: ReddishPurple, Radius: vg.Points(3), Shape: dotGlyph{}}
+			p.Add(pm)
+			text := fmt.Sprintf("overshoot %s %% at %s s", formatNumber(m.OvershootPct, 3), formatNumber(m.PeakTimeSec, 3))
+			key = append(key, keyEntry{Text: text, Glyph: &pm.GlyphStyle})
+			notes = append(notes, note{X: m.PeakTimeSec, Y: pk, Text: "overshoot " + formatNumber(m.OvershootPct, 3) + " %"})
+			ymax = math.Max(ymax, pk)
+		} else {
+			key = append(key, keyEntry{Text: "no overshoot"})
+		}
+		if m.UndershootPct > 0 && finite(m.UndershootTimeSec) && finite(m.UndershootValue) {
+			// The mark sits on the drawn curve at the undershoot time.
+			uv := interp(r.TimeSec, r.Output, m.UndershootTimeSec)
+			um, _ := NewMarks([]float64{m.UndershootTimeSec}, []float64{uv})
+			um.GlyphStyle = draw.GlyphStyle{Color: Orange, Radius: vg.Points(3), Shape: dotGlyph{}}
+			p.Add(um)
+			text := fmt.Sprintf("undershoot %s %% at %s s", formatNumber(m.UndershootPct, 3), formatNumber(m.UndershootTimeSec, 3))
+			key = append(key, keyEntry{Text: text, Glyph: &um.GlyphStyle})
+		}
+		// Settling: the last exit from the band.
+		if finite(m.SettlingTimeSec) && m.SettlingTimeSec > 0 {
+			st := m.SettlingTimeSec
+			p.Add(&vLine{X: st, LineStyle: draw.LineStyle{Color: BluishGreen, Width: vg.Points(0.8), Dashes: dashGuide}})
+			ysAt := interp(r.TimeSec, r.Output, st)
+			sm, _ := NewMarks([]float64{st}, []float64{ysAt})
+			sm.GlyphStyle = draw.GlyphStyle{Color: BluishGreen, Radius: vg.Points(3), Shape: dotGlyph{}}
+			p.Add(sm)
+			text := fmt.Sprintf("settling time %s s (±%s %% band)", formatNumber(st, 3), formatNumber(100*band, 3))
+			key = append(key, keyEntry{Text: text, Line: &draw.LineStyle{Color: BluishGreen, Width: vg.Points(0.8), Dashes: dashGuide}})
+			notes = append(notes, note{X: st, Y: ysAt, Text: "settled " + formatNumber(st, 3) + " s"})
+		}
+	}
+	if endTime > 0 {
+		xmax = endTime
+	}
+	if m != nil {
+		// Guides are obstacles too: the key box should not hide them.
+		F := m.FinalValue
+		for _, y := range []float64{F, F - band*math.Abs(F), F + band*math.Abs(F)} {
+			avoid.addCurve([]float64{0, xmax}, []float64{y, y})
+		}
+		if finite(m.RiseStartSec) && finite(m.RiseEndSec) {
+			avoid.addCurve([]float64{m.RiseStartSec, m.RiseStartSec, m.RiseEndSec}, []float64{lo * F, hi * F, hi * F})
+		}
+		if m.OvershootPct > 0 && finite(m.PeakTimeSec) && finite(m.PeakValue) {
+			avoid.addCurve([]float64{m.PeakTimeSec, m.PeakTimeSec}, []float64{F, m.PeakValue})
+		}
+		if finite(m.SettlingTimeSec) && m.SettlingTimeSec > 0 {
+			avoid.addCurve([]float64{m.SettlingTimeSec, m.SettlingTimeSec}, []float64{ymin, ymax})
+		}
+	}
+
+	c, err := NewCurve(ts, ys)
+	if err != nil {
+		return nil, err
+	}
+	c.Color, c.Width = Blue, th.LineWidth
+	p.Add(c)
+	if r.SampleTimeSec > 0 && len(r.TimeSec) <= 400 {
+		dm, _ := NewMarks(r.TimeSec, r.Output)
+		dm.GlyphStyle = draw.GlyphStyle{Color: Blue, Radius: vg.Points(1.6), Shape: draw.CircleGlyph{}}
+		p.Add(dm)
+	}
+	if len(key) > 0 {
+		layer.Boxes = append(layer.Boxes, &cornerBox{Entries: key, Style: noteStyle,
+			Border: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.4)}, Avoid: avoid})
+	}
+	layer.Notes = append(layer.Notes, &annotations{Notes: notes, Style: noteStyle,
+		Leader: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.5)}, Avoid: avoid})
+	p.Add(layer)
+
+	pad := 0.08 * (ymax - ymin)
+	if pad == 0 {
+		pad = 1
+	}
+	p.X.Min, p.X.Max = 0, xmax
+	p.Y.Min, p.Y.Max = ymin-pad, ymax+pad
+	return newFigure(p, size, th), nil
+}
+
+// heldSteps returns the staircase of a sequence held constant between
+// samples.
+func heldSteps(t, y []float64) (ts, ys []float64) {
+	for i := range t {
+		if i > 0 {
+			ts = append(ts, t[i])
+			ys = append(ys, y[i-1])
+		}
+		ts = append(ts, t[i])
+		ys = append(ys, y[i])
+	}
+	return ts, ys
+}
+
+// interp returns y at x by linear interpolation in the increasing xs.
+func interp(xs, ys []float64, x float64) float64 {
+	if len(xs) == 0 {
+		return math.NaN()
+	}
+	if x <= xs[0] {
+		return ys[0]
+	}
+	for i := 1; i < len(xs); i++ {
+		if x <= xs[i] {
+			f := (x - xs[i-1]) / (xs[i] - xs[i-1])
+			return ys[i-1] + f*(ys[i]-ys[i-1])
+		}
+	}
+	return ys[len(ys)-1]
+}
+
+func minOf(v []float64) float64 {
+	m := math.Inf(1)
+	for _, x := range v {
+		m = math.Min(m, x)
+	}
+	return m
+}
+
+func maxOf(v []float64) float64 {
+	m := math.Inf(-1)
+	for _, x := range v {
+		m = math.Max(m, x)
+	}
+	return m
+}
