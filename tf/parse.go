@@ -360,11 +360,12 @@ func (p *parser) power() (rat, error) {
 	if n > 0 && max(v.num.Degree(), v.den.Degree()) > maxDegree/n {
 		return rat{}, p.errf("the power has degree above %d", maxDegree)
 	}
+	expTok := p.tok
 	p.next()
 	r := rat{num: v.num.Pow(n), den: v.den.Pow(n), delay: v.delay * float64(n)}
 	if neg {
 		if r.num.IsZero() {
-			return rat{}, p.errf("negative power of zero")
+			return rat{}, &SyntaxError{Text: p.text, Offset: expTok.pos, Msg: "negative power of zero"}
 		}
 		r = rat{num: r.den, den: r.num, delay: -r.delay}
 	}
