@@ -36,13 +36,14 @@ func (m Model) Order() int { return len(m.B) }
 //
 // The realisation is the controllable companion form (Kailath, Linear
 // Systems, 1980, Sec. 2.1) transformed by the diagonal similarity
-// x_companion = diag(Scale)·x, where Scale[i] = ρ^(i−n)·d[i]: ρ = max_k
-// |a_k/a_0|^(1/k) bounds the root moduli of den within a factor 2 (Fujiwara
-// 1916), which turns every coefficient of the last row into a number of the
-// size of the poles, and d are the power-of-two Parlett–Reinsch balancing
-// factors (Parlett & Reinsch 1969, LAPACK Dgebal), which equalise row and
-// column norms. Powers of the scaling factor are exact only up to rounding
-// of ρ^k; the transfer function is reproduced to a few ulps relative.
+// x_companion = diag(Scale)·x, where Scale[i] = ρ^(i−n)·d[i]: ρ is
+// max_k |a_k/a_0|^(1/k), which bounds the root moduli of den within a
+// factor 2 (Fujiwara 1916), rounded to a power of two, so that every
+// coefficient of the last row becomes a number of the size of the poles;
+// d are the power-of-two Parlett–Reinsch balancing factors (Parlett &
+// Reinsch 1969, LAPACK Dgebal), which equalise row and column norms. All
+// scalings are powers of two, so the realisation has exactly the transfer
+// function of the companion form (no rounding is added).
 // For a companion matrix of order 24 with poles near 9 this reduces ‖A‖₁
 // from about 2e9 to the size of the poles times the binomial spread, which
 // is what keeps the matrix exponential accurate (see package response).
@@ -97,10 +98,15 @@ func FromTransferFunction(num, den []float64) (Model, error) {
 	if rho == 0 || math.IsInf(rho, 0) {
 		rho = 1 // all poles at the origin: no frequency scale to remove
 	}
-	// t[j] = ρ^(j−n), j = 0..n−1: companion state j is scaled by ρ^(j−n).
+	// Round ρ to a power of two so that every scaling below is exact and
+	// the realisation has exactly the transfer function of the rounded
+	// companion form (no extra rounding of the coefficients).
+	e := math.Round(math.Log2(rho))
+	// t[j] = ρ^(j−n), j = 0..n−1: companion state j is scaled by ρ^(j−n),
+	// clamped to the normal range of float64.
 	t := make([]float64, n)
 	for j := range t {
-		t[j] = math.Pow(rho, float64(j-n))
+		t[j] = math.Ldexp(1, int(max(-1000, min(1000, e*float64(j-n)))))
 	}
 	A := make([]float64, n*n)
 	for j := 0; j+1 < n; j++ {
