@@ -194,13 +194,16 @@ func (a *analysis) rootLocus() {
 	set := &locus.Settings{PadeOrder: padeOrder}
 	loop := m.base
 	if p := lf.Parameter; p != nil {
-		par, err := fromParameter(p.Name, m.loopAt)
+		par, err := locus.FromParameter(p.Name, m.loopAt)
 		if err != nil {
 			a.warn("the locus in the parameter %s cannot be formed: %s", p.Name, short(err))
 			rep.Locus.Variable = p.Name
 			return
 		}
 		loop = par.Loop
+		for _, n := range par.Notes {
+			a.warn("parameter locus: %s", n)
+		}
 		set.Variable = p.Name
 		set.Range = locus.Range{Min: p.Range[0], Max: p.Range[1]}
 	} else {

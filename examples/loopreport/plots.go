@@ -2,8 +2,12 @@ package main
 
 import (
 	"bytes"
+	"fmt"
 
 	"github.com/loopwise/loopwise/chart"
+	"github.com/loopwise/loopwise/locus"
+	"github.com/loopwise/loopwise/margins"
+	"github.com/loopwise/loopwise/response"
 )
 
 // render draws fig as SVG and PNG into a figure of the report.
@@ -18,23 +22,94 @@ func render(fig *chart.Figure, file, title, caption string) (figure, error) {
 	return figure{file: file, title: title, caption: caption, svg: svg.Bytes(), png: png.Bytes()}, nil
 }
 
-// plots draws the figures of the report; a figure that cannot be drawn is
-// left out with a warning.
+// plots draws the figures of the report: root locus, frequency response,
+// Nyquist curve, step response and pole–zero map. A figure that cannot be
+// drawn is left out with a warning that says why.
 func (a *analysis) plots() []figure {
 	var figs []figure
-	add := func(fig *chart.Figure, err error, file, title, caption string) {
-		if err != nil {
-			a.warn("plot %q: %s", title, short(err))
-			return
+	add := func(title, file, caption string, draw func() (*chart.Figure, error)) {
+		fig, err := draw()
+		if err == nil {
+			var f figure
+			if f, err = render(fig, file, title, caption); err == nil {
+				figs = append(figs, f)
+				return
+			}
 		}
-		f, err := render(fig, file, title, caption)
-		if err != nil {
-			a.warn("plot %q: %s", title, short(err))
-			return
-		}
-		figs = append(figs, f)
+		a.warn("plot %q not drawn: %s", title, short(err))
 	}
-	fig, err := chart.PoleZero(a.m.open, &chart.PlaneSettings{Grid: true})
-	add(fig, err, "pole-zero-map", "Pole–zero map of the open loop", "Open-loop poles (×) and zeros (○) of L; the shaded region is where closed-loop poles are stable.")
+	m, lf := a.m, a.m.file
+	variable, value := "the loop gain k", m.gain
+	if p := lf.Parameter; p != nil {
+		variable, value = "the parameter "+p.Name, p.Value
+	}
+
+	add("Root locus", "root-locus",
+		fmt.Sprintf("Closed-loop poles as %s varies over %s: branches with arrows in the direction of increasing %s, open-loop poles (×) and zeros (○), asymptotes, break points and crossings of the stability boundary with their values; filled dots are the closed-loop poles at %s = %s.",
+			variable, intervalText(a.rep.Locus.Range), a.rep.Locus.Variable, a.rep.Locus.Variable, g(number(value))),
+		func() (*chart.Figure, error) {
+			if a.locus == nil {
+				return nil, fmt.Errorf("the locus could not be analysed")
+			}
+			set := &locus.Settings{PadeOrder: padeOrder, Range: a.locus.Range, Variable: a.locus.Variable}
+			l, err := locus.Trace(a.locusFor, set)
+			if err != nil {
+				return nil, err
+			}
+			var mark *chart.LocusMark
+			if a.locus.Range.Contains(value) {
+				if poles, err := locus.ClosedLoopPoles(a.locusFor, value); err == nil {
+					mark = &chart.LocusMark{Value: value, Poles: poles}
+				}
+			}
+			return chart.RootLocus(l, &chart.LocusSettings{PlaneSettings: chart.PlaneSettings{Grid: true}, Mark: mark})
+		})
+
+	add("Frequency response", "frequency-response",
+		fmt.Sprintf("Magnitude and phase of the open loop L at k = %s, with the gain and phase crossovers and the margins.", g(number(m.gain))),
+		func() (*chart.Figure, error) {
+			grid, err := margins.AutoGrid(m.open, nil)
+			if err != nil {
+				return nil, err
+			}
+			resp, err := margins.FrequencyResponse(m.open, grid)
+			if err != nil {
+				return nil, err
+			}
+			return chart.FrequencyResponse(resp, a.margins, nil)
+		})
+
+	add("Nyquist curve", "nyquist",
+		"The open loop L along the Nyquist contour, the critical point −1, the unit circle and the circle of radius 1/Ms around −1 that the curve touches at the peak sensitivity.",
+		func() (*chart.Figure, error) {
+			n, err := margins.NyquistCurve(m.open, nil)
+			if err != nil {
+				return nil, err
+			}
+			return chart.Nyquist(n, a.margins, nil)
+		})
+
+	add("Step response", "step-response",
+		"Response of the closed loop from reference to output to a unit step, with the rise between 10 % and 90 %, the overshoot and the 2 % settling band.",
+		func() (*chart.Figure, error) {
+			if a.step == nil || a.refOut.IsZero() {
+				return nil, fmt.Errorf("the closed loop has no settled step response (see the step warnings)")
+			}
+			r, err := response.Step(a.refOut, nil)
+			if err != nil {
+				return nil, err
+			}
+			return chart.StepResponse(r, a.step, nil)
+		})
+
+	add("Pole–zero map", "pole-zero-map",
+		"Open-loop poles (×) and zeros (○) of L with lines of constant damping; the shaded region is where poles are stable.",
+		func() (*chart.Figure, error) {
+			l := m.open.WithoutDelay()
+			if m.open.IsDiscrete() && a.rational.DelaySec() == 0 {
+				l = a.rational
+			}
+			return chart.PoleZero(l, &chart.PlaneSettings{Grid: true})
+		})
 	return figs
 }
