@@ -18,8 +18,28 @@
 //
 // The text form reads numbers (2, 0.5, 1e-3), the variable s (or z), the
 // operators + − * / and ^ with integer exponents, parentheses, implicit
-// multiplication (10(s+1)/(s(s+5)^2), 2.5s), exp(−T·s) for dead time in
-// continuous time, and named parameters where the caller supplies them.
+// multiplication (10(s+1)/(s(s+5)^2), 2.5s), exp(−T·s) for dead time (T in
+// seconds, in both domains), and named parameters where the caller
+// supplies them. String prints this form and Parse reads it back to the
+// same value.
+//
+// Dead time is kept exactly by evaluation, series connection and
+// FrequencyResponse. Operations whose result would not be rational times
+// one dead time (feedback around a delay, sums of different delays) return
+// ErrDelayInLoop; Pade replaces the dead time by a rational approximation
+// of stated order. In discrete time a dead time of k·T is the factor z^(−k).
+//
+// Discretize follows the conventions of the project's reference cases:
+// numerator and denominator in z, highest power first, the denominator
+// monic; the zero-order-hold numerator of a strictly proper G of order n
+// has degree n − 1 (its zero z^n coefficient is dropped); Tustin uses
+// s = c(z − 1)/(z + 1) with c = 2/T, or c = ω₀/tan(ω₀T/2) when pre-warped
+// at ω₀. Whole sample periods of dead time become poles at z = 0; a
+// fractional remainder is kept exactly by the zero-order hold (modified
+// z-transform) and is an error (ErrFractionalDelay) for the other methods.
+//
+// FromStateSpace reads single-input single-output models ẋ = Ax + Bu,
+// y = Cx + Du given as gonum matrices.
 //
 // # Invariants
 //
@@ -28,6 +48,7 @@
 // the sample period are finite, and the dead time and sample period are
 // non-negative. Numerator and denominator are kept as given (leading zeros
 // dropped, no common factors cancelled, no normalisation), so a value prints
-// the way it was written; EqualApprox compares the normalised forms.
+// the way it was written; EqualApprox compares the normalised forms, and
+// Normalized and Minimal give the monic and the cancelled forms.
 // The zero value of TF is the continuous-time zero transfer function 0/1.
 package tf

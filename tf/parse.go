@@ -44,8 +44,12 @@ const maxTextLen = 1 << 16
 //
 // Numbers are decimal with an optional exponent (1e-3). "exp(−T·s)" is dead
 // time of T seconds; it may only multiply the whole expression (terms of a
-// sum must carry the same dead time). Errors match ErrSyntax and are
-// *SyntaxError values that give the position and what was expected.
+// sum must carry the same dead time). Exponents are at most 1000 and every
+// intermediate polynomial has degree at most 500. Errors match ErrSyntax
+// and are *SyntaxError values that give the position and what was
+// expected; text that overflows float64 returns ErrNotFinite, a zero
+// denominator ErrZeroDenominator and a dead-time advance (1/exp(−s))
+// ErrNegativeDelay.
 func Parse(text string) (TF, error) { return ParseWith(text, nil) }
 
 // ParseDiscrete reads a discrete-time transfer function in z with sample
