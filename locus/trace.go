@@ -292,6 +292,18 @@ func (t *tracer) nodes() ([]node, error) {
 		}
 		out = append(out, nd)
 	}
+	// A trace towards ±∞ starts from a value of that sign.
+	var fixed []node
+	for i, nd := range out {
+		if i > 0 && nd.kind == infNode && nd.k > 0 && out[i-1].k <= 0 {
+			fixed = append(fixed, node{k: t.kTyp, kind: regularNode})
+		}
+		fixed = append(fixed, nd)
+		if i+1 < len(out) && nd.kind == infNode && nd.k < 0 && out[i+1].k >= 0 {
+			fixed = append(fixed, node{k: -t.kTyp, kind: regularNode})
+		}
+	}
+	out = fixed
 	for i := range out {
 		if err := t.fillNode(&out[i]); err != nil {
 			return nil, err
@@ -306,9 +318,15 @@ func (t *tracer) buffer(lo, hi float64) float64 {
 	case math.IsInf(lo, -1) && math.IsInf(hi, 1):
 		return 0
 	case math.IsInf(hi, 1):
-		return lo + math.Max(math.Abs(lo), t.kTyp)
+		if lo <= 0 {
+			return t.kTyp
+		}
+		return lo + math.Max(lo, t.kTyp)
 	case math.IsInf(lo, -1):
-		return hi - math.Max(math.Abs(hi), t.kTyp)
+		if hi >= 0 {
+			return -t.kTyp
+		}
+		return hi - math.Max(-hi, t.kTyp)
 	}
 	return lo + (hi-lo)/2
 }
@@ -359,7 +377,9 @@ func (t *tracer) fillNode(nd *node) error {
 		return fmt.Errorf("%w: roots at infinity at the regular value %v", ErrTraceFailed, nd.k)
 	}
 	// Snap to exactly known points.
-	near := func(k float64) bool { return math.Abs(k-nd.k) <= 1e-12*math.Max(1, math.Abs(nd.k)) }
+	near := func(k float64) bool {
+		return nd.kind == regularNode && math.Abs(k-nd.k) <= 1e-12*math.Max(1, math.Abs(nd.k))
+	}
 	used := make([]bool, N)
 	for _, c := range t.an.AxisCrossings {
 		if !near(c.Value) {
