@@ -125,6 +125,8 @@ func (d levitation) print(w io.Writer) error {
 	p.F("  phase margin %.1f degrees at %.4g rad/s\n", m.PhaseMarginDeg, m.GainCrossoverRadPerSec)
 	p.F("  delay margin %s\n", words.Seconds(m.DelayMarginSec))
 	p.F("  peak sensitivity %.3f (%.2f dB) at %.4g rad/s\n", m.PeakSensitivity, 20*math.Log10(m.PeakSensitivity), m.PeakSensitivityRadPerSec)
+	p.F("  Nyquist criterion: %d unstable open-loop pole(s), %d unstable closed-loop pole(s): the curve\n", m.OpenLoopUnstablePoles, m.ClosedLoopUnstablePoles)
+	p.F("  must encircle -1 counter-clockwise %d time(s), and the closed loop is %s\n", m.OpenLoopUnstablePoles-m.ClosedLoopUnstablePoles, stableWord(m.ClosedLoopStable))
 
 	s := d.Step
 	p.F("\nStep of the height reference by 1 mm\n")
@@ -133,4 +135,11 @@ func (d levitation) print(w io.Writer) error {
 	p.F("  rise time (10 %% to 90 %%) %s, overshoot %.3g %%, settling time (2 %% band) %s\n",
 		words.Seconds(s.RiseTimeSec), s.OvershootPct, words.Seconds(s.SettlingTimeSec))
 	return p.Err()
+}
+
+func stableWord(stable bool) string {
+	if stable {
+		return "stable"
+	}
+	return "unstable"
 }
