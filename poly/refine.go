@@ -185,7 +185,8 @@ func simpleNoise(c []float64, z complex128) float64 {
 func aberth(c []float64, z []complex128) {
 	n := len(z)
 	done := make([]bool, n)
-	for range maxAberthIterations {
+	prev := make([]float64, n)
+	for it := range maxAberthIterations {
 		active := false
 		for k := range z {
 			if done[k] {
@@ -216,6 +217,17 @@ func aberth(c []float64, z []complex128) {
 				done[k] = true
 				continue
 			}
+			// The real axis is invariant under the iteration for a real
+			// polynomial, so a real approximation can never reach a
+			// complex root (for instance when the eigenvalues of a
+			// nearly double complex pair come out as two real numbers).
+			// A real approximation that stops converging fast (its step
+			// no longer halves) is moved off the axis by the size of its
+			// step; if the root is real, the iteration brings it back.
+			if it >= 3 && imag(z[k]) == 0 && ad > 0.5*prev[k] {
+				z[k] = complex(real(z[k]), ad)
+			}
+			prev[k] = ad
 			active = true
 		}
 		if !active {

@@ -386,3 +386,24 @@ func TestClusterOff(t *testing.T) {
 	flat := flatten(rs)
 	checkRootStructure(t, "cluster off", flat)
 }
+
+// TestNearDoubleComplexPair: 1e-8x⁶ + x⁵ + 2.5e7x⁴ + … (a fuzzing find, see
+// testdata/gen_roots.py) has the roots −5e7 ± 0.848i (mpmath), which a
+// relative change of about 1.3u in one coefficient turns into an exact
+// double root. By default (tolerance 8u) it is reported as a double real
+// root at −5e7 (to 1e-12 relative: the root of p′ near the pair); the
+// golden test checks the pair itself with recognition off.
+func TestNearDoubleComplexPair(t *testing.T) {
+	p := MustNew(1e-08, 1.0, 25000000.0, -0.3333333333333333, 74.08333333333333, 2.0, 109.99988888888889)
+	rs, err := p.RootsWithMultiplicity()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rs[0].Multiplicity != 2 || !testutil.CloseComplex(rs[0].Value, -5e7, 1e-12, 0) {
+		t.Errorf("got %v, want a double root at −5e7 first", rs)
+	}
+	eta, err := p.RootsBackwardError(flatten(rs))
+	if err != nil || eta > 10*machineEpsilon {
+		t.Errorf("backward error %g, %v", eta, err)
+	}
+}

@@ -202,6 +202,17 @@ add("triple_inexact", "constructed: (x+0.1)^3 (x-2), decimal coefficients rounde
     [mp.mpf("-0.1")] * 3 + [mp.mpf(2)], [1, 3],
     "exact decimal factorisation (not the double coefficients)", 1e-12)
 
+# A nearly double complex pair far from the other roots: the leading part
+# 1e-8 x^2 + x + 2.5e7 has discriminant 1 - 4*1e-8*2.5e7 = 0 up to
+# rounding, so the eigenvalues can come out as two real numbers although
+# the roots are -5e7 +- 0.85i (found by go test -fuzz FuzzRoots). A change
+# of about 1.3u in a4 makes the pair an exact double root, so by default
+# the package reports a double root at -5e7 (tested in Go); the reference
+# here is for cluster recognition off.
+c = [1e-08, 1.0, 25000000.0, -0.3333333333333333, 74.08333333333333, 2.0, 109.99988888888889]
+add("near_double_complex_pair", "constructed (fuzzing find): 1e-8 x^6 + x^5 + 2.5e7 x^4 + ...", c, mp_roots(c),
+    [1] * 6, "mpmath roots of the double coefficients", 1e-12, settings=-1)
+
 # Chebyshev polynomial T_15: integer coefficients (exact), roots
 # cos((2k-1) pi / 30) (closed form).
 def cheb(n):
