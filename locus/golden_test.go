@@ -22,7 +22,7 @@ type goldenFile struct {
 	} `json:"conditionally_stable"`
 	Discrete struct {
 		Num, Den   []float64
-		SampleTime float64 `json:"sample_time"`
+		SampleTime float64                             `json:"sample_time"`
 		Crossings  []struct{ Theta, Omega, K float64 } `json:"circle_crossings"`
 		Stable     [][2]any
 		Breaks     []struct {
