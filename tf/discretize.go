@@ -116,11 +116,14 @@ const delayTol = 1e-9
 //
 // Dead time τ: a whole number k of sample periods (within delayTol) becomes
 // k extra poles at z = 0 (the factor z⁻ᵏ) for every method. A fractional
-// remainder is kept exactly only by ZeroOrderHold, through the modified
-// z-transform: with τ = dT + θ, 0 < θ < T, the input held over a period
-// switches at θ, so Γ splits into Γ_b = Γ₁(T − θ) and
-// Γ_a = Φ(T − θ)Γ₁(θ), and G_d(z) = z^{−d−1}·[C(zI − Φ)⁻¹(ΦΓ_b + Γ_a) +
-// CΓ_b + D]. The other methods return ErrFractionalDelay for a fractional
+// remainder is kept exactly by the two holds, which stay exact for their
+// input classes: with τ = dT + θ, 0 < θ < T, the delayed input changes its
+// segment at θ within each period, so the hold integrals split at θ (the
+// modified z-transform for the zero-order hold:
+// G_d(z) = z^{−d−1}·[C(zI − Φ)⁻¹(ΦΓ_b + Γ_a) + CΓ_b + D] with
+// Γ_b = Γ₁(T − θ), Γ_a = Φ(T − θ)Γ₁(θ); the first-order-hold form is
+// derived in holdEquivalent), and the result has d + 1 poles at z = 0.
+// Tustin and MatchedPoleZero return ErrFractionalDelay for a fractional
 // dead time (approximate it with Pade first if that is acceptable). The
 // result has DelaySec 0.
 //
@@ -162,8 +165,8 @@ func (g TF) Discretize(sampleTimeSec float64, method DiscretizeMethod, set *Disc
 	}
 	// Whole sample periods of dead time, and the fractional remainder θ.
 	k, theta := splitDelay(g.delay, T)
-	if theta != 0 && method != ZeroOrderHold {
-		return TF{}, fmt.Errorf("%w: dead time %v s is %v sample periods of %v s; %v keeps only whole periods (zero-order hold keeps any dead time)", ErrFractionalDelay, g.delay, g.delay/T, T, method)
+	if theta != 0 && method != ZeroOrderHold && method != FirstOrderHold {
+		return TF{}, fmt.Errorf("%w: dead time %v s is %v sample periods of %v s; %v keeps only whole periods (the zero- and first-order holds keep any dead time)", ErrFractionalDelay, g.delay, g.delay/T, T, method)
 	}
 	if method != Tustin && !g.IsProper() {
 		return TF{}, fmt.Errorf("%w: %v needs a proper transfer function, numerator degree %d > denominator degree %d", ErrImproper, method, g.num.Degree(), g.Den().Degree())
@@ -177,7 +180,7 @@ func (g TF) Discretize(sampleTimeSec float64, method DiscretizeMethod, set *Disc
 	case ZeroOrderHold, FirstOrderHold:
 		num, den, err = holdEquivalent(g.num, g.Den(), T, theta, method == FirstOrderHold)
 		if theta != 0 {
-			k++ // the modified z-transform carries one more period: z^{−d−1}
+			k++ // the fractional-delay forms carry one more period: z^{−d−1}
 		}
 	case Tustin:
 		c := 2 / T
@@ -214,8 +217,8 @@ func splitDelay(tau, T float64) (k int, theta float64) {
 }
 
 // holdEquivalent returns the zero- or first-order-hold equivalent of the
-// proper num/den (θ > 0 only for the zero-order hold: the fractional dead
-// time of the modified z-transform). The denominator is monic:
+// proper num/den; θ > 0 is a fractional dead time (0 < θ < T), for which
+// the caller adds one more period of delay. The denominator is monic:
 // ∏(z − e^{pᵢT}). The realisation and hold integrals come from
 // internal/statespace (scaled, balanced companion form; Van Loan 1978 block
 // exponential through gonum's mat.Exp).
@@ -251,8 +254,52 @@ func holdEquivalent(num, den poly.Poly, T, theta float64, firstOrder bool) (poly
 	}
 	var gamma []float64
 	d := m.D
+	e1 := 0.0 // coefficient of an extra z·den(z) term in the numerator
 	var phi *mat.Dense
 	switch {
+	case firstOrder && theta != 0:
+		// Triangle hold with a fractional dead time θ (d whole periods
+		// are applied by the caller): the delayed input over one period
+		// lies on the segment u[j−1]→u[j] for the first θ seconds and on
+		// u[j]→u[j+1] for the remaining L = T − θ (j = k − d). With the
+		// hold integrals Γ₁(t), Γ₂(t) over t = θ and t = L:
+		//   x[k+1] = Φx[k] + P·u[j−1] + Q·u[j] + R·u[j+1],
+		//   P = (θ/T)Φ(L)(Γ₁(θ) − Γ₂(θ)),
+		//   Q = Φ(L)((L/T)Γ₁(θ) + (θ/T)Γ₂(θ)) + Γ₁(L) − (L/T)Γ₂(L),
+		//   R = (L/T)Γ₂(L),
+		//   y[k] = Cx[k] + D((θ/T)u[j−1] + (L/T)u[j]),
+		// so G_d = z^{−d−1}[C(zI − Φ)⁻¹(P + ΦQ + Φ²R) + CQ + CΦR + Dθ/T
+		// + (CR + DL/T)·z].
+		L := T - theta
+		phiL, g1L, g2L, err := m.FirstOrderHold(L)
+		if err != nil {
+			return poly.Poly{}, poly.Poly{}, statespaceErr(err)
+		}
+		phiT, g1T, g2T, err := m.FirstOrderHold(theta)
+		if err != nil {
+			return poly.Poly{}, poly.Poly{}, statespaceErr(err)
+		}
+		phi = mat.NewDense(n, n, nil)
+		phi.Mul(phiL, phiT)
+		a, b := theta/T, L/T
+		P := make([]float64, n)
+		Q := make([]float64, n)
+		R := make([]float64, n)
+		for i := 0; i < n; i++ {
+			var p, q float64
+			for j := 0; j < n; j++ {
+				p += phiL.At(i, j) * (g1T[j] - g2T[j])
+				q += phiL.At(i, j) * (b*g1T[j] + a*g2T[j])
+			}
+			P[i] = a * p
+			Q[i] = q + g1L[i] - b*g2L[i]
+			R[i] = b * g2L[i]
+		}
+		phiR := mulVec(phi, R)
+		phiQR := mulVec(phi, addVec(Q, phiR)) // ΦQ + Φ²R
+		gamma = addVec(P, phiQR)
+		d = dot(m.C, Q) + dot(m.C, phiR) + m.D*a
+		e1 = dot(m.C, R) + m.D*b
 	case firstOrder:
 		// Triangle hold: x[k+1] = Φx[k] + Γ₁u[k] + Γ₂(u[k+1] − u[k]). With
 		// w[k] = x[k] − Γ₂u[k]: w[k+1] = Φw[k] + (Γ₁ + (Φ − I)Γ₂)u[k] and
@@ -307,7 +354,37 @@ func holdEquivalent(num, den poly.Poly, T, theta float64, firstOrder bool) (poly
 	if err != nil {
 		return poly.Poly{}, poly.Poly{}, err
 	}
+	if e1 != 0 {
+		nz = nz.Add(dz.ShiftUp(1).Scale(e1))
+	}
 	return nz, dz, nil
+}
+
+func mulVec(a *mat.Dense, v []float64) []float64 {
+	n := len(v)
+	out := make([]float64, n)
+	for i := 0; i < n; i++ {
+		for j := 0; j < n; j++ {
+			out[i] += a.At(i, j) * v[j]
+		}
+	}
+	return out
+}
+
+func addVec(a, b []float64) []float64 {
+	out := make([]float64, len(a))
+	for i := range a {
+		out[i] = a[i] + b[i]
+	}
+	return out
+}
+
+func dot(a, b []float64) float64 {
+	s := 0.0
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
 }
 
 // statespaceErr maps an internal/statespace error onto this package's

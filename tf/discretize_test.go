@@ -526,7 +526,6 @@ func TestDiscretizeErrors(t *testing.T) {
 		{"improper ZOH", improper, 0.1, ZeroOrderHold, nil, ErrImproper},
 		{"improper FOH", improper, 0.1, FirstOrderHold, nil, ErrImproper},
 		{"improper matched", improper, 0.1, MatchedPoleZero, nil, ErrImproper},
-		{"fractional delay FOH", gDelay, 0.1, FirstOrderHold, nil, ErrFractionalDelay},
 		{"fractional delay Tustin", gDelay, 0.1, Tustin, nil, ErrFractionalDelay},
 		{"fractional delay matched", gDelay, 0.1, MatchedPoleZero, nil, ErrFractionalDelay},
 		{"matched zero on the sampling frequency", MustParse("(s^2 + 3947.8417604357433)/(s+1)^2"), 0.1, MatchedPoleZero, nil, ErrNumerical},

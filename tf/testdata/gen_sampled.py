@@ -15,7 +15,7 @@ independent route to what tf.Discretize computes:
   pole used is s = 0, where mpmath.diff takes the derivative at high
   precision. The zero-order-hold equivalent reproduces the step samples
   exactly (step invariance) and the triangle-hold (first-order-hold)
-  equivalent the ramp samples (ramp invariance).
+  equivalent the ramp samples (ramp invariance), dead time included.
 * ZOH coefficients for distinct non-zero poles p_i:
   G_d(z) = G(0) + sum_i r_i (z-1)/(z - e^{p_i T}), r_i = N(p_i)/(D'(p_i) p_i),
   the z-transform of the sampled step response times (1 - z^-1); combined
@@ -131,6 +131,9 @@ ramp_cases = [
     ("third order", [1, 3], [1, 1.4, 4.4, 4], 0, 0.1, 40),
     ("biproper lead", [1, 0.5], [1, 2], 0, 0.1, 20),
     ("integrator", [2], [1, 7, 10, 0], 0, 0.05, 40),
+    ("third order, fractional dead time 2.5 periods", [1, 3], [1, 1.4, 4.4, 4], 0.25, 0.1, 40),
+    ("biproper lead, dead time 0.3 periods", [1, 0.5], [1, 2], 0.03, 0.1, 20),
+    ("integrator, dead time 2.6 periods", [2], [1, 7, 10, 0], 0.13, 0.05, 40),
 ]
 for name, num, den, delay, T, count in ramp_cases:
     cases["ramp_samples"].append({
