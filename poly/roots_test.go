@@ -407,3 +407,39 @@ func TestNearDoubleComplexPair(t *testing.T) {
 		t.Errorf("backward error %g, %v", eta, err)
 	}
 }
+
+// TestMultiplicityRecovery: products of factors whose coefficients are
+// exact in binary, so the double polynomial has exactly these multiple
+// roots; each must come back once with its multiplicity, within 1e-12
+// relative (the target for a triple root, applied to all).
+func TestMultiplicityRecovery(t *testing.T) {
+	lin := func(r float64) Poly { return MustNew(1, -r) }
+	tests := []struct {
+		name string
+		p    Poly
+		want []Root
+	}{
+		{"(x-1)^5 (x+2)^3", lin(1).Pow(5).Mul(lin(-2).Pow(3)), []Root{{-2, 3}, {1, 5}}},
+		{"(x^2+1)^3", MustNew(1, 0, 1).Pow(3), []Root{{-1i, 3}, {1i, 3}}},
+		{"(x-0.5)^4 (x+0.25)^2", lin(0.5).Pow(4).Mul(lin(-0.25).Pow(2)), []Root{{-0.25, 2}, {0.5, 4}}},
+		{"(x^2+2x+2)^3 (x-3)^2", MustNew(1, 2, 2).Pow(3).Mul(lin(3).Pow(2)), []Root{{complex(-1, -1), 3}, {complex(-1, 1), 3}, {3, 2}}},
+		{"(x+1)^3 (x+1.5) (x+3)", lin(-1).Pow(3).Mul(lin(-1.5)).Mul(lin(-3)), []Root{{-3, 1}, {-1.5, 1}, {-1, 3}}},
+		{"x^2 (x-4)^6", lin(0).Pow(2).Mul(lin(4).Pow(6)), []Root{{0, 2}, {4, 6}}},
+	}
+	for _, test := range tests {
+		t.Run(test.name, func(t *testing.T) {
+			got, err := test.p.RootsWithMultiplicity()
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(got) != len(test.want) {
+				t.Fatalf("got %v, want %v", got, test.want)
+			}
+			for i, w := range test.want {
+				if got[i].Multiplicity != w.Multiplicity || !testutil.CloseComplex(got[i].Value, w.Value, 1e-12, 0) {
+					t.Errorf("root %d: got %v, want %v", i, got[i], w)
+				}
+			}
+		})
+	}
+}
