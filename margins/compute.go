@@ -24,6 +24,12 @@ type Settings struct {
 	// so the first crossovers past Ω₀, which are included, decide the gain
 	// margin. Set it explicitly for loops with resonances far above Ω₀.
 	OmegaMaxRadPerSec float64
+
+	// SkipPeaks leaves out Ms, Mt and the bandwidth (their fields are NaN),
+	// which for rational loops cost two polynomial root problems of degree
+	// 2n−2 in ω²: for fast repeated margin checks. If false (the default),
+	// everything is computed.
+	SkipPeaks bool
 }
 
 // GainCrossover is a frequency where |L| = 1.
@@ -133,6 +139,12 @@ type Result struct {
 	// of a loop with dead time, in rad/s; +Inf for rational loops (every
 	// crossover found), and the highest measured frequency for FromMeasured.
 	OmegaMaxRadPerSec float64
+
+	// SkipPeaks leaves out Ms, Mt and the bandwidth (their fields are NaN),
+	// which for rational loops cost two polynomial root problems of degree
+	// 2n−2 in ω²: for fast repeated margin checks. If false (the default),
+	// everything is computed.
+	SkipPeaks bool
 }
 
 // Stability method names, the values of Result.StabilityMethod.
@@ -194,6 +206,19 @@ func Compute(loop tf.TF, set *Settings) (Result, error) {
 	if err := lp.checkWellPosed(); err != nil {
 		return Result{}, err
 	}
+	if lp.tau > 0 {
+		if err := lp.ensureRoots(); err != nil {
+			return Result{}, err
+		}
+		for _, z := range lp.zeros {
+			if real(z) == 0 {
+				return Result{}, fmt.Errorf("%w: dead time with a zero of L on the imaginary axis at s = %v", ErrUnsupported, z)
+			}
+		}
+	}
+	if err := lp.countOpenLoop(); err != nil {
+		return Result{}, err
+	}
 	gains, err := lp.gainCrossovers()
 	if err != nil {
 		return Result{}, err
@@ -251,7 +276,7 @@ func Compute(loop tf.TF, set *Settings) (Result, error) {
 		res.StabilityMethod = MethodClosedLoopPoles
 	} else {
 		res.StabilityMethod = MethodNyquist
-		res.OpenLoopUnstablePoles = lp.unstablePoles()
+		res.OpenLoopUnstablePoles = lp.openUnstable
 		if cmplx.Abs(lp.limitAtInfinity()) >= 1 {
 			res.ClosedLoopUnstablePoles = -1
 		} else {
@@ -266,11 +291,16 @@ func Compute(loop tf.TF, set *Settings) (Result, error) {
 	res.setDelayMargin()
 
 	// Sensitivity peaks and bandwidth.
-	if lp.tau == 0 {
+	switch {
+	case s.SkipPeaks:
+		res.PeakSensitivity, res.PeakSensitivityRadPerSec = math.NaN(), math.NaN()
+		res.PeakComplementarySensitivity, res.PeakComplementarySensitivityRadPerSec = math.NaN(), math.NaN()
+		res.BandwidthRadPerSec = math.NaN()
+	case lp.tau == 0:
 		res.PeakSensitivity, res.PeakSensitivityRadPerSec = lp.rationalPeak(false)
 		res.PeakComplementarySensitivity, res.PeakComplementarySensitivityRadPerSec = lp.rationalPeak(true)
 		res.BandwidthRadPerSec = lp.rationalBandwidth()
-	} else {
+	default:
 		lp.delayPeaks(&res, gains)
 	}
 	return res, nil
@@ -290,6 +320,11 @@ func (lp *loop) checkWellPosed() error {
 // to its modulus.
 func (lp *loop) closedLoopPoles() (z, p int, err error) {
 	ch := lp.den.Add(lp.num)
+	if !lp.discrete() {
+		if rhp, zero, ok := rightHalfPlaneRoots(ch); ok {
+			return rhp + zero, lp.openUnstable, nil
+		}
+	}
 	rs, err := ch.Roots()
 	if err != nil {
 		return 0, 0, fmt.Errorf("margins: closed-loop poles: %w", err)
@@ -303,7 +338,7 @@ func (lp *loop) closedLoopPoles() (z, p int, err error) {
 			z++
 		}
 	}
-	return z, lp.unstablePoles(), nil
+	return z, lp.openUnstable, nil
 }
 
 // defaultOmegaMax derives the dead-time search limit documented on

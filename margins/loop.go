@@ -29,8 +29,11 @@ type loop struct {
 	ts       float64   // sample period, 0 for continuous time
 	tau      float64   // continuous-time dead time in seconds
 	an, ad   poly.Poly // polynomials in the axis variable
-	zeros    []complex128
-	poles    []complex128
+	zeros    []complex128 // roots of an (after ensureRoots)
+	poles    []complex128 // roots of ad (after ensureRoots)
+	rooted   bool
+	// openUnstable and openIntegrators are set by countOpenLoop.
+	openUnstable, openIntegrators int
 	c0       float64 // phase of the ratio of leading coefficients of an and ad: 0 or π
 	// axis parts: an(jv) = nr(v²) + j·v·ni(v²), likewise ad.
 	nr, ni, dr, di poly.Poly
@@ -72,26 +75,56 @@ func newLoop(g tf.TF) (*loop, error) {
 	} else {
 		lp.an, lp.ad = lp.num, lp.den
 	}
-	var err error
-	if lp.zeros, err = lp.an.Roots(); err != nil {
-		return nil, fmt.Errorf("margins: zeros of the loop: %w", err)
-	}
-	if lp.poles, err = lp.ad.Roots(); err != nil {
-		return nil, fmt.Errorf("margins: poles of the loop: %w", err)
-	}
 	if lp.an.Lead()*lp.ad.Lead() < 0 {
 		lp.c0 = math.Pi
 	}
 	lp.nr, lp.ni = axisParts(lp.an)
 	lp.dr, lp.di = axisParts(lp.ad)
-	if lp.tau > 0 {
-		for _, z := range lp.zeros {
-			if real(z) == 0 {
-				return nil, fmt.Errorf("%w: dead time with a zero of L on the imaginary axis at %v", ErrUnsupported, z)
-			}
+	return lp, nil
+}
+
+// axisSnapTol: a root r with |Re r| ≤ axisSnapTol·|r| is taken to lie on
+// the imaginary axis (Re r = 0), and a root with |r| ≤ axisSnapTol times the
+// largest root modulus is taken to be 0. Poles on the axis (integrators,
+// undamped modes; for discrete loops, poles on the unit circle, whose
+// bilinear images carry rounding errors) are thereby recognised and avoided
+// by indentation instead of being counted as stable or unstable by chance.
+const axisSnapTol = 1e-13
+
+// ensureRoots computes the zeros and poles of the loop in the axis variable,
+// once.
+func (lp *loop) ensureRoots() error {
+	if lp.rooted {
+		return nil
+	}
+	var err error
+	if !lp.an.IsZero() && lp.an.Degree() > 0 {
+		if lp.zeros, err = lp.an.Roots(); err != nil {
+			return fmt.Errorf("margins: zeros of the loop: %w", err)
 		}
 	}
-	return lp, nil
+	if lp.poles, err = lp.ad.Roots(); err != nil {
+		return fmt.Errorf("margins: poles of the loop: %w", err)
+	}
+	snapToAxis(lp.zeros)
+	snapToAxis(lp.poles)
+	lp.rooted = true
+	return nil
+}
+
+func snapToAxis(rs []complex128) {
+	m := 0.0
+	for _, r := range rs {
+		m = math.Max(m, cmplx.Abs(r))
+	}
+	for i, r := range rs {
+		switch {
+		case cmplx.Abs(r) <= axisSnapTol*m:
+			rs[i] = 0
+		case math.Abs(real(r)) <= axisSnapTol*cmplx.Abs(r):
+			rs[i] = complex(0, imag(r))
+		}
+	}
 }
 
 // bilinear returns (1−w)ⁿ·p((1+w)/(1−w)), exact up to the rounding of the
@@ -231,6 +264,9 @@ func rootAngle(v float64, r complex128) float64 {
 // exact up to the accuracy of the roots and serves to choose the branch of
 // the accurately evaluated phase.
 func (lp *loop) sumPhase(v float64) float64 {
+	if err := lp.ensureRoots(); err != nil {
+		return math.NaN()
+	}
 	if math.IsInf(v, 1) {
 		return lp.c0 + float64(len(lp.zeros)-len(lp.poles))*math.Pi/2
 	}
@@ -262,6 +298,9 @@ func (lp *loop) phase(w float64) float64 {
 // onAxisFrequencies returns the frequencies ω > 0 of the poles (and zeros)
 // of L on the imaginary axis (unit circle for discrete loops), ascending.
 func (lp *loop) onAxisFrequencies(includeZeros bool) []float64 {
+	if lp.ensureRoots() != nil {
+		return nil
+	}
 	var out []float64
 	add := func(rs []complex128) {
 		for _, r := range rs {
@@ -277,31 +316,38 @@ func (lp *loop) onAxisFrequencies(includeZeros bool) []float64 {
 	return sortUnique(out, 0)
 }
 
-// integrators returns the number of poles of L at s = 0 (z = 1).
-func (lp *loop) integrators() int {
-	k := 0
-	for _, p := range lp.poles {
-		if p == 0 {
-			k++
+// countOpenLoop sets lp.openUnstable, the number of poles of L with
+// Re s > 0 (|z| > 1), and lp.openIntegrators, the number at s = 0 (z = 1):
+// by the Routh array for continuous loops when it is regular, otherwise
+// from the poles.
+func (lp *loop) countOpenLoop() error {
+	if !lp.discrete() {
+		if rhp, z, ok := rightHalfPlaneRoots(lp.ad); ok {
+			lp.openUnstable, lp.openIntegrators = rhp, z
+			return nil
 		}
 	}
-	return k
-}
-
-// unstablePoles returns the number of poles of L with Re s > 0 (|z| > 1).
-func (lp *loop) unstablePoles() int {
-	k := 0
+	if err := lp.ensureRoots(); err != nil {
+		return err
+	}
+	lp.openUnstable, lp.openIntegrators = 0, 0
 	for _, p := range lp.poles {
-		if real(p) > 0 {
-			k++
+		switch {
+		case p == 0:
+			lp.openIntegrators++
+		case real(p) > 0:
+			lp.openUnstable++
 		}
 	}
-	return k
+	return nil
 }
 
 // characteristicScale returns the smallest and largest non-zero magnitudes
 // of the poles and zeros, as frequencies in rad/s (0, 0 when there are none).
 func (lp *loop) characteristicScale() (lo, hi float64) {
+	if lp.ensureRoots() != nil {
+		return 0, 0
+	}
 	lo = math.Inf(1)
 	for _, rs := range [][]complex128{lp.zeros, lp.poles} {
 		for _, r := range rs {

@@ -30,8 +30,8 @@ import (
 // guaranteed search, so the count is exact up to rounding; it is checked to
 // be within 10⁻⁶ of a whole number.
 func (lp *loop) encirclementCount(gains []float64, cross func(wmax float64) []crossing) (z, p int, err error) {
-	p = lp.unstablePoles()
-	r0 := lp.integrators()
+	p = lp.openUnstable
+	r0 := lp.openIntegrators
 	we := 1.0
 	if len(gains) > 0 {
 		we = 1.5 * gains[len(gains)-1]

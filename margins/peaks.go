@@ -39,7 +39,7 @@ func (lp *loop) rationalPeak(complementary bool) (peak, freq float64) {
 		return s
 	}
 	peak, freq = val(0), 0
-	if lp.integrators() > 0 {
+	if lp.openIntegrators > 0 {
 		// S(0) = 0 and T(0) = 1 exactly as limits.
 		peak = 0
 		if complementary {
@@ -161,7 +161,7 @@ func (lp *loop) delayPeaks(res *Result, gains []float64) {
 	res.PeakComplementarySensitivity, res.PeakComplementarySensitivityRadPerSec = peakOf(ts, func(w float64) float64 { _, t := lp.sensitivities(w); return t })
 	res.BandwidthRadPerSec = math.NaN()
 	t0 := ts[0]
-	if lp.integrators() > 0 {
+	if lp.openIntegrators > 0 {
 		t0 = 1
 	}
 	if t0 == 0 || math.IsInf(t0, 0) || math.IsNaN(t0) {

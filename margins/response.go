@@ -200,6 +200,9 @@ func AutoGrid(loop tf.TF, set *GridSettings) ([]float64, error) {
 // frequencies of lightly damped (damping ratio < 0.5) poles and zeros.
 func (lp *loop) specialFrequencies() []float64 {
 	var out []float64
+	if lp.ensureRoots() != nil {
+		return nil
+	}
 	if g, err := lp.gainCrossovers(); err == nil {
 		out = append(out, g...)
 	}

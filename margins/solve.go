@@ -23,8 +23,14 @@ const (
 
 // positiveRoots returns the real roots x > 0 of p, as candidates (see
 // candidateImagTol), ascending. The variable is scaled first so that the
-// geometric mean of the root moduli is 1, which balances the coefficients
-// before the eigenvalue solve.
+// geometric mean of the root moduli is 1, which balances the coefficients.
+// By Descartes' rule of signs (Descartes 1637; see Henrici 1974, Applied
+// and Computational Complex Analysis, vol. 1, §6.2) the number of positive
+// roots is the number of sign changes in the coefficient sequence minus an
+// even number: with no sign change there is no positive root, with one there
+// is exactly one, bracketed by 0 and a Cauchy bound and found by Brent's
+// method. Otherwise the roots come from the eigenvalues of the companion
+// matrix (poly.Roots).
 func positiveRoots(p poly.Poly) []float64 {
 	if p.Degree() < 1 {
 		return nil
@@ -44,12 +50,23 @@ func positiveRoots(p poly.Poly) []float64 {
 		sigma = 1
 	}
 	qs := q.ScaleVariable(sigma)
-	rs, err := qs.Roots()
+	switch signChanges(qs) {
+	case 0:
+		return nil
+	case 1:
+		if x, ok := uniquePositiveRoot(qs); ok {
+			return []float64{x * sigma}
+		}
+	}
+	// Cluster recognition is off: a nearly double root (a tangency) is
+	// reported as two nearby candidates, which polishing merges.
+	rs, err := qs.RootsWithSettings(&poly.RootSettings{ClusterTolerance: -1})
 	if err != nil {
 		return nil
 	}
 	var out []float64
-	for _, r := range rs {
+	for _, rm := range rs {
+		r := rm.Value
 		if real(r) > 0 && math.Abs(imag(r)) <= candidateImagTol*real(r) {
 			out = append(out, real(r)*sigma)
 		}
@@ -193,4 +210,59 @@ func goldenMax(f func(float64) float64, a, b float64) (x, fx float64) {
 		return c, fc
 	}
 	return d, fd
+}
+
+// signChanges returns the number of sign changes in the coefficients of p,
+// zeros skipped.
+func signChanges(p poly.Poly) int {
+	v, last := 0, 0.0
+	for _, c := range p.Ascending() {
+		if c == 0 {
+			continue
+		}
+		if last != 0 && (c > 0) != (last > 0) {
+			v++
+		}
+		last = c
+	}
+	return v
+}
+
+// uniquePositiveRoot returns the positive root of p when p has exactly one
+// sign change (hence exactly one positive root, which is simple), by
+// Brent's method between the Cauchy bounds 1/(1 + max|cᵢ/c₀|) and
+// 1 + max|cᵢ/cₙ| on the moduli of the roots.
+func uniquePositiveRoot(p poly.Poly) (float64, bool) {
+	c := p.Ascending()
+	n := len(c) - 1
+	if n < 1 || c[0] == 0 {
+		return 0, false
+	}
+	hiB, loB := 0.0, 0.0
+	for i := 0; i < n; i++ {
+		hiB = math.Max(hiB, math.Abs(c[i]/c[n]))
+	}
+	for i := 1; i <= n; i++ {
+		loB = math.Max(loB, math.Abs(c[i]/c[0]))
+	}
+	lo, hi := 1/(1+loB), 1+hiB
+	flo, fhi := p.Eval(lo), p.Eval(hi)
+	if math.IsInf(hi, 0) || math.IsNaN(flo) || math.IsNaN(fhi) || flo == 0 || fhi == 0 || (flo > 0) == (fhi > 0) {
+		return 0, false
+	}
+	// Bisect geometrically until the bracket spans at most a factor 2, so
+	// that Brent's method works on a well-scaled interval.
+	for hi > 2*lo {
+		m := math.Sqrt(lo * hi)
+		fm := p.Eval(m)
+		if fm == 0 {
+			return m, true
+		}
+		if (fm > 0) == (flo > 0) {
+			lo, flo = m, fm
+		} else {
+			hi, fhi = m, fm
+		}
+	}
+	return brent(p.Eval, lo, hi, flo, fhi), true
 }
