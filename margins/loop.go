@@ -25,16 +25,16 @@ import (
 // polynomials in x = v²) and for the continuous phase; every value reported
 // is then polished on the original num and den.
 type loop struct {
-	num, den poly.Poly // original polynomials in s or z (integer discrete delay absorbed into den)
-	ts       float64   // sample period, 0 for continuous time
-	tau      float64   // continuous-time dead time in seconds
-	an, ad   poly.Poly // polynomials in the axis variable
+	num, den poly.Poly    // original polynomials in s or z (integer discrete delay absorbed into den)
+	ts       float64      // sample period, 0 for continuous time
+	tau      float64      // continuous-time dead time in seconds
+	an, ad   poly.Poly    // polynomials in the axis variable
 	zeros    []complex128 // roots of an (after ensureRoots)
 	poles    []complex128 // roots of ad (after ensureRoots)
 	rooted   bool
 	// openUnstable and openIntegrators are set by countOpenLoop.
 	openUnstable, openIntegrators int
-	c0       float64 // phase of the ratio of leading coefficients of an and ad: 0 or π
+	c0                            float64 // phase of the ratio of leading coefficients of an and ad: 0 or π
 	// axis parts: an(jv) = nr(v²) + j·v·ni(v²), likewise ad.
 	nr, ni, dr, di poly.Poly
 }
