@@ -9,6 +9,7 @@ import (
 
 	"github.com/loopwise/loopwise/chart"
 	"github.com/loopwise/loopwise/examples/internal/output"
+	"github.com/loopwise/loopwise/locus"
 )
 
 // plot writes the figures into dir and returns the paths written.
@@ -24,14 +25,45 @@ func (c comparison) plot(dir string) ([]string, error) {
 		return files, err
 	}
 	for _, v := range c.Variants[1:] {
-		fig, err := chart.PoleZero(v.ClosedLoop, &chart.PlaneSettings{
-			Title:         fmt.Sprintf("Closed-loop poles and zeros in z, T = %s", v.Name[len("digital, T = "):]),
-			DampingRatios: []float64{0.4, 0.7},
+		tr, err := locus.Trace(v.Loop, &locus.Settings{Variable: "k"})
+		if err != nil {
+			return files, fmt.Errorf("%s: tracing the locus: %w", v.Name, err)
+		}
+		fig, err := chart.RootLocus(tr, &chart.LocusSettings{
+			PlaneSettings: chart.PlaneSettings{
+				Title:         fmt.Sprintf("Root locus in z over the factor k on the controller, %s", v.Name),
+				DampingRatios: []float64{0.3, 0.7},
+			},
+			Mark: &chart.LocusMark{Value: 1, Poles: v.Poles},
 		})
 		if err != nil {
-			return files, fmt.Errorf("%s: pole-zero map: %w", v.Name, err)
+			return files, fmt.Errorf("%s: locus plot: %w", v.Name, err)
 		}
-		paths, err := output.Save(fig, dir, fmt.Sprintf("closed-loop-z-plane-%gms", 1000*v.SampleTimeSec))
+		paths, err := output.Save(fig, dir, fmt.Sprintf("root-locus-z-%gms", 1000*v.SampleTimeSec))
+		files = append(files, paths...)
+		if err != nil {
+			return files, err
+		}
+		if v.SampleTimeSec >= 0.01 {
+			continue
+		}
+		// Fast sampling crowds the closed-loop poles near z = 1 (z = e^(sT)
+		// with |s|T small); a second figure zooms in there.
+		fig, err = chart.RootLocus(tr, &chart.LocusSettings{
+			PlaneSettings: chart.PlaneSettings{
+				Title:         fmt.Sprintf("The same locus near z = 1, %s", v.Name),
+				DampingRatios: []float64{0.3, 0.7},
+				HideKey:       true,
+			},
+			Mark: &chart.LocusMark{Value: 1, Poles: v.Poles},
+		})
+		if err != nil {
+			return files, fmt.Errorf("%s: locus plot: %w", v.Name, err)
+		}
+		p := fig.Panels[0]
+		p.X.Min, p.X.Max = 0.7, 1.1
+		p.Y.Min, p.Y.Max = -0.2, 0.2
+		paths, err = output.Save(fig, dir, fmt.Sprintf("root-locus-z-%gms-near-1", 1000*v.SampleTimeSec))
 		files = append(files, paths...)
 		if err != nil {
 			return files, err
