@@ -227,7 +227,7 @@ func (e *evaluator) getClosed() (tf.TF, string, error) {
 				return e.closed, "", err
 			}
 			if !l.IsDiscrete() {
-				e.closedNote = fmt.Sprintf(" (dead time approximated by a Padé approximation of order %d)", e.padeOrder)
+				e.closedNote = fmt.Sprintf("dead time approximated by a Padé approximation of order %d", e.padeOrder)
 			}
 			l = p
 		}
@@ -372,7 +372,11 @@ func (e *evaluator) evaluate(res *Result) {
 		}
 		res.Value = zeta
 		what := "smallest damping ratio of the closed-loop poles"
-		judge(res, what, "", fmt.Sprintf(" (pole %s%s)", formatPole(worst), note))
+		detail := " (pole " + formatPole(worst)
+		if note != "" {
+			detail += "; " + note
+		}
+		judge(res, what, "", detail+")")
 
 	case overshoot, riseTime, settlingTime:
 		m, err := e.getStep()
@@ -388,6 +392,9 @@ func (e *evaluator) evaluate(res *Result) {
 			res.Value = m.RiseTimeSec
 		case settlingTime:
 			res.Value = m.SettlingTimeSec
+		}
+		if note != "" {
+			note = " (" + note + ")"
 		}
 		if math.IsNaN(res.Value) {
 			res.Message = fmt.Sprintf("The %s does not exist for this loop%s, so the requirement (%s) is not met.", info.what, note, res.Requirement)

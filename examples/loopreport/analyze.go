@@ -104,7 +104,7 @@ func (a *analysis) loops() {
 		} else {
 			a.rational = r
 			if !m.open.IsDiscrete() {
-				a.warn("dead time approximated by a %s-order Padé approximation for the closed-loop poles and the step response", ordinal(padeOrder))
+				a.warn("dead time approximated by a %s-order Padé approximation for the closed-loop poles and the step response (the approximation adds poles and right-half-plane zeros of its own; a small undershoot at the start of the step can come from them)", ordinal(padeOrder))
 			}
 		}
 	}
@@ -135,6 +135,12 @@ func (a *analysis) loops() {
 	}
 	if k, err := m.open.StaticGain(); err == nil {
 		rep.OpenLoop.StaticGain = number(k)
+		if m.open.IsDiscrete() && integrates(m.open) {
+			// tf.StaticGain evaluates D(1) exactly; a pole at z = 1 written
+			// as (z − 1)(z − 0.368) expands to coefficients whose sum is a
+			// rounding error, not 0.
+			rep.OpenLoop.StaticGain = number(math.Inf(1))
+		}
 	} else if errors.Is(err, tf.ErrInfiniteGain) {
 		rep.OpenLoop.StaticGain = number(math.Inf(1))
 	} else {
@@ -254,6 +260,18 @@ func (a *analysis) rootLocus() {
 	}
 }
 
+// unitRootTol is the relative tolerance, to the 1-norm of the
+// coefficients, below which D(1) counts as zero for a discrete loop (the
+// value package response uses for the same decision).
+const unitRootTol = 1e-12
+
+// integrates reports whether the discrete loop l has a pole at z = 1 that
+// its numerator does not cancel.
+func integrates(l tf.TF) bool {
+	d, n := l.Den(), l.Num()
+	return math.Abs(d.Eval(1)) <= unitRootTol*d.Norm1() && math.Abs(n.Eval(1)) > unitRootTol*n.Norm1()
+}
+
 // ordinal returns "6th" and the like.
 func ordinal(n int) string {
 	suffix := "th"
@@ -315,7 +333,11 @@ func (a *analysis) steadyStage() {
 	}
 	e, err := response.SteadyState(l)
 	if err != nil {
-		a.warn("steady-state errors: %s; the steady-state keys are null", stepReason(err))
+		reason := short(err)
+		if errors.Is(err, response.ErrUnstable) {
+			reason = "the closed loop is unstable, so there is no steady state"
+		}
+		a.warn("steady-state errors: %s; the steady-state keys are null", reason)
 		return
 	}
 	s := &a.rep.SteadyState

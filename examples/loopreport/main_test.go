@@ -580,3 +580,75 @@ func TestProgressLine(t *testing.T) {
 		t.Errorf("progress writes to a non-terminal: %q", q.String())
 	}
 }
+
+// collectKeys adds every object key in v to keys.
+func collectKeys(v any, keys map[string]bool) {
+	switch x := v.(type) {
+	case map[string]any:
+		for k, e := range x {
+			keys[k] = true
+			collectKeys(e, keys)
+		}
+	case []any:
+		for _, e := range x {
+			collectKeys(e, keys)
+		}
+	}
+}
+
+// TestReadmeDocumentsEveryKey checks that README.md names every key the
+// program reads or writes.
+func TestReadmeDocumentsEveryKey(t *testing.T) {
+	readme, err := os.ReadFile("README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc := string(readme)
+	keys := map[string]bool{}
+	for _, content := range []string{
+		"", // the demo
+		`{"plant": "1/(s*(s+1))", "discretize": {"method": "tustin", "sample_time_sec": 0.1, "prewarp_rad_per_sec": 1}}`,
+		`{"plant": "1/((s+1)*(s+3))", "controller": "2 + Ki/s", "parameter": {"name": "Ki", "value": 4, "range": [0, null]}}`,
+		`{"plant": "(s+1)/(s*(s^2+s+4))", "delay_sec": 0.1}`,
+	} {
+		var d map[string]any
+		if content == "" {
+			var out, errb bytes.Buffer
+			if code := run([]string{"-json"}, &out, &errb); code != 0 {
+				t.Fatal(errb.String())
+			}
+			if err := json.Unmarshal(out.Bytes(), &d); err != nil {
+				t.Fatal(err)
+			}
+		} else {
+			d = runJSON(t, content)
+		}
+		collectKeys(d, keys)
+	}
+	for _, k := range append(append(topKeys, requirementKeys...), append(parameterKeys, discretizeKeys...)...) {
+		keys[k] = true
+	}
+	for k := range keys {
+		if !strings.Contains(doc, "`"+k+"`") && !strings.Contains(doc, `"`+k+`"`) && !strings.Contains(doc, "."+k) {
+			t.Errorf("README.md does not document the key %q", k)
+		}
+	}
+}
+
+func TestHTMLEscapesTheLoopFile(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "r")
+	code, _, errs := runLoop(t, `{"name": "<script>alert(1)</script>", "description": "a & b", "plant": "1/(s+1)"}`, "-out", dir)
+	if code != 0 {
+		t.Fatal(errs)
+	}
+	page, err := os.ReadFile(filepath.Join(dir, "index.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if strings.Contains(string(page), "<script>") {
+		t.Errorf("the loop name reached index.html unescaped")
+	}
+	if !strings.Contains(string(page), "&lt;script&gt;") {
+		t.Errorf("the loop name is missing from index.html")
+	}
+}

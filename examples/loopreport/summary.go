@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"io"
+	"math"
 	"strings"
 )
 
@@ -122,11 +123,11 @@ func sections(r *report) []section {
 	ms.rows = append(ms.rows, row{"delay margin", gUnit(mg.DelayMarginSec, "s")})
 	ps := g(mg.PeakSensitivity)
 	if finite(float64(mg.PeakSensitivity)) {
-		ps = fmt.Sprintf("%s at %s", g(mg.PeakSensitivity), gUnit(mg.PeakSensitivityRadPerSec, "rad/s"))
+		ps = fmt.Sprintf("%s %s", g(mg.PeakSensitivity), atFrequency(mg.PeakSensitivityRadPerSec))
 	}
 	ms.rows = append(ms.rows, row{"peak sensitivity", ps})
 	if finite(float64(mg.PeakComplementarySensitivity)) {
-		ms.rows = append(ms.rows, row{"peak complementary sensitivity", fmt.Sprintf("%s at %s", g(mg.PeakComplementarySensitivity), gUnit(mg.PeakComplementarySensitivityRadPerS, "rad/s"))})
+		ms.rows = append(ms.rows, row{"peak complementary sensitivity", fmt.Sprintf("%s %s", g(mg.PeakComplementarySensitivity), atFrequency(mg.PeakComplementarySensitivityRadPerS))})
 	}
 	if finite(float64(mg.BandwidthRadPerSec)) {
 		ms.rows = append(ms.rows, row{"closed-loop bandwidth", gUnit(mg.BandwidthRadPerSec, "rad/s")})
@@ -142,24 +143,33 @@ func sections(r *report) []section {
 
 	st := r.Step
 	ss := section{title: "Step response from reference to output"}
-	ss.rows = append(ss.rows,
-		row{"rise time (10 % to 90 %)", gUnit(st.RiseTimeSec, "s")},
-		row{"settling time (2 % band)", gUnit(st.SettlingTimeSec, "s")},
-		row{"overshoot", gUnit(st.OvershootPct, "%")},
-		row{"undershoot", gUnit(st.UndershootPct, "%")},
-		row{"peak", fmt.Sprintf("%s at %s", g(st.Peak), gUnit(st.PeakTimeSec, "s"))},
-		row{"final value", g(st.FinalValue)},
-	)
+	if math.IsNaN(float64(st.FinalValue)) {
+		ss.rows = append(ss.rows, row{"not available", "see the warnings"})
+	} else {
+		ss.rows = append(ss.rows,
+			row{"rise time (10 % to 90 %)", gUnit(st.RiseTimeSec, "s")},
+			row{"settling time (2 % band)", gUnit(st.SettlingTimeSec, "s")},
+			row{"overshoot", gUnit(st.OvershootPct, "%")},
+			row{"undershoot", gUnit(st.UndershootPct, "%")},
+			row{"peak", fmt.Sprintf("%s at %s", g(st.Peak), gUnit(st.PeakTimeSec, "s"))},
+			row{"final value", g(st.FinalValue)},
+		)
+	}
 	out = append(out, ss)
 
 	e := r.SteadyState
 	es := section{title: "Steady-state errors (unit inputs)"}
-	typ := "none"
-	if e.SystemType != nil {
-		typ = fmt.Sprint(*e.SystemType)
+	if e.SystemType == nil {
+		es.rows = append(es.rows, row{"not available", "see the warnings"})
+		out = append(out, es)
+		return out
+	}
+	origin := "s = 0"
+	if float64(r.Loop.SampleTimeSec) > 0 {
+		origin = "z = 1"
 	}
 	es.rows = append(es.rows,
-		row{"system type (poles of L at the origin)", typ},
+		row{"system type (poles of L at " + origin + ")", fmt.Sprint(*e.SystemType)},
 		row{"position constant", g(e.PositionConstant)},
 		row{"velocity constant", g(e.VelocityConstant)},
 		row{"acceleration constant", g(e.AccelerationConstant)},
@@ -169,6 +179,15 @@ func sections(r *report) []section {
 	)
 	out = append(out, es)
 	return out
+}
+
+// atFrequency says where a peak lies: "at 2.5 rad/s", or "approached as
+// the frequency grows without bound".
+func atFrequency(w number) string {
+	if isInf(w) {
+		return "(approached as the frequency grows without bound)"
+	}
+	return "at " + gUnit(w, "rad/s")
 }
 
 func isInf(x number) bool { return float64(x) > 1e308 }
