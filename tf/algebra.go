@@ -36,7 +36,11 @@ func (g TF) Parallel(h TF) (TF, error) {
 	if g.delay != h.delay && !g.IsZero() && !h.IsZero() {
 		return TF{}, fmt.Errorf("%w: sum of terms with dead times %v s and %v s", ErrDelayInLoop, g.delay, h.delay)
 	}
-	delay := math.Max(g.delay, h.delay)
+	// A zero term carries no dead time into the sum.
+	delay := g.delay
+	if g.IsZero() {
+		delay = h.delay
+	}
 	gd, hd := g.Den(), h.Den()
 	if gd.Equal(hd) {
 		return TF{num: g.num.Add(h.num), den: gd, delay: delay, ts: ts}, nil

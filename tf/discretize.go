@@ -91,15 +91,20 @@ const delayTol = 1e-9
 // Methods and what they return (n = deg D, m = deg N):
 //
 //   - ZeroOrderHold: step invariance, exact. The poles are e^{pᵢT}, mapped
-//     from the poles of g; the numerator comes from the scaled, balanced
-//     companion realisation of internal/statespace, the hold integrals of
-//     Van Loan (1978) read off one gonum mat.Exp of a block matrix, and
-//     interpolation of den(z)·C(zI − Φ)⁻¹Γ on the unit circle (see
-//     discreteNumerator in numerator.go).
-//     For a strictly proper g the numerator has degree n − 1 (the zero
-//     zⁿ coefficient is dropped), for a biproper g degree n. Accuracy:
-//     coefficients to a few units of 1e-15 relative to the largest
-//     coefficient for well-scaled g (checked against closed forms).
+//     from the poles of g. The numerator comes from a scaled, balanced
+//     companion realisation (A, B, C, D) of g, the hold integrals
+//     Φ = e^{AT}, Γ = ∫₀ᵀe^{Aη}dη·B read off one matrix exponential of a
+//     block matrix (Van Loan, IEEE Trans. Automatic Control 23(3), 1978;
+//     gonum mat.Exp), and the values of den(z)·C(zI − Φ)⁻¹Γ at n points of
+//     the unit circle turned into coefficients by an inverse discrete
+//     Fourier transform (unitary, so well conditioned). For a strictly
+//     proper g the numerator has degree n − 1 (the zero zⁿ coefficient is
+//     dropped), for a biproper g degree n. Accuracy: numerator coefficients
+//     within 1.3e-14 of the largest one on the reference cases of the tests
+//     (sixth order, fast sampling included), where the route through
+//     charpoly(Φ − ΓC) − charpoly(Φ) loses up to 7.6e-4 at T = 0.001 s
+//     because the numerator is then about Tⁿ times smaller than the
+//     polynomials subtracted.
 //   - FirstOrderHold: ramp invariance with the triangle hold of Franklin,
 //     Powell & Workman, Digital Control of Dynamic Systems, 3rd ed., §6.3
 //     (from memory): with Γ₁ = ∫₀ᵀe^{Aη}dη·B and Γ₂ = (1/T)∫₀ᵀe^{Aη}(T − η)dη·B,
@@ -121,8 +126,10 @@ const delayTol = 1e-9
 // segment at θ within each period, so the hold integrals split at θ (the
 // modified z-transform for the zero-order hold:
 // G_d(z) = z^{−d−1}·[C(zI − Φ)⁻¹(ΦΓ_b + Γ_a) + CΓ_b + D] with
-// Γ_b = Γ₁(T − θ), Γ_a = Φ(T − θ)Γ₁(θ); the first-order-hold form is
-// derived in holdEquivalent), and the result has d + 1 poles at z = 0.
+// Γ_b = Γ₁(T − θ), Γ_a = Φ(T − θ)Γ₁(θ); for the triangle hold
+// x[k+1] = Φx[k] + P·u[j−1] + Q·u[j] + R·u[j+1], j = k − d, with P, Q, R
+// from the hold integrals over θ and T − θ), and the result has d + 1
+// poles at z = 0.
 // Tustin and MatchedPoleZero return ErrFractionalDelay for a fractional
 // dead time (approximate it with Pade first if that is acceptable). The
 // result has DelaySec 0.

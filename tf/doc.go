@@ -35,8 +35,9 @@
 // has degree n − 1 (its zero z^n coefficient is dropped); Tustin uses
 // s = c(z − 1)/(z + 1) with c = 2/T, or c = ω₀/tan(ω₀T/2) when pre-warped
 // at ω₀. Whole sample periods of dead time become poles at z = 0; a
-// fractional remainder is kept exactly by the zero-order hold (modified
-// z-transform) and is an error (ErrFractionalDelay) for the other methods.
+// fractional remainder is kept exactly by the zero- and first-order holds
+// (the modified z-transform) and is an error (ErrFractionalDelay) for Tustin
+// and matched pole–zero.
 //
 // FromStateSpace reads single-input single-output models ẋ = Ax + Bu,
 // y = Cx + Du given as gonum matrices.

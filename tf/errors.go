@@ -48,7 +48,8 @@ var (
 	ErrShape = errors.New("tf: matrix dimensions do not fit a single-input single-output model")
 	// ErrOrder reports an approximation order outside its valid range.
 	ErrOrder = errors.New("tf: approximation order out of range")
-	// ErrMethod reports an unknown discretization method.
+	// ErrMethod reports an unknown discretization method, or a setting that
+	// the chosen method does not use.
 	ErrMethod = errors.New("tf: unknown discretization method")
 	// ErrFractionalDelay reports a dead time that is not a whole number of
 	// sample periods where the method can only keep whole sample periods.

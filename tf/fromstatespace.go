@@ -25,12 +25,14 @@ import (
 // then have comparable scale). The leading coefficients of the numerator
 // that the Markov parameters CAᵏ⁻¹B show to be zero (relative degree
 // r: CB = … = CA^{r−2}B = 0 within rounding) are set to exactly zero, so
-// the relative degree is not lost to rounding noise. This is the
-// characteristic-polynomial route for the zeros of a single-input
-// single-output system (see Emami-Naeini & Van Dooren, "Computation of
-// zeros of linear multivariable systems", Automatica 18(4):415–430, 1982,
-// §2, for its properties); coefficients are accurate to about n·ε times
-// the size of the characteristic polynomials' coefficients.
+// the relative degree is not lost to rounding noise. The identity is the
+// matrix determinant lemma; the characteristic polynomials inherit the
+// backward stability of the eigenvalue solver, so the coefficients are
+// accurate to about n·ε times the size of the characteristic polynomials'
+// coefficients (a numerator far smaller than that loses relative accuracy;
+// pencil methods for zeros, e.g. Emami-Naeini & Van Dooren, Automatica
+// 18(4), 1982, from memory, avoid this but gonum has no generalized
+// eigenvalue solver for them).
 //
 // Errors: ErrShape when a matrix is nil or the dimensions do not fit;
 // ErrNotFinite for a NaN or infinite entry; ErrNumerical when the

@@ -7,12 +7,13 @@ import (
 	"github.com/loopwise/loopwise/poly"
 )
 
-// MaxPadeOrder is the largest Padé order accepted by Pade and PadeDelay.
-// Beyond it the coefficients span more than the float64 range can resolve
-// usefully (the ratio of the first to the last is (2n)!/n! · T⁻ⁿ).
+// MaxPadeOrder is the largest Padé order accepted by Pade and PadeDelay, a
+// bound chosen by this package: the coefficients of order n span
+// (2n)!/n!·T⁻ⁿ (about 3e29·T⁻²⁰ at n = 20), and orders up to about 10 are
+// what is used in practice (common practice).
 const MaxPadeOrder = 20
 
-// PadeDelay returns the [n/n] Padé approximant of the dead time
+// PadeDelay returns the Padé approximant of order (n, n) of the dead time
 // e^(−s·delaySec) as a rational transfer function (Padé 1892):
 //
 //	e^(−sT) ≈ Σₖ cₖ·(−sT)ᵏ / Σₖ cₖ·(sT)ᵏ,  k = 0…n,
@@ -45,7 +46,7 @@ func PadeDelay(delaySec float64, order int) (TF, error) {
 	return FromPolys(num, den, 0)
 }
 
-// padeCoeffs returns the numerator and denominator of the [n/n] Padé
+// padeCoeffs returns the numerator and denominator of the (n, n) Padé
 // approximant of e^(−sT), scaled so that the constant terms are 1.
 func padeCoeffs(T float64, n int) (num, den poly.Poly) {
 	nc := make([]float64, n+1) // ascending powers of s
@@ -70,7 +71,7 @@ func padeCoeffs(T float64, n int) (num, den poly.Poly) {
 }
 
 // Pade returns the rational transfer function g with its dead time replaced
-// by the [order/order] Padé approximant of e^(−s·DelaySec) (see PadeDelay):
+// by the Padé approximant of order (order, order) of e^(−s·DelaySec) (see PadeDelay):
 // the series connection of the rational part of g and the approximant. A g
 // without dead time is returned unchanged.
 //

@@ -271,7 +271,11 @@ func (p *parser) expr() (rat, error) {
 		if v.delay != w.delay && !v.num.IsZero() && !w.num.IsZero() {
 			return rat{}, &SyntaxError{Text: p.text, Offset: op.pos, Msg: fmt.Sprintf("terms with different dead times (%v s and %v s) cannot be added; dead time may only multiply the whole expression", v.delay, w.delay)}
 		}
-		d := math.Max(v.delay, w.delay)
+		// A zero term carries no dead time into the sum.
+		d := v.delay
+		if v.num.IsZero() {
+			d = w.delay
+		}
 		if !v.den.Equal(w.den) && (v.den.Degree()+w.den.Degree() > maxDegree || max(v.num.Degree()+w.den.Degree(), w.num.Degree()+v.den.Degree()) > maxDegree) {
 			return rat{}, &SyntaxError{Text: p.text, Offset: op.pos, Msg: fmt.Sprintf("the sum has degree above %d", maxDegree)}
 		}

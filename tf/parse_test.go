@@ -30,6 +30,8 @@ func TestParse(t *testing.T) {
 		{"  4 / ( s ^ 2 + 2 s + 4 ) ", []float64{4}, []float64{1, 2, 4}, 0},
 		{"3", []float64{3}, []float64{1}, 0},
 		{"0/(s+1)", []float64{0}, []float64{1, 1}, 0},
+		{"0*exp(-s) + 1/(s+1)", []float64{1}, []float64{1, 1}, 0}, // a zero term adds no dead time
+		{"1/(s+1) - 0*exp(-s)", []float64{1}, []float64{1, 1}, 0},
 	}
 	for _, test := range tests {
 		t.Run(test.text, func(t *testing.T) {

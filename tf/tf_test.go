@@ -213,6 +213,13 @@ func TestAlgebraErrors(t *testing.T) {
 	if _, err := PositiveFeedback(one, one); !errors.Is(err, ErrZeroDenominator) {
 		t.Errorf("1/(1 − 1): %v", err)
 	}
+	// A zero term adds no dead time to a sum.
+	zeroDelayed, _ := TF{}.WithDelay(0.5)
+	for _, p := range [][2]TF{{zeroDelayed, g}, {g, zeroDelayed}} {
+		if s, err := p[0].Parallel(p[1]); err != nil || s.DelaySec() != 0 {
+			t.Errorf("0·e^(−0.5s) + g: delay %v, %v", s.DelaySec(), err)
+		}
+	}
 	// Series keeps dead time exactly (they add).
 	s, err := delayed.Series(other)
 	if err != nil || math.Abs(s.DelaySec()-0.3) > 1e-16 {
