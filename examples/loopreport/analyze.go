@@ -21,6 +21,7 @@ const padeOrder = 6
 
 // analysis carries the intermediate results between the stages.
 type analysis struct {
+	prog     *progress
 	m        *loopModel
 	rep      *report
 	rational tf.TF // the open loop with dead time replaced (Padé or exact z^-d)
@@ -50,7 +51,7 @@ func short(err error) string {
 func analyze(m *loopModel, prog *progress, plots bool) (*report, []figure) {
 	lf := m.file
 	rep := emptyReport()
-	a := &analysis{m: m, rep: rep}
+	a := &analysis{m: m, rep: rep, prog: prog}
 	prog.total = 6
 	if plots {
 		prog.total++

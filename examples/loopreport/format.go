@@ -1,8 +1,11 @@
 package main
 
 import (
+	"cmp"
 	"fmt"
 	"math"
+	"math/cmplx"
+	"slices"
 	"strconv"
 	"strings"
 )
@@ -34,7 +37,10 @@ func g(x number) string {
 		}
 		s = mant + "e" + e
 	}
-	return strings.Replace(s, "-", "−", 1)
+	if strings.HasPrefix(s, "-") {
+		s = "−" + s[1:]
+	}
+	return s
 }
 
 // gUnit formats x followed by a unit, or a word for a missing value.
@@ -136,6 +142,11 @@ func stableWord(b *bool) string {
 // "s·(s + 2)·(s^2 + 7.2s + 144)": real roots give first-order factors,
 // conjugate pairs second-order ones; numbers have 4 significant digits.
 func factorText(roots []complex128, v string) string {
+	// Slowest factors first, as on paper: s·(s + 2)·(s^2 + ...)·(s + 40).
+	roots = slices.Clone(roots)
+	slices.SortStableFunc(roots, func(a, b complex128) int {
+		return cmp.Or(cmp.Compare(cmplx.Abs(a), cmplx.Abs(b)), cmp.Compare(imag(b), imag(a)))
+	})
 	var parts []string
 	used := make([]bool, len(roots))
 	for i, r := range roots {

@@ -652,3 +652,24 @@ func TestHTMLEscapesTheLoopFile(t *testing.T) {
 		t.Errorf("the loop name is missing from index.html")
 	}
 }
+
+func TestFormatting(t *testing.T) {
+	tests := []struct{ got, want string }{
+		{g(number(23040)), "23040"},
+		{g(number(-0.4226497)), "−0.4226"},
+		{g(number(1.5e-7)), "1.5e-7"},
+		{g(number(math.Inf(1))), "infinite"},
+		{g(number(math.NaN())), "none"},
+		{factorText([]complex128{-40, complex(-3.6, 11.45), complex(-3.6, -11.45), -2, 0}, "s"), "s·(s + 2)·(s^2 + 7.2s + 144.1)·(s + 40)"},
+		{factorText([]complex128{1, 0.5}, "z"), "(z − 0.5)·(z − 1)"},
+		{factoredText(2, []complex128{-1}, []complex128{0, -3}, "s", 0.5, false), "2·(s + 1)/(s·(s + 3))·e^(−0.5s)"},
+		{rootList([]complexNumber{newComplex(complex(-1, 2)), newComplex(complex(-1, -2)), newComplex(-3)}), "−1 ± 2j, −3"},
+		{intervalText(interval{number(math.Inf(-1)), 0}), "(−∞, 0)"},
+		{ordinal(6), "6th"}, {ordinal(2), "2nd"}, {ordinal(11), "11th"},
+	}
+	for _, test := range tests {
+		if test.got != test.want {
+			t.Errorf("got %q, want %q", test.got, test.want)
+		}
+	}
+}

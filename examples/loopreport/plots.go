@@ -51,7 +51,8 @@ func (a *analysis) plots() []figure {
 			if a.locus == nil {
 				return nil, fmt.Errorf("the locus could not be analysed")
 			}
-			set := &locus.Settings{PadeOrder: padeOrder, Range: a.locus.Range, Variable: a.locus.Variable}
+			set := &locus.Settings{PadeOrder: padeOrder, Range: a.locus.Range, Variable: a.locus.Variable,
+				Progress: func(f float64) { a.prog.fraction("plots: tracing the root locus", f) }}
 			l, err := locus.Trace(a.locusFor, set)
 			if err != nil {
 				return nil, err

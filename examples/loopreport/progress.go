@@ -33,6 +33,15 @@ func newProgress(w io.Writer, quiet bool) *progress {
 // step announces the next stage.
 func (p *progress) step(what string) {
 	p.n++
+	p.show(what)
+}
+
+// fraction reports how far the current stage has come, in [0, 1].
+func (p *progress) fraction(what string, f float64) {
+	p.show(fmt.Sprintf("%s %3.0f %%", what, 100*min(max(f, 0), 1)))
+}
+
+func (p *progress) show(what string) {
 	if !p.live {
 		return
 	}

@@ -272,8 +272,8 @@ func printSummary(w io.Writer, r *report) {
 			fmt.Fprintf(w, "  - %s\n", s)
 		}
 	}
-	fmt.Fprintf(w, "\n%s\n", safetyCaution)
+	fmt.Fprintf(w, "\nCaution: %s\n", safetyCaution)
 }
 
 // safetyCaution is printed with every report.
-const safetyCaution = "Caution: these results describe a linear model. They do not guarantee the behaviour of real hardware (saturation, friction, backlash, quantisation, noise and unmodelled dynamics are not in the model). Validate loops that drive machines on the real plant with limits and interlocks in place; local codes, applicable standards and licensed engineering practice govern any safety-related use."
+const safetyCaution = "These results describe a linear model. They do not guarantee the behaviour of real hardware (saturation, friction, backlash, quantisation, noise and unmodelled dynamics are not in the model). Validate loops that drive machines on the real plant with limits and interlocks in place; local codes, applicable standards and licensed engineering practice govern any safety-related use."

@@ -175,7 +175,7 @@ nav a { margin-right: 1rem; }
 {{if .Description}}<p>{{.Description}}</p>{{end}}
 <p class="muted">Loop report generated {{.Generated}} by loopreport (loopwise).</p>
 <nav><a href="#requirements">Requirements</a><a href="#results">Results</a><a href="#plots">Plots</a>{{if .Warnings}}<a href="#warnings">Warnings</a>{{end}}</nav>
-<div class="caution"><strong>Safety.</strong> {{.Caution}}</div>
+<div class="caution"><strong>Caution.</strong> {{.Caution}}</div>
 <h2 id="requirements">Requirements{{if .Total}}: {{.Pass}} of {{.Total}} met{{end}}</h2>
 {{if .Requirements}}<table>
 <tr><th>requirement</th><th>limit</th><th>measured</th><th>verdict</th><th>in words</th></tr>
