@@ -77,7 +77,7 @@ func analyse() (heater, error) {
 	for _, n := range padeOrders {
 		pl, err := padeAnalysis(d.Loop, n)
 		if err != nil {
-			return d, fmt.Errorf("Padé order %d: %w", n, err)
+			return d, fmt.Errorf("locus with the Padé approximation of order %d: %w", n, err)
 		}
 		d.Pade = append(d.Pade, pl)
 	}

@@ -40,7 +40,7 @@ func (d levitation) plot(dir string) ([]string, error) {
 
 	ny, err := margins.NyquistCurve(d.Loop, nil)
 	if err != nil {
-		return files, fmt.Errorf("Nyquist curve: %w", err)
+		return files, fmt.Errorf("the Nyquist curve: %w", err)
 	}
 	fig, err = chart.Nyquist(ny, &d.Margins, &chart.NyquistSettings{
 		Title: fmt.Sprintf("Nyquist curve of the levitation loop at Kc = %.4g A/m", d.Kc),
@@ -48,7 +48,7 @@ func (d levitation) plot(dir string) ([]string, error) {
 		Size: chart.Size{WidthCm: 21},
 	})
 	if err != nil {
-		return files, fmt.Errorf("Nyquist plot: %w", err)
+		return files, fmt.Errorf("the Nyquist plot: %w", err)
 	}
 	if err := save(fig, "nyquist"); err != nil {
 		return files, err
