@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"math/rand/v2"
 	"os"
 	"testing"
 
@@ -712,5 +713,77 @@ func BenchmarkZeroOrderHoldNumerator(b *testing.B) {
 				naiveNumerator(b, g, 0.01)
 			}
 		})
+	}
+}
+
+// TestDiscretizeStaticGainProperty: every method keeps the static gain of a
+// stable g, G_d(1) = G(0) (step invariance for the holds; z = 1 ↔ s = 0
+// for Tustin; the matched gain by construction), and the holds and the
+// matched method keep the poles e^{pT}. Random stable systems, fixed seed.
+func TestDiscretizeStaticGainProperty(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 1))
+	for trial := 0; trial < 30; trial++ {
+		n := 1 + rng.IntN(5)
+		m := rng.IntN(n + 1)
+		var poles, zeros []complex128
+		for len(poles) < n {
+			re := -0.2 - 5*rng.Float64()
+			if n-len(poles) >= 2 && rng.IntN(2) == 0 {
+				im := 5 * rng.Float64()
+				poles = append(poles, complex(re, im), complex(re, -im))
+				continue
+			}
+			poles = append(poles, complex(re, 0))
+		}
+		for range m {
+			zeros = append(zeros, complex(4*rng.NormFloat64(), 0))
+		}
+		g, err := FromZerosPolesGain(zeros, poles, 1+rng.Float64())
+		if err != nil {
+			t.Fatal(err)
+		}
+		T := 0.01 + 0.3*rng.Float64()
+		g0, err := g.StaticGain()
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, method := range []DiscretizeMethod{ZeroOrderHold, FirstOrderHold, Tustin, MatchedPoleZero} {
+			gd, err := g.Discretize(T, method, nil)
+			if err != nil {
+				t.Fatalf("%v of %v: %v", method, g, err)
+			}
+			gd0, err := gd.StaticGain()
+			if err != nil {
+				t.Fatal(err)
+			}
+			// G_d(1) = num(1)/den(1) is a ratio of sums of coefficients
+			// that cancel: den(1) = ∏(1 − e^{pT}) is small for slow poles
+			// and num(1) for a small static gain. The tolerance is the
+			// rounding of those sums, 64ε·‖num‖₁/|den(1)| absolute plus
+			// 64ε·‖den‖₁/|den(1)| relative (64ε for the coefficients'
+			// own errors, measured at a few ε).
+			d1 := math.Abs(gd.Den().Eval(1))
+			const eps64 = 64 * 0x1p-52
+			if !testutil.Close(gd0, g0, eps64*gd.Den().Norm1()/d1, eps64*gd.Num().Norm1()/d1) {
+				t.Errorf("%v of %v at T = %v: static gain %.15g, want %.15g", method, g, T, gd0, g0)
+			}
+			if method == Tustin {
+				continue
+			}
+			got, _ := gd.Poles()
+			want := make([]complex128, len(poles))
+			for i, p := range poles {
+				want[i] = cmplx.Exp(p * complex(T, 0))
+			}
+			dist, ok := testutil.MatchMultiset(got, want)
+			if !ok {
+				t.Fatalf("%v: poles %v, want %v", method, got, want)
+			}
+			for i, d := range dist {
+				if d > 1e-9 {
+					t.Errorf("%v: pole %v off by %v", method, want[i], d)
+				}
+			}
+		}
 	}
 }
