@@ -87,6 +87,42 @@ func TestDesignAgainstHandDerivation(t *testing.T) {
 	}
 }
 
+// TestPhaseMarginAgainstHandDerivation: with k = 2400·Kp,
+// |L(jω)|² = k²/(ω²(ω² + 64)(ω² + 1600)), which falls monotonically, so the
+// gain crossover is the single root of ω²(ω² + 64)(ω² + 1600) = k² (found
+// here by bisection), and ∠L(jω) = −90° − atan(ω/8) − atan(ω/40) gives the
+// phase margin 90° − atan(ωc/8) − atan(ωc/40) and the delay margin
+// PM(rad)/ωc.
+func TestPhaseMarginAgainstHandDerivation(t *testing.T) {
+	d, err := designServo()
+	if err != nil {
+		t.Fatal(err)
+	}
+	k := 2400 * kpTarget
+	lo, hi := 0.0, 100.0
+	for range 200 {
+		w := (lo + hi) / 2
+		if w*w*(w*w+64)*(w*w+1600) < k*k {
+			lo = w
+		} else {
+			hi = w
+		}
+	}
+	wc := (lo + hi) / 2
+	pm := 90 - (math.Atan(wc/8)+math.Atan(wc/40))*180/math.Pi
+	// 1e-9 relative: the bisection converges to rounding; the library
+	// locates the crossover to near machine precision.
+	if !near(d.Margins.GainCrossoverRadPerSec, wc, 1e-9) {
+		t.Errorf("gain crossover = %.15g rad/s, want %.15g", d.Margins.GainCrossoverRadPerSec, wc)
+	}
+	if !near(d.Margins.PhaseMarginDeg, pm, 1e-9) {
+		t.Errorf("phase margin = %.15g degrees, want %.15g", d.Margins.PhaseMarginDeg, pm)
+	}
+	if want := pm * math.Pi / 180 / wc; !near(d.Margins.DelayMarginSec, want, 1e-9) {
+		t.Errorf("delay margin = %.15g s, want %.15g", d.Margins.DelayMarginSec, want)
+	}
+}
+
 // stepByPartialFractions is the closed-form unit step response of
 // c/((s−p1)(s−p2)(s−p3)) with distinct poles: y(t) = 1 + Σ cᵢ e^{pᵢt}/pᵢ,
 // cᵢ = c/Π_{j≠i}(pᵢ − pⱼ) (residues of Y(s) = T(s)/s).
