@@ -60,12 +60,17 @@ type Result struct {
 	// GainCrossovers lists every gain crossover, ascending in frequency.
 	GainCrossovers []GainCrossover
 	// PhaseCrossovers lists every phase crossover (with dead time: those up
-	// to the search limit OmegaMaxRadPerSec), ascending in frequency.
+	// to the search limit OmegaMaxRadPerSec), ascending in frequency. It is
+	// empty when L(jω) is real at every frequency (an even loop such as k/s²
+	// or k/(s² + 1), whose phase crossovers fill whole bands; its closed loop
+	// is unstable at every gain, its characteristic polynomial being even or
+	// odd).
 	PhaseCrossovers []PhaseCrossover
 
 	// GainMargin is the smallest gain factor k > 1 among the phase
 	// crossovers: the factor by which the loop gain can rise before the
-	// closed loop reaches the stability boundary. +Inf when there is none.
+	// closed loop reaches the stability boundary. +Inf when there is none;
+	// NaN when L(jω) is real at every frequency (see PhaseCrossovers).
 	GainMargin float64
 	// GainMarginDB is 20·log10(GainMargin); +Inf when GainMargin is.
 	GainMarginDB float64
@@ -264,6 +269,9 @@ func Compute(loop tf.TF, set *Settings) (Result, error) {
 		res.PhaseCrossovers = append(res.PhaseCrossovers, PhaseCrossover{FrequencyRadPerSec: c.w, GainFactor: c.k, GainFactorDB: 20 * math.Log10(c.k)})
 	}
 	res.setGainMargins()
+	if lp.even {
+		res.GainMargin, res.GainMarginDB = math.NaN(), math.NaN()
+	}
 	res.setPhaseMargin()
 
 	// Closed-loop stability.

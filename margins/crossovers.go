@@ -80,14 +80,11 @@ func (lp *loop) endpointCrossings() (low, high *crossing) {
 // Newton's method on the directly evaluated phase.
 func (lp *loop) rationalPhaseCrossovers() ([]crossing, error) {
 	j := lp.ni.Mul(lp.dr).Sub(lp.nr.Mul(lp.di))
-	re := lp.nr.Mul(lp.dr).Add(xPoly.Mul(lp.ni.Mul(lp.di)))
 	scale := math.Max(lp.ni.Mul(lp.dr).NormInf(), lp.nr.Mul(lp.di).NormInf())
 	if j.NormInf() <= 1e-14*scale || j.IsZero() {
-		// L(jω) is real at every frequency.
-		neg := re.Lead() < 0 || re.Coef(0) < 0 || len(positiveRoots(re)) > 0
-		if neg {
-			return nil, fmt.Errorf("%w: L is real at every frequency and negative on a band", ErrDegenerate)
-		}
+		// L(jω) is real at every frequency: an even loop (k/s², k/(s²+1)),
+		// whose phase crossovers fill whole bands; none is listed.
+		lp.even = true
 		return nil, nil
 	}
 	var out []crossing

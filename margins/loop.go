@@ -32,6 +32,7 @@ type loop struct {
 	zeros    []complex128 // roots of an (after ensureRoots)
 	poles    []complex128 // roots of ad (after ensureRoots)
 	rooted   bool
+	even     bool // L(jω) real at every frequency (set by rationalPhaseCrossovers)
 	// openUnstable and openIntegrators are set by countOpenLoop.
 	openUnstable, openIntegrators int
 	c0                            float64 // phase of the ratio of leading coefficients of an and ad: 0 or π

@@ -50,8 +50,10 @@ func (lp *loop) encirclementCount(gains []float64, cross func(wmax float64) []cr
 			// L(0) in (−1, 0): G starts on its branch cut; the side it
 			// leaves to decides the branch.
 			ws := we
-			if len(cs) > 0 {
-				ws = math.Min(ws, cs[0].w)
+			for _, c := range cs {
+				if c.w > 0 {
+					ws = math.Min(ws, c.w)
+				}
 			}
 			ws *= 1e-3
 			if imag(1+1/lp.value(ws)) >= 0 {
