@@ -178,6 +178,14 @@ func build(lf *loopFile) (*loopModel, error) {
 			return l, nil
 		}
 	}
+	if lf.Parameter != nil {
+		// The parameter must change the loop, or its locus is empty.
+		l0, err0 := m.loopAt(lf.Parameter.Value)
+		l1, err1 := m.loopAt(lf.Parameter.Value + 1)
+		if err0 == nil && err1 == nil && l0.EqualApprox(l1, 0) {
+			return nil, badInput("key \"parameter\"%s: the parameter %q does not appear in the controller, the plant or the sensor, so there is no locus in it", lf.where("parameter"), lf.Parameter.Name)
+		}
+	}
 	return m, nil
 }
 

@@ -309,6 +309,9 @@ func (lf *loopFile) validate() error {
 	if lf.SampleTimeSec < 0 {
 		return badInput("key \"sample_time_sec\"%s: the sample time must be zero (continuous time) or positive, got %g", lf.where("sample_time_sec"), lf.SampleTimeSec)
 	}
+	if lf.Gain == 0 {
+		return badInput("key \"gain\"%s: the loop gain k must not be zero (there would be no feedback); use a small value such as 0.001, negative for the complementary locus", lf.where("gain"))
+	}
 	if lf.GainRange[0] >= lf.GainRange[1] {
 		return badInput("key \"gain_range\"%s: the lower end must be below the upper end, got [%g, %g]", lf.where("gain_range"), lf.GainRange[0], lf.GainRange[1])
 	}

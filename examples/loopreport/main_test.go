@@ -71,6 +71,8 @@ func TestBadInput(t *testing.T) {
 		{"bad parameter name", `{"plant": "1/(s+1)", "parameter": {"name": "s", "value": 1}}`, []string{`"parameter.name"`, "not a usable name"}},
 		{"parameter without value", `{"plant": "1/(s+1)", "parameter": {"name": "p"}}`, []string{`"parameter"`, `"value"`}},
 		{"zero loop", `{"plant": "0"}`, []string{"zero"}},
+		{"zero gain", `{"plant": "1/(s+1)", "gain": 0}`, []string{`key "gain"`, "must not be zero"}},
+		{"unused parameter", `{"plant": "1/(s+1)", "parameter": {"name": "p", "value": 1}}`, []string{`"parameter"`, "does not appear"}},
 	}
 	for _, test := range tests {
 		t.Run(test.name, func(t *testing.T) {
@@ -671,5 +673,25 @@ func TestFormatting(t *testing.T) {
 		if test.got != test.want {
 			t.Errorf("got %q, want %q", test.got, test.want)
 		}
+	}
+}
+
+// TestReportFolderHasNoStalePlots checks that a second run into the same
+// folder removes the plots it could not draw this time.
+func TestReportFolderHasNoStalePlots(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "r")
+	var out, errb bytes.Buffer
+	if code := run([]string{"-out", dir}, &out, &errb); code != 0 {
+		t.Fatal(errb.String())
+	}
+	// Unstable at K = 10 (Ogata, Example 6-1, from memory): no step plot.
+	if code, _, errs := runLoop(t, `{"plant": "1/(s*(s+1)*(s+2))", "gain": 10}`, "-out", dir); code != 0 {
+		t.Fatal(errs)
+	}
+	if _, err := os.Stat(filepath.Join(dir, "step-response.svg")); err == nil {
+		t.Errorf("the demo's step plot is still in the folder")
+	}
+	if _, err := os.Stat(filepath.Join(dir, "root-locus.svg")); err != nil {
+		t.Errorf("root-locus.svg missing: %v", err)
 	}
 }

@@ -22,12 +22,30 @@ type figure struct {
 	png     []byte
 }
 
+// plotFiles are the base names of every plot the report can hold.
+var plotFiles = []string{"root-locus", "frequency-response", "nyquist", "step-response", "pole-zero-map"}
+
 // writeFolder writes the report into dir: every plot as SVG and PNG,
 // summary.md, report.json and index.html. It returns the path of
 // index.html.
 func writeFolder(dir string, r *report, figs []figure) (string, error) {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return "", err
+	}
+	// Remove plots of an earlier run that this run could not draw, so the
+	// folder never mixes two analyses.
+	drawn := map[string]bool{}
+	for _, f := range figs {
+		drawn[f.file] = true
+	}
+	for _, name := range plotFiles {
+		if !drawn[name] {
+			for _, ext := range []string{".svg", ".png"} {
+				if err := os.Remove(filepath.Join(dir, name+ext)); err != nil && !os.IsNotExist(err) {
+					return "", err
+				}
+			}
+		}
 	}
 	for _, f := range figs {
 		if err := os.WriteFile(filepath.Join(dir, f.file+".svg"), f.svg, 0o644); err != nil {
