@@ -47,6 +47,8 @@ type candidate struct {
 	Disturbance response.Metrics
 	// StepCurve is the closed-loop step response.
 	StepCurve response.Response
+	// DisturbanceCurve is the disturbance step response, sampled.
+	DisturbanceCurve response.Response
 }
 
 // tableRow is one row of the sweep table.
@@ -171,6 +173,9 @@ func evaluate(param tf.TF, tau float64, pair complex128) (candidate, error) {
 		return c, fmt.Errorf("disturbance path at τ = %g s: %w", tau, err)
 	}
 	if c.Disturbance, err = response.StepMetrics(dist, nil); err != nil {
+		return c, fmt.Errorf("disturbance step at τ = %g s: %w", tau, err)
+	}
+	if c.DisturbanceCurve, err = response.Step(dist, &response.Settings{HorizonSec: 4}); err != nil {
 		return c, fmt.Errorf("disturbance step at τ = %g s: %w", tau, err)
 	}
 	return c, nil

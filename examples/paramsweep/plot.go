@@ -10,6 +10,7 @@ import (
 
 	"github.com/loopwise/loopwise/chart"
 	"github.com/loopwise/loopwise/examples/internal/output"
+	"github.com/loopwise/loopwise/examples/internal/words"
 	"github.com/loopwise/loopwise/locus"
 )
 
@@ -64,6 +65,15 @@ func (d gimbal) plot(dir string) ([]string, error) {
 	if err != nil {
 		return files, err
 	}
+	fig, err = d.disturbanceComparison()
+	if err != nil {
+		return files, err
+	}
+	paths, err = output.Save(fig, dir, "disturbance-comparison")
+	files = append(files, paths...)
+	if err != nil {
+		return files, err
+	}
 	for i, c := range d.Candidates {
 		fig, err := chart.StepResponse(c.StepCurve, &c.Step, &chart.StepSettings{
 			Title:       fmt.Sprintf("Tilt angle after a 1 rad step, derivative time τ = %.4g s", c.TauSec),
@@ -79,4 +89,42 @@ func (d gimbal) plot(dir string) ([]string, error) {
 		}
 	}
 	return files, nil
+}
+
+// disturbanceComparison overlays the tilt angle after a 1 V disturbance
+// step at the motor for every candidate.
+func (d gimbal) disturbanceComparison() (*chart.Figure, error) {
+	first := d.Candidates[0]
+	fig, err := chart.StepResponse(first.DisturbanceCurve, nil, &chart.StepSettings{
+		Title:       "Tilt angle after a 1 V disturbance step at the motor",
+		OutputLabel: "tilt angle (rad)",
+	})
+	if err != nil {
+		return nil, fmt.Errorf("disturbance plot: %w", err)
+	}
+	pl := fig.Panels[0]
+	colours := chart.Palette()
+	for i, c := range d.Candidates {
+		r := c.DisturbanceCurve
+		if i > 0 {
+			curve, err := chart.NewCurve(r.TimeSec, r.Output)
+			if err != nil {
+				return nil, err
+			}
+			curve.Color = colours[i]
+			curve.Width = vg.Points(1.4)
+			pl.Add(curve)
+		}
+		thumb, err := plotter.NewLine(plotter.XYs{{X: 0, Y: 0}, {X: 1, Y: 0}})
+		if err != nil {
+			return nil, err
+		}
+		thumb.Color = colours[i]
+		thumb.Width = vg.Points(1.4)
+		pl.Legend.Add(fmt.Sprintf("τ = %.4g s: settles (2 %% band) in %s", c.TauSec, words.Seconds(c.Disturbance.SettlingTimeSec)), thumb)
+	}
+	pl.Legend.Top, pl.Legend.Left = false, false
+	pl.Legend.Padding = vg.Points(6)
+	pl.Legend.YOffs = vg.Points(14)
+	return fig, nil
 }
