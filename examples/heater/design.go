@@ -13,11 +13,11 @@ import (
 
 // Plant and tuning numbers of the scenario.
 const (
-	plantGain    = 2.5  // °C per % of heater power
-	lagSec       = 90.0 // s, the vessel's time constant
-	deadTimeSec  = 12.0 // s, transport delay to the sensor
-	lambdaSec    = 30.0 // s, requested closed-loop time constant
-	integralTime = lagSec
+	plantGain       = 2.5    // °C per % of heater power
+	lagSec          = 90.0   // s, the vessel's time constant
+	deadTimeSec     = 12.0   // s, transport delay to the sensor
+	lambdaSec       = 30.0   // s, requested closed-loop time constant
+	integralTimeSec = lagSec // s, PI integral time (cancels the lag)
 )
 
 // padeOrders are the approximation orders compared in the locus.
@@ -41,6 +41,8 @@ type padeLocus struct {
 
 // heater holds everything the program computes.
 type heater struct {
+	// Plant is G(s) in °C per %, Controller the PI controller C(s) in % per
+	// °C and Loop is C·G, dead time included.
 	Plant, Controller, Loop tf.TF
 	// Kc is the controller gain in % per °C.
 	Kc float64
@@ -62,7 +64,7 @@ func analyse() (heater, error) {
 	}
 	d.Kc = lagSec / (plantGain * (lambdaSec + deadTimeSec))
 	// Kc·(1 + 1/(Ti·s)) = Kc·(Ti·s + 1)/(Ti·s).
-	d.Controller, err = tf.New([]float64{d.Kc * integralTime, d.Kc}, []float64{integralTime, 0})
+	d.Controller, err = tf.New([]float64{d.Kc * integralTimeSec, d.Kc}, []float64{integralTimeSec, 0})
 	if err != nil {
 		return d, fmt.Errorf("controller: %w", err)
 	}
@@ -125,8 +127,8 @@ func (d heater) print(w io.Writer) error {
 	m := d.Margins
 	p.Heading("Process heater with dead time")
 	p.F("Plant (temperature per heater power): G(s) = %.4g·e^(-%.4gs)/(%.4gs + 1) °C/%%\n", plantGain, deadTimeSec, lagSec)
-	p.F("PI controller, lag cancelled (Ti = %.4g s), closed-loop time constant %.4g s:\n", integralTime, lambdaSec)
-	p.F("  C(s) = Kc·(1 + 1/(%.4gs)), Kc = 90/(2.5·(30 + 12)) = %.4g %%/°C\n\n", integralTime, d.Kc)
+	p.F("PI controller, lag cancelled (Ti = %.4g s), closed-loop time constant %.4g s:\n", integralTimeSec, lambdaSec)
+	p.F("  C(s) = Kc·(1 + 1/(%.4gs)), Kc = 90/(2.5·(30 + 12)) = %.4g %%/°C\n\n", integralTimeSec, d.Kc)
 
 	p.F("Margins with the dead time kept exactly\n")
 	p.F("  phase margin %.2f degrees at %.4g rad/s (gain crossover)\n", m.PhaseMarginDeg, m.GainCrossoverRadPerSec)
