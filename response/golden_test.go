@@ -70,8 +70,10 @@ func orNaN(p *float64) float64 {
 }
 
 // checkMetrics compares m with the mpmath metrics. Times are located to
-// about 1e-13 relative; the issue asks for 1e-9, which is the tolerance
-// (plus 1e-11 absolute for values near zero).
+// about 1e-13 relative for moderate systems; the issue asks for 1e-9, which
+// is the tolerance (plus 1e-11 absolute for values near zero). The stiff
+// case (‖A‖·t ≈ 4e6 at settling) reaches 4e-10: the matrix exponential is
+// accurate relative to ‖A‖, so the slow mode carries about eps·‖A‖·t.
 func checkMetrics(t *testing.T, m Metrics, w *goldenMetrics) {
 	t.Helper()
 	const rel, abs = 1e-9, 1e-11
@@ -98,8 +100,9 @@ func checkMetrics(t *testing.T, m Metrics, w *goldenMetrics) {
 
 func TestGoldenCases(t *testing.T) {
 	// Non-minimum-phase (one and two right-half-plane zeros: initial
-	// undershoot), fifth order with a zero, and a proper system with a
-	// direct term, against mpmath partial fractions.
+	// undershoot), fifth order with a zero, a proper system with a direct
+	// term, and a stiff system with negative gain (poles 1e-3 and 1e3),
+	// against mpmath partial fractions.
 	g, err := loadGolden()
 	if err != nil {
 		t.Fatal(err)
@@ -126,14 +129,18 @@ func TestGoldenCases(t *testing.T) {
 			if imp.DirectTerm != c.DirectTerm {
 				t.Errorf("direct term %v, want %v", imp.DirectTerm, c.DirectTerm)
 			}
-			// Exact samples carry rounding only: 1e-13 absolute on values of
-			// order 1 (measured ≤ 3e-15).
+			// Exact samples carry rounding only: 1e-13 relative to the
+			// largest value (measured ≤ 3e-15 on values of order 1).
+			scale := 0.0
+			for _, v := range append(append([]float64(nil), c.Impulse...), c.Step...) {
+				scale = math.Max(scale, math.Abs(v))
+			}
 			for i, tq := range c.Times {
-				if d := math.Abs(step.Output[i+1] - c.Step[i]); d > 1e-13 {
+				if d := math.Abs(step.Output[i+1] - c.Step[i]); d > 1e-13*scale {
 					t.Errorf("step(%v) = %.17g, want %.17g", tq, step.Output[i+1], c.Step[i])
 				}
 				k := int(math.Round(tq / 0.05))
-				if d := math.Abs(imp.Output[k] - c.Impulse[i]); d > 1e-13 {
+				if d := math.Abs(imp.Output[k] - c.Impulse[i]); d > 1e-13*scale {
 					t.Errorf("impulse(%v) = %.17g, want %.17g", tq, imp.Output[k], c.Impulse[i])
 				}
 			}

@@ -429,3 +429,18 @@ func (s *system) continuousPoints(final, band float64) (*evaluator, []point, err
 	}
 	return nil, nil, fmt.Errorf("%w: %v within %v s", ErrNotSettled, s.sys, H/4)
 }
+
+// String formats the metrics in words, for logs and reports.
+func (m Metrics) String() string {
+	s := fmt.Sprintf("final value %.6g, rise time %.6g s (%.6g s to %.6g s), settling time %.6g s",
+		m.FinalValue, m.RiseTimeSec, m.RiseStartSec, m.RiseEndSec, m.SettlingTimeSec)
+	if math.IsNaN(m.PeakValue) {
+		s += ", no overshoot"
+	} else {
+		s += fmt.Sprintf(", overshoot %.4g %% (peak %.6g at %.6g s)", m.OvershootPct, m.PeakValue, m.PeakTimeSec)
+	}
+	if !math.IsNaN(m.UndershootValue) {
+		s += fmt.Sprintf(", undershoot %.4g %% (%.6g at %.6g s)", m.UndershootPct, m.UndershootValue, m.UndershootTimeSec)
+	}
+	return s
+}

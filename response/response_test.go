@@ -461,6 +461,10 @@ func TestUnstableAndBadInput(t *testing.T) {
 		want error
 	}{
 		{"improper step", func() error { _, err := Step(improper, nil); return err }, ErrImproper},
+		{"overflowing unstable response", func() error {
+			_, err := Step(tf.MustNew([]float64{1}, []float64{1, -1}), &Settings{HorizonSec: 1000})
+			return err
+		}, ErrNotFinite},
 		{"improper impulse", func() error { _, err := Impulse(improper, nil); return err }, ErrImproper},
 		{"improper metrics", func() error { _, err := StepMetrics(improper, nil); return err }, ErrImproper},
 		{"negative horizon", func() error { _, err := Step(ok, &Settings{HorizonSec: -1}); return err }, ErrSettings},
@@ -504,6 +508,23 @@ func TestUnstableAndBadInput(t *testing.T) {
 	} {
 		if err := c.run(); !errors.Is(err, c.want) {
 			t.Errorf("%s: err = %v, want %v", c.name, err, c.want)
+		}
+	}
+}
+
+func TestMarginallyStableStep(t *testing.T) {
+	// 1/s: the step response is the ramp t (exact at the samples);
+	// automatic horizon 10 s (no nonzero pole: σ = 1 s⁻¹), 400 intervals.
+	r, err := Step(tf.MustNew([]float64{1}, []float64{1, 0}), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(r.TimeSec) != 401 {
+		t.Errorf("%d samples", len(r.TimeSec))
+	}
+	for k, tk := range r.TimeSec {
+		if math.Abs(r.Output[k]-tk) > 1e-13 {
+			t.Fatalf("y(%v) = %v", tk, r.Output[k])
 		}
 	}
 }

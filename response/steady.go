@@ -147,3 +147,9 @@ func deflate(p poly.Poly, x float64) (poly.Poly, int) {
 	}
 	return p, k
 }
+
+// String formats the constants and errors in words.
+func (e SteadyStateErrors) String() string {
+	return fmt.Sprintf("system type %d, position constant %.6g, velocity constant %.6g 1/s, acceleration constant %.6g 1/s², errors: step %.6g, ramp %.6g, parabola %.6g",
+		e.SystemType, e.PositionConstant, e.VelocityConstant, e.AccelerationConstant, e.StepError, e.RampError, e.ParabolaError)
+}

@@ -146,6 +146,7 @@ named = [
     ("fifth order with a zero: 40(s+3)/((s+2)(s^2+2s+5)(s^2+4s+12))",
      [40.0, 120.0], polymul([1.0, 2.0], polymul([1.0, 2.0, 5.0], [1.0, 4.0, 12.0])), 12.0),
     ("proper, direct term: (2s^2+3s+4)/(s^2+2s+4)", [2.0, 3.0, 4.0], [1.0, 2.0, 4.0], 12.0),
+    ("stiff, negative gain: -1e6/((s+0.001)(s+1000))", [-1e6], [1.0, 1000.001, 1.0], 8000.0),
 ]
 for title, num, den, horizon in named:
     s = System(num, den)
