@@ -105,10 +105,13 @@ func cubicAt(xs, ys []float64, i int, u float64) float64 {
 // unwrapped phase are interpolated by the cubic through the four samples
 // around each sign change, as functions of u = ln ω, and the crossing is the
 // root of the cubic (Brent 1973). The error is of order h⁴, h the spacing in
-// ln ω: on the test loops of this package (orders 1–4, a lightly damped
-// resonance, dead time) with 100 log-spaced points per decade, crossover
-// frequencies and margins agree with the exact values to better than 1e-7
-// relative (phase margins 1e-5°). Ms and Mt are the largest sampled values
+// ln ω, times the fourth derivative of ln|L| or of the phase. Measured on
+// exactly sampled loops with 100 log-spaced points per decade (h = 0.023):
+// crossover frequencies and gain factors within 1.4e-8 relative and phase
+// margins within 4e-7° for smooth loops (orders 2–3, an open-loop unstable
+// loop, e^(−s)/s); with a lightly damped resonance (damping ratio 0.02)
+// 5e-5 relative and 0.08°, falling to 6e-7 and 0.002° at 300 points per
+// decade. Measurement noise adds its own error. Ms and Mt are the largest sampled values
 // refined by a parabola in u through the three samples around the maximum;
 // the bandwidth is relative to |T| at the lowest measured frequency.
 //
