@@ -456,6 +456,7 @@ func TestBadInput(t *testing.T) {
 		{"negative frequency", func() error { _, err := FrequencyResponse(ok, []float64{-1}); return err }, ErrNegativeFrequency},
 		{"above Nyquist", func() error { _, err := FrequencyResponse(disc, []float64{40}); return err }, ErrAboveNyquist},
 		{"improper response", func() error { _, err := FrequencyResponse(improper, nil); return err }, ErrImproper},
+		{"grid above Nyquist", func() error { _, err := AutoGrid(disc, &GridSettings{MaxRadPerSec: 100}); return err }, ErrAboveNyquist},
 		{"grid settings", func() error { _, err := AutoGrid(ok, &GridSettings{MinRadPerSec: 10, MaxRadPerSec: 1}); return err }, ErrBadSettings},
 		{"measured lengths", func() error {
 			_, err := FromMeasured(Measured{FrequencyRadPerSec: []float64{1, 2}, Value: []complex128{1}}, 0, nil)
@@ -637,3 +638,60 @@ func TestDelayMarginDefinition(t *testing.T) {
 }
 
 var _ = poly.MustNew
+
+// TestBandwidthClosedForm checks the −3 dB closed-loop bandwidth: for
+// L = k/s, T = k/(s + k) and the bandwidth is k; for L = 1/(s(s+1)),
+// |T|² = 1/((1 − ω²)² + ω²) = 1/2 gives ω² = (1 + √5)/2; for a type-0 loop
+// 10/(s+1), T = 10/(s + 11) and the bandwidth is 11 (3 dB below T(0)).
+func TestBandwidthClosedForm(t *testing.T) {
+	tests := []struct {
+		num, den []float64
+		want     float64
+	}{
+		{[]float64{3}, []float64{1, 0}, 3},
+		{[]float64{1}, []float64{1, 1, 0}, math.Sqrt((1 + math.Sqrt(5)) / 2)},
+		{[]float64{10}, []float64{1, 1}, 11},
+	}
+	for _, test := range tests {
+		res, err := Compute(tf.MustNew(test.num, test.den), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !closeRel(res.BandwidthRadPerSec, test.want, 1e-14) {
+			t.Errorf("%v/%v: bandwidth %v, want %v", test.num, test.den, res.BandwidthRadPerSec, test.want)
+		}
+	}
+	// With 1 ms of dead time the bandwidth of 3/s moves by O(1e-3):
+	// numerical route, compared with the closed form of the rational loop.
+	g, _ := tf.MustNew([]float64{3}, []float64{1, 0}).WithDelay(1e-3)
+	res, err := Compute(g, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !closeRel(res.BandwidthRadPerSec, 3, 1e-2) {
+		t.Errorf("bandwidth with dead time %v, want about 3", res.BandwidthRadPerSec)
+	}
+}
+
+// TestDefaultOmegaMax checks that the derived search limit for dead-time
+// loops contains the crossovers that decide the gain margins of the
+// reference cases C04 (e^(−s)/s: π/2 at π/2 rad/s) and C11
+// (2e^(−2s)/(s+1): 2.0849 at 4.0481 rad/s, lower 0.7599 at 1.1445 rad/s).
+func TestDefaultOmegaMax(t *testing.T) {
+	g, _ := tf.MustNew([]float64{1}, []float64{1, 0}).WithDelay(1)
+	res, err := Compute(g, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !closeRel(res.GainMargin, math.Pi/2, 1e-14) || res.OmegaMaxRadPerSec < math.Pi/2 {
+		t.Errorf("C04: gain margin %v with search limit %v", res.GainMargin, res.OmegaMaxRadPerSec)
+	}
+	g, _ = tf.MustNew([]float64{2}, []float64{1, 1}).WithDelay(2)
+	res, err = Compute(g, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !closeRel(res.GainMargin, 2.084884065873801, 1e-12) || !closeRel(res.LowerGainMargin, 0.7599012806030927, 1e-12) {
+		t.Errorf("C11: gain margins %v, %v", res.GainMargin, res.LowerGainMargin)
+	}
+}

@@ -34,9 +34,10 @@ type GridSettings struct {
 	// to 1/20 of the lowest characteristic frequency (smallest non-zero
 	// pole or zero modulus, or crossover).
 	MinRadPerSec float64
-	// MaxRadPerSec is the highest frequency in rad/s, > MinRadPerSec. If
-	// zero, defaults to 20 times the highest characteristic frequency
-	// (π/T for discrete loops, which is also the upper bound).
+	// MaxRadPerSec is the highest frequency in rad/s, > MinRadPerSec; for
+	// discrete loops at most π/T (ErrAboveNyquist otherwise). If zero,
+	// defaults to 20 times the highest characteristic frequency (π/T for
+	// discrete loops).
 	MaxRadPerSec float64
 	// PointsPerDecade is the density of the starting logarithmic grid,
 	// 1 to 10⁴. If zero, defaults to 20.
@@ -99,7 +100,8 @@ func checkGridSettings(set *GridSettings) (GridSettings, error) {
 // every interval across which the phase changes by more than
 // MaxPhaseStepDeg or the magnitude by more than MaxMagnitudeStepDB, round
 // after round, until no interval does or MaxPoints would be exceeded.
-// Errors are those of Compute for the loop and ErrBadSettings.
+// Errors are those of Compute for the loop, ErrBadSettings and
+// ErrAboveNyquist.
 func AutoGrid(loop tf.TF, set *GridSettings) ([]float64, error) {
 	s, err := checkGridSettings(set)
 	if err != nil {
@@ -127,9 +129,13 @@ func AutoGrid(loop tf.TF, set *GridSettings) ([]float64, error) {
 		hi = 20 * fh
 	}
 	if lp.discrete() {
-		if hi > lp.nyquist() || s.MaxRadPerSec == 0 {
+		if s.MaxRadPerSec > lp.nyquist()*(1+1e-12) {
+			return nil, fmt.Errorf("%w: MaxRadPerSec = %v rad/s > π/T = %v rad/s", ErrAboveNyquist, s.MaxRadPerSec, lp.nyquist())
+		}
+		if s.MaxRadPerSec == 0 {
 			hi = lp.nyquist()
 		}
+		hi = math.Min(hi, lp.nyquist())
 	}
 	if lo == 0 {
 		lo = math.Min(fl/20, hi/100)
