@@ -3,13 +3,16 @@ package chart
 import (
 	"bytes"
 	"fmt"
+	"image/color"
 	"io"
 	"math"
 	"os"
 	"path/filepath"
 	"strings"
 
+	xfont "golang.org/x/image/font"
 	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/font"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgimg"
@@ -162,12 +165,48 @@ func (f *Figure) Render(w io.Writer, format string) error {
 	case FormatPDF:
 		c := vgpdf.New(wid, hei)
 		c.EmbedFonts(true)
-		f.draw(draw.New(c))
+		f.draw(draw.New(pdfCanvas{c}))
 		_, err := c.WriteTo(w)
 		return err
 	default:
 		return fmt.Errorf("%w: %q (want svg, png or pdf)", ErrFormat, format)
 	}
+}
+
+// pdfCanvas works around three limits of gonum/plot v0.17's PDF backend:
+// it registers each font without its style and then asks for the bold one
+// by style, which fails, so text is written in the regular weight; it
+// encodes text in Windows-1252, so characters outside it are spelled out
+// (pdfText); and it reads translucent colours as premultiplied, which
+// darkens them, so colours are passed on unpremultiplied.
+type pdfCanvas struct{ *vgpdf.Canvas }
+
+func (c pdfCanvas) FillString(f font.Face, pt vg.Point, s string) {
+	if f.Font.Weight != xfont.WeightNormal {
+		fnt := f.Font
+		fnt.Weight = xfont.WeightNormal
+		f = textHandler().Fonts.Lookup(fnt, fnt.Size)
+	}
+	c.Canvas.FillString(f, pt, pdfText.Replace(s))
+}
+
+func (c pdfCanvas) SetColor(clr color.Color) {
+	if clr == nil {
+		clr = color.Black
+	}
+	c.Canvas.SetColor(straight(color.NRGBAModel.Convert(clr).(color.NRGBA)))
+}
+
+// pdfText spells out the characters this package writes that Windows-1252
+// lacks.
+var pdfText = strings.NewReplacer("−", "-", "σ", "sigma", "ω", "omega ", "ζ", "zeta", "∞", "infinity")
+
+// straight is a colour whose RGBA method returns unpremultiplied
+// components, which is what the PDF backend expects.
+type straight color.NRGBA
+
+func (s straight) RGBA() (r, g, b, a uint32) {
+	return uint32(s.R) * 0x101, uint32(s.G) * 0x101, uint32(s.B) * 0x101, uint32(s.A) * 0x101
 }
 
 // draw lays the panels out on the canvas.
@@ -185,9 +224,13 @@ func (f *Figure) draw(c draw.Canvas) {
 	if len(f.Notes) > 0 {
 		sty := th.textStyle(th.FontSizeLabel*0.95, false, draw.XLeft, draw.YBottom)
 		lineH := sty.Rectangle("Ag").Size().Y * 1.2
+		var lines []string
+		for _, n := range f.Notes {
+			lines = append(lines, wrapText(n, c.Max.X-c.Min.X-vg.Points(8), sty.Width)...)
+		}
 		y := c.Min.Y
-		for i := len(f.Notes) - 1; i >= 0; i-- {
-			c.FillText(sty, vg.Point{X: c.Min.X + vg.Points(4), Y: y}, f.Notes[i])
+		for i := len(lines) - 1; i >= 0; i-- {
+			c.FillText(sty, vg.Point{X: c.Min.X + vg.Points(4), Y: y}, lines[i])
 			y += lineH
 		}
 		c.Min.Y = y + vg.Points(4)
@@ -225,6 +268,33 @@ func (f *Figure) draw(c draw.Canvas) {
 	for i, p := range f.Panels {
 		p.Draw(cans[i][0])
 	}
+}
+
+// wrapText breaks s into lines no wider than w, after "; " separators
+// where possible and otherwise between words.
+func wrapText(s string, w vg.Length, width func(string) vg.Length) []string {
+	if width(s) <= w {
+		return []string{s}
+	}
+	var lines []string
+	var cur string
+	words := strings.Fields(s)
+	for _, word := range words {
+		try := word
+		if cur != "" {
+			try = cur + " " + word
+		}
+		if width(try) > w && cur != "" {
+			lines = append(lines, cur)
+			cur = "  " + word
+			continue
+		}
+		cur = try
+	}
+	if cur != "" {
+		lines = append(lines, cur)
+	}
+	return lines
 }
 
 // equalScale widens the shorter axis range of p so that one data unit has

@@ -78,9 +78,25 @@ func FrequencyResponse(resp margins.Response, m *margins.Result, set *FrequencyS
 		size.HeightCm = 16
 	}
 
+	// The phase is drawn shifted by a whole number of turns so that it
+	// starts in (−270°, 90°]: an unwrapped phase built from the poles and
+	// zeros may start a turn away (+270° for an integrator in discrete
+	// time), which is the same angle but reads wrongly.
+	phase := make([]float64, n)
+	shift := 0.0
+	for _, v := range resp.PhaseDeg {
+		if finite(v) {
+			shift = -360 * math.Ceil((v-90)/360)
+			break
+		}
+	}
+	for i, v := range resp.PhaseDeg {
+		phase[i] = v + shift
+	}
+
 	// Finite pieces of both curves.
 	magPieces := finitePieces(w, resp.MagnitudeDB)
-	phPieces := finitePieces(w, resp.PhaseDeg)
+	phPieces := finitePieces(w, phase)
 	if len(magPieces) == 0 || len(phPieces) == 0 {
 		return nil, fmt.Errorf("%w: no finite magnitude or phase samples", ErrNoData)
 	}
@@ -124,16 +140,18 @@ func FrequencyResponse(resp margins.Response, m *margins.Result, set *FrequencyS
 				continue
 			}
 			lm := -pc.GainFactorDB // |L| in dB at the crossover
-			ref := oddMultiple180(interpLog(w, resp.PhaseDeg, wc))
+			ref := oddMultiple180(interpLog(w, phase, wc))
 			for _, p := range []*plot.Plot{mag, ph} {
 				p.Add(&vLine{X: wc, LineStyle: guide})
 			}
-			mag.Add(&segment{X0: wc, Y0: lm, X1: wc, Y1: 0, LineStyle: draw.LineStyle{Color: Vermillion, Width: vg.Points(1)}, Heads: vg.Points(5)})
 			mk, _ := NewMarks([]float64{wc}, []float64{ref})
 			mk.GlyphStyle = draw.GlyphStyle{Color: Vermillion, Radius: vg.Points(3), Shape: dotGlyph{}}
 			ph.Add(mk)
-			magAvoid.addCurve([]float64{wc, wc}, []float64{lm, 0})
+			// The distance to 0 dB is drawn only for the crossovers that set
+			// a gain margin; the others are marked on the phase.
 			if label := decisiveCrossover(m, pc); label != "" {
+				mag.Add(&segment{X0: wc, Y0: lm, X1: wc, Y1: 0, LineStyle: draw.LineStyle{Color: Vermillion, Width: vg.Points(1)}, Heads: vg.Points(5)})
+				magAvoid.addCurve([]float64{wc, wc}, []float64{lm, 0})
 				magNotes = append(magNotes, note{X: wc, Y: lm / 2, Text: label, Color: Vermillion})
 			}
 			phAvoid.addPoint(wc, ref)
@@ -145,7 +163,7 @@ func FrequencyResponse(resp margins.Response, m *margins.Result, set *FrequencyS
 			if !(wc >= wmin && wc <= wmax) || !finite(gc.PhaseMarginDeg) {
 				continue
 			}
-			phase := interpLog(w, resp.PhaseDeg, wc)
+			phase := interpLog(w, phase, wc)
 			ref := oddMultiple180(phase - gc.PhaseMarginDeg)
 			for _, p := range []*plot.Plot{mag, ph} {
 				p.Add(&vLine{X: wc, LineStyle: guide})

@@ -2,6 +2,7 @@ package chart
 
 import (
 	"math"
+	"sort"
 )
 
 // planeView returns axis limits for a complex plane that show every key
@@ -60,4 +61,46 @@ func niceCeil(x float64) float64 {
 		}
 	}
 	return 10 * mag
+}
+
+// focusGapRatio is the ratio of moduli that separates a group of key
+// points from the next: points eight times farther from the origin than
+// the group below them are of another scale (a Padé approximation of dead
+// time, a fast sensor pole) and would shrink the region that decides
+// stability to a few pixels. Common practice of plotting; the figure
+// says how many points lie outside the view.
+const focusGapRatio = 8
+
+// focus returns the key points of the lowest group of moduli that still
+// holds every point of must, and the number of key points left out. Points
+// at the origin always stay. With no gap wider than focusGapRatio all
+// points stay.
+func focus(key, must []complex128) (kept []complex128, left int) {
+	type pt struct {
+		z   complex128
+		mod float64
+	}
+	var pts []pt
+	for _, z := range key {
+		pts = append(pts, pt{z, cmplxAbs(z)})
+	}
+	sort.Slice(pts, func(i, j int) bool { return pts[i].mod < pts[j].mod })
+	need := 0.0
+	for _, z := range must {
+		need = math.Max(need, cmplxAbs(z))
+	}
+	cut := len(pts)
+	for i := 1; i < len(pts); i++ {
+		lo, hi := pts[i-1].mod, pts[i].mod
+		if lo > 0 && hi > focusGapRatio*lo && lo >= need && i >= 2 {
+			cut = i
+			break
+		}
+	}
+	for i, p := range pts {
+		if i < cut {
+			kept = append(kept, p.z)
+		}
+	}
+	return kept, len(pts) - cut
 }

@@ -110,7 +110,11 @@ func Nyquist(n margins.Nyquist, m *margins.Result, set *NyquistSettings) (*Figur
 			// Only the crossovers that set a margin are named; the others
 			// are marked.
 			if label := decisiveCrossover(m, pc); label != "" {
-				key = append(key, complex(x, 0))
+				if math.Abs(x) <= 5 {
+					// Frame it unless it is far out (a gain margin below
+					// −14 dB is written under the figure instead).
+					key = append(key, complex(x, 0))
+				}
 				notes = append(notes, note{X: x, Y: 0, Text: label, Color: Vermillion})
 			}
 		}

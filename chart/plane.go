@@ -40,6 +40,8 @@ type planeSpec struct {
 	freqs       []float64
 	autoGrid    bool
 	key         []keyEntry
+	mustSee     []complex128 // points the automatic view must show
+	window      *Window      // fixed view; nil = automatic
 }
 
 // Style constants of complex-plane figures.
@@ -81,7 +83,18 @@ func (s *planeSpec) figure() (*Figure, error) {
 			key = append(key, b...)
 		}
 	}
+	left := 0
+	if !s.discrete {
+		key, left = focus(key, s.mustSee)
+	}
 	xmin, xmax, ymin, ymax := planeView(key, s.discrete)
+	if w := s.window; w != nil {
+		xmin, xmax, ymin, ymax = w.RealMin, w.RealMax, w.ImagMin, w.ImagMax
+		left = 0
+	}
+	if left > 0 && s.key != nil {
+		s.key = append(s.key, keyEntry{Text: fmt.Sprintf("%d far points lie outside this view", left)})
+	}
 
 	avoid := &obstacles{}
 	// Stable region and its boundary.

@@ -30,6 +30,17 @@ type PlaneSettings struct {
 	Grid bool
 	// HideKey leaves out the box that explains the symbols.
 	HideKey bool
+	// Window fixes the visible part of the plane. If nil, the view is
+	// chosen from the points that matter (see the package documentation);
+	// it is then widened on one axis so that both axes have the same scale.
+	Window *Window
+}
+
+// Window is a rectangle of the complex plane.
+type Window struct {
+	// RealMin, RealMax, ImagMin and ImagMax bound the rectangle; each
+	// must be finite with RealMin < RealMax and ImagMin < ImagMax.
+	RealMin, RealMax, ImagMin, ImagMax float64
 }
 
 func (s *PlaneSettings) check() error {
@@ -42,6 +53,12 @@ func (s *PlaneSettings) check() error {
 	for i, z := range s.DampingRatios {
 		if !(z > 0 && z < 1) {
 			return fmt.Errorf("%w: DampingRatios[%d] = %g, want a value in (0, 1)", ErrSettings, i, z)
+		}
+	}
+	if w := s.Window; w != nil {
+		if !finite(w.RealMin) || !finite(w.RealMax) || !finite(w.ImagMin) || !finite(w.ImagMax) ||
+			!(w.RealMin < w.RealMax) || !(w.ImagMin < w.ImagMax) {
+			return fmt.Errorf("%w: Window %+v, want finite bounds with min < max", ErrSettings, *w)
 		}
 	}
 	for i, w := range s.NaturalFrequenciesRadPerSec {
@@ -116,6 +133,7 @@ func (s *planeSpec) applySettings(set *PlaneSettings) {
 	s.dampings = set.DampingRatios
 	s.freqs = set.NaturalFrequenciesRadPerSec
 	s.autoGrid = set.Grid
+	s.window = set.Window
 }
 
 func (s *planeSpec) keyHidden(set *PlaneSettings) bool { return set != nil && set.HideKey }

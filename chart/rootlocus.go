@@ -136,6 +136,17 @@ func RootLocus(l locus.Locus, set *LocusSettings) (*Figure, error) {
 		}
 		spec.breaks = append(spec.breaks, valuedPoint{At: bp.Point, Label: label})
 	}
+	// The first crossing (smallest value) decides the stable range: the
+	// automatic view keeps it.
+	first := -1
+	for i, c := range a.AxisCrossings {
+		if first < 0 || math.Abs(c.Value) < math.Abs(a.AxisCrossings[first].Value) {
+			first = i
+		}
+	}
+	if first >= 0 {
+		spec.mustSee = append(spec.mustSee, a.AxisCrossings[first].Point)
+	}
 	for _, c := range a.AxisCrossings {
 		label := ""
 		if !hide {
@@ -179,7 +190,13 @@ func RootLocus(l locus.Locus, set *LocusSettings) (*Figure, error) {
 		spec.key = append(spec.key, spec.stableKey())
 		spec.key = append(spec.key, keyEntry{Text: stableWords(name, a.StableIntervals, a.Range)})
 	}
-	return spec.figure()
+	f, err := spec.figure()
+	if err != nil {
+		return nil, err
+	}
+	// Approximations and special situations recorded by the analysis.
+	f.Notes = append(f.Notes, a.Notes...)
+	return f, nil
 }
 
 // stableWords states the stable values of the variable in words.
