@@ -105,7 +105,9 @@ func differingPixels(a, b image.Image, delta float64) (int, error) {
 
 type errSize struct{ got, want image.Rectangle }
 
-func (e errSize) Error() string { return "image sizes differ: " + e.got.String() + " and " + e.want.String() }
+func (e errSize) Error() string {
+	return "image sizes differ: " + e.got.String() + " and " + e.want.String()
+}
 
 // yiqDistance is the weighted squared distance of two colours in the
 // YIQ space, on 8-bit channels (Kotsarenko and Ramos 2010).
