@@ -62,7 +62,9 @@ func analyze(m *loopModel, prog *progress, plots bool) (*report, []figure) {
 	}
 	rep.Description = lf.Description
 	rep.Loop = loopText{Controller: lf.Controller, Plant: lf.Plant, Sensor: lf.Sensor, OpenLoop: m.open.String(), Gain: number(m.gain), SampleTimeSec: number(m.open.SampleTimeSec()), DelaySec: number(m.open.DelaySec())}
+	rep.Loop.at = "k = " + g(number(m.gain))
 	if p := lf.Parameter; p != nil {
+		rep.Loop.at += fmt.Sprintf(", %s = %s", p.Name, g(number(p.Value)))
 		s := fmt.Sprintf("%s = %s, locus over %s", p.Name, g(number(p.Value)), intervalText(interval{number(p.Range[0]), number(p.Range[1])}))
 		rep.Loop.Parameter = &s
 	}
@@ -417,6 +419,6 @@ func (a *analysis) marginsStage() {
 	}
 	a.rep.ClosedLoop.Stable = &stable
 	if !stable {
-		a.warn("the closed loop is unstable at k = %s: the margins describe an unstable loop", g(number(a.m.gain)))
+		a.warn("the closed loop is unstable at %s: the margins describe an unstable loop", a.rep.Loop.at)
 	}
 }

@@ -75,6 +75,9 @@ type loopText struct {
 	SampleTimeSec number  `json:"sample_time_sec"`
 	DelaySec      number  `json:"delay_sec"`
 	Parameter     *string `json:"parameter,omitempty"`
+	// at is "k = 0.1" or "k = 0.1, Ki = 4": where margins and responses
+	// are evaluated (for headings; not written to JSON).
+	at string
 }
 
 type openLoopSection struct {

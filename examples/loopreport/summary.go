@@ -104,7 +104,7 @@ func sections(r *report) []section {
 	out = append(out, ls)
 
 	mg := r.Margins
-	ms := section{title: fmt.Sprintf("Margins at k = %s", g(r.Loop.Gain))}
+	ms := section{title: "Margins at " + r.Loop.at}
 	gm := g(mg.GainMargin)
 	if finite(float64(mg.GainMargin)) {
 		gm = fmt.Sprintf("%s (gain factor %s) at %s", gUnit(mg.GainMarginDB, "dB"), g(mg.GainMargin), gUnit(mg.PhaseCrossoverRadPerSec, "rad/s"))
@@ -142,7 +142,7 @@ func sections(r *report) []section {
 	out = append(out, ms)
 
 	st := r.Step
-	ss := section{title: "Step response from reference to output"}
+	ss := section{title: "Step response from reference to output at " + r.Loop.at}
 	if math.IsNaN(float64(st.FinalValue)) {
 		ss.rows = append(ss.rows, row{"not available", "see the warnings"})
 	} else {
@@ -158,7 +158,7 @@ func sections(r *report) []section {
 	out = append(out, ss)
 
 	e := r.SteadyState
-	es := section{title: "Steady-state errors (unit inputs)"}
+	es := section{title: "Steady-state errors (unit inputs) at " + r.Loop.at}
 	if e.SystemType == nil {
 		es.rows = append(es.rows, row{"not available", "see the warnings"})
 		out = append(out, es)
