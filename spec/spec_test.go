@@ -295,3 +295,19 @@ func TestDiscreteLoop(t *testing.T) {
 		t.Errorf("overshoot %+v", rep.Results[2])
 	}
 }
+
+// TestConcurrentChecks runs Check from several goroutines on shared
+// inputs (meaningful under go test -race) and compares with a serial run.
+func TestConcurrentChecks(t *testing.T) {
+	req := spec.Requirements{spec.MinPhaseMarginDeg(45), spec.MaxOvershootPct(20), spec.MinDampingRatio(0.4)}
+	want := spec.Check(secondOrder, req).String()
+	done := make(chan string)
+	for range 4 {
+		go func() { done <- spec.Check(secondOrder, req).String() }()
+	}
+	for range 4 {
+		if got := <-done; got != want {
+			t.Errorf("concurrent result differs:\n%s\nwant\n%s", got, want)
+		}
+	}
+}
