@@ -53,9 +53,26 @@
 // is monotone between the roots of a third polynomial (its stationary
 // points), so each crossing is bracketed and refined by Brent's method
 // (Brent 1973). Ms, Mt and the bandwidth are roots of polynomials as well
-// for rational loops. Closed-loop stability is read from the roots of
-// den + num for rational loops and from the Nyquist criterion (Nyquist
-// 1932) with dead time, counted exactly from the phase crossovers.
+// for rational loops. Positive real roots are counted first by Descartes'
+// rule of signs: a single sign change gives the single root by bracketing,
+// otherwise the eigenvalues of the companion matrix give them all.
+// Closed-loop stability of rational loops is read from the Routh array of
+// den + num (Routh 1877), whose every entry carries a running rounding-error
+// bound, or from the roots of den + num when the array is inconclusive (a
+// root near the axis) and for discrete loops; with dead time it follows
+// from the Nyquist criterion (Nyquist 1932), counted exactly from the phase
+// crossovers. Open-loop unstable poles are counted the same way.
+//
+// # Accuracy and speed
+//
+// On a family of loops of orders 2–24 (testdata/refs.json, mpmath at 50
+// digits) every crossover frequency, gain factor and margin agrees with the
+// reference to 1e-12 relative or better (measured: 2.4e-16 in frequency,
+// 7e-15 dB, 2e-14°), where a 10⁴-point logarithmic grid with linear
+// interpolation is off by up to 1.9e-7 relative, 9e-7 dB and 9e-6°. Compute
+// is about 6–1700× faster than that grid (order 24 to order 2), and
+// 65–4600× with Settings.SkipPeaks (see bench_test.go and
+// testdata/benchmarks.md).
 //
 // # Invariants
 //

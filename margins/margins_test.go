@@ -695,3 +695,39 @@ func TestDefaultOmegaMax(t *testing.T) {
 		t.Errorf("C11: gain margins %v, %v", res.GainMargin, res.LowerGainMargin)
 	}
 }
+
+// TestDiscreteIntegratorClosedForm checks L(z) = k/(z − 1) with T = 0.01 s:
+// L(e^(jθ)) = k·e^(−jθ/2)/(2j·sin(θ/2)), so the phase is −90° − θ/2 and
+// reaches −180° only at the Nyquist frequency θ = π, where L = −k/2: gain
+// margin 2/k at π/T (the closed loop z − 1 + k is stable iff 0 < k < 2).
+// |L| = 1 at θ = 2·asin(k/2), with phase margin 90° − θ/2 in degrees.
+func TestDiscreteIntegratorClosedForm(t *testing.T) {
+	const T = 0.01
+	for _, k := range []float64{0.1, 0.5, 1, 1.5, 2.5} {
+		g, err := tf.NewDiscrete([]float64{k}, []float64{1, -1}, T)
+		if err != nil {
+			t.Fatal(err)
+		}
+		res, err := Compute(g, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(res.PhaseCrossovers) != 1 || !closeRel(res.PhaseCrossovers[0].FrequencyRadPerSec, math.Pi/T, 1e-15) ||
+			!closeRel(res.PhaseCrossovers[0].GainFactor, 2/k, 1e-14) {
+			t.Errorf("k=%v: phase crossovers %+v, want 2/k at π/T", k, res.PhaseCrossovers)
+		}
+		if stable := k < 2; res.ClosedLoopStable != stable {
+			t.Errorf("k=%v: stable=%v, want %v", k, res.ClosedLoopStable, stable)
+		}
+		if k < 2 {
+			theta := 2 * math.Asin(k/2)
+			if len(res.GainCrossovers) != 1 || !closeRel(res.GainCrossoverRadPerSec, theta/T, 1e-13) ||
+				math.Abs(res.PhaseMarginDeg-(90-theta/2*180/math.Pi)) > 1e-11 {
+				t.Errorf("k=%v: gain crossover %v PM %v, want %v, %v", k, res.GainCrossoverRadPerSec, res.PhaseMarginDeg, theta/T, 90-theta/2*180/math.Pi)
+			}
+			if !closeRel(res.GainMargin, 2/k, 1e-14) || !closeRel(res.PhaseCrossoverRadPerSec, math.Pi/T, 1e-15) {
+				t.Errorf("k=%v: gain margin %v at %v", k, res.GainMargin, res.PhaseCrossoverRadPerSec)
+			}
+		}
+	}
+}
