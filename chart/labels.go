@@ -320,11 +320,6 @@ type textLayer struct {
 // Plot implements plot.Plotter.
 func (t *textLayer) Plot(dc draw.Canvas, p *plot.Plot) {
 	var lay layout
-	for _, n := range t.Notes {
-		// Reserve label space first so that corner boxes do not take it,
-		// then draw the boxes, then the labels on top.
-		_ = n
-	}
 	for _, b := range t.Boxes {
 		b.plot(dc, p, &lay)
 	}
