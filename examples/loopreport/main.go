@@ -95,6 +95,14 @@ and interlocks in place.
 func run(args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet("loopreport", flag.ContinueOnError)
 	fs.SetOutput(stderr)
+	for _, a := range args {
+		if a == "--" {
+			break
+		}
+		if a == "-h" || a == "-help" || a == "--h" || a == "--help" {
+			fs.SetOutput(stdout) // asked for: the documentation is the output
+		}
+	}
 	loopPath := fs.String("loop", "", "read the loop from `FILE` (JSON, format below) instead of using the demonstration loop")
 	asJSON := fs.Bool("json", false, "print the full analysis as JSON on stdout instead of the summary; the report folder is then written only when -out is given")
 	outDir := fs.String("out", "loopreport-out", "write the report (plots, summary.md, index.html) into `DIR`; an empty DIR writes no report")

@@ -122,7 +122,10 @@ func TestHelpDocumentsEveryFlagAndKey(t *testing.T) {
 	if code := run([]string{"-h"}, &out, &errb); code != 0 {
 		t.Fatalf("-h: exit %d", code)
 	}
-	help := out.String() + errb.String()
+	if errb.Len() != 0 {
+		t.Errorf("-h wrote to stderr: %q", errb.String())
+	}
+	help := out.String()
 	want := []string{"-loop", "-json", "-out", "-quiet", "-print-demo"}
 	want = append(want, topKeys...)
 	want = append(want, requirementKeys...)
