@@ -216,11 +216,26 @@ func (p *problem) polishCrossing(t float64) (float64, float64, bool) {
 }
 
 // stable reports whether every root of a + k·b has Re < 0 (discrete:
-// |z| < 1). A polynomial that vanishes identically is not stable.
+// |z| < 1). It uses the Routh array (Routh 1877; Hurwitz 1895) on a + k·b,
+// or in discrete time on its bilinear transform (the unit disc maps to the
+// left half plane), and falls back to the closed-loop roots when a pivot
+// of the array is within rounding of zero (the singular cases of the
+// array). A polynomial that vanishes identically is not stable.
 func (p *problem) stable(k float64) (bool, error) {
 	c := p.charPoly(k)
 	if c.IsZero() {
 		return false, nil
+	}
+	h := c
+	if p.discrete {
+		h = bilinear(c, c.Degree())
+		if h.Degree() < c.Degree() {
+			// A root at z = −1 (on the circle): not stable.
+			return false, nil
+		}
+	}
+	if st, ok := routhStable(h); ok {
+		return st, nil
 	}
 	rs, err := c.Roots()
 	if err != nil {
@@ -236,6 +251,67 @@ func (p *problem) stable(k float64) (bool, error) {
 		}
 	}
 	return true, nil
+}
+
+// routhStable applies the Routh array to q and reports whether every root
+// has a negative real part; ok is false when a pivot is within 1e-10 of
+// the size of its row (then the array is not trustworthy in floating
+// point and the caller uses roots).
+func routhStable(q poly.Poly) (stable, ok bool) {
+	n := q.Degree()
+	if n <= 0 {
+		return true, true
+	}
+	c := q.Coeffs() // highest power first
+	if c[0] < 0 {
+		for i := range c {
+			c[i] = -c[i]
+		}
+	}
+	w := n/2 + 1
+	r0 := make([]float64, w+1)
+	r1 := make([]float64, w+1)
+	for i := 0; i <= n; i++ {
+		if i%2 == 0 {
+			r0[i/2] = c[i]
+		} else {
+			r1[i/2] = c[i]
+		}
+	}
+	if !(r0[0] > 0) {
+		return false, true
+	}
+	for i := 1; i <= n; i++ {
+		// r1 is row i of the array; its first entry is the pivot.
+		size := 0.0
+		for _, v := range r1 {
+			size = math.Max(size, math.Abs(v))
+		}
+		if size == 0 || math.Abs(r1[0]) <= 1e-10*size {
+			return false, false
+		}
+		if r1[0] < 0 {
+			return false, true
+		}
+		if i == n {
+			break
+		}
+		next := make([]float64, w+1)
+		for j := 0; j < w; j++ {
+			next[j] = (r1[0]*r0[j+1] - r0[0]*r1[j+1]) / r1[0]
+		}
+		r0, r1 = r1, next
+	}
+	return true, true
+}
+
+func isZeroRow(r []float64) bool {
+	for _, v := range r {
+		if v != 0 {
+			return false
+		}
+	}
+	return true
 }
 
 // stableIntervals splits the open range at the critical values — crossing

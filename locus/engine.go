@@ -131,7 +131,7 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 			h = tEnd - tc
 		}
 		tn := tc + h
-		kn, _ := km(tn)
+		kn, dkn := km(tn)
 		ok := true
 		for i := range n {
 			if !active[i] {
@@ -150,12 +150,17 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 					pred[i] += complex(h*h/2, 0) * acc[i]
 				}
 			}
-			c, good := t.newton(pred[i], kn)
+			c, df, bv, good := t.newton(pred[i], kn)
 			if !good {
 				ok = false
 				break
 			}
 			corr[i] = c
+			if df != 0 {
+				ntan[i], ntanOK[i] = -bv/df*complex(dkn, 0), true
+			} else {
+				ntan[i], ntanOK[i] = 0, false
+			}
 		}
 		ratio := 0.0
 		if ok {
@@ -222,27 +227,43 @@ func (t *tracer) tangent(s complex128, km kMap, tt float64) (complex128, bool) {
 	return v, true
 }
 
-// newton corrects s to a root of a + k·b. It reports failure when the
-// iteration does not converge in 12 steps.
-func (t *tracer) newton(s complex128, k float64) (complex128, bool) {
-	tol := 1e-13 * math.Max(cabs(s), 1e-6*t.scale)
-	for range 12 {
+// newton corrects s to a root of a + k·b by Newton's method. It stops when
+// the correction falls below 1e-12 relative, or when it stagnates at the
+// rounding level (ill-conditioned roots) with a relative residual below
+// 1e-11; it reports failure otherwise. It also returns ∂P/∂s and b at the
+// last iterate, from which the caller forms the tangent without another
+// evaluation.
+func (t *tracer) newton(s complex128, k float64) (complex128, complex128, complex128, bool) {
+	p := t.p
+	tol := 1e-12 * math.Max(cabs(s), 1e-6*t.scale)
+	kc := complex(k, 0)
+	prev := math.Inf(1)
+	for it := range 12 {
 		t.stats.NewtonIterations++
-		f, df := t.p.eval(s, k)
+		av, ad := p.a.EvalWithDerivative(s)
+		bv, bd := p.b.EvalWithDerivative(s)
+		f, df := av+kc*bv, ad+kc*bd
 		if df == 0 {
-			return s, false
+			return s, df, bv, false
 		}
 		d := f / df
 		s -= d
 		if cmplx.IsNaN(s) || cmplx.IsInf(s) {
-			return s, false
+			return s, df, bv, false
 		}
-		if cabs(d) <= tol {
-			return s, true
+		ad2 := cabs(d)
+		if ad2 <= tol {
+			return s, df, bv, true
 		}
+		if it >= 1 && ad2 > 0.5*prev && ad2 <= 1e-6*t.scale {
+			// Stagnation: accept if the residual is at the rounding level.
+			f, _ := p.eval(s, k)
+			return s, df, bv, cabs(f) <= 1e-11*p.magnitude(s, k)
+		}
+		prev = ad2
 	}
-	f, _ := t.p.eval(s, k)
-	return s, cabs(f) <= 1e-12*t.p.magnitude(s, k)
+	f, df := p.eval(s, k)
+	return s, df, p.b.EvalComplex(s), cabs(f) <= 1e-11*p.magnitude(s, k)
 }
 
 // checkStep accepts or rejects a step: every correction must be small
@@ -276,7 +297,6 @@ func (t *tracer) checkStep(s, pred, corr []complex128, active []bool, tan []comp
 		if ch > lim {
 			return ratio, false
 		}
-		ntan[i], ntanOK[i] = t.tangent(corr[i], km, tn)
 		if tanOK[i] && ntanOK[i] && ch > 1e-3*lim && tan[i] != 0 && ntan[i] != 0 {
 			a := math.Abs(cmplx.Phase(ntan[i] / tan[i]))
 			ratio = math.Max(ratio, a/t.r.angleTolRad)

@@ -68,8 +68,10 @@ func newProblemPolys(a, b poly.Poly, discrete bool, ts float64, r resolved, note
 	if p.zeros, err = rootsMult(b); err != nil {
 		return nil, fmt.Errorf("locus: zeros: %w", err)
 	}
-	if common, err := poly.CommonRoots(a, b, 1e-9); err == nil && len(common) > 0 {
-		p.notes = append(p.notes, fmt.Sprintf("numerator and denominator share %d root(s) (e.g. %v): they are closed-loop poles for every %s", len(common), fmtC(common[0]), r.variable))
+	for _, z := range p.zeros {
+		if cabs(a.EvalComplex(z.Value)) <= 1e-9*absEval(a, cabs(z.Value)) {
+			p.notes = append(p.notes, fmt.Sprintf("numerator and denominator share the root %v: it is a closed-loop pole for every %s", fmtC(z.Value), r.variable))
+		}
 	}
 	if p.m > p.n {
 		p.notes = append(p.notes, fmt.Sprintf("b has higher degree than a (%d > %d): %d branch(es) come from infinity as the %s approaches 0", p.m, p.n, p.m-p.n, r.variable))

@@ -4,10 +4,12 @@ import (
 	"errors"
 	"math"
 	"math/cmplx"
+	"math/rand/v2"
 	"strings"
 	"testing"
 
 	"github.com/loopwise/loopwise/internal/testutil"
+	"github.com/loopwise/loopwise/poly"
 	"github.com/loopwise/loopwise/tf"
 )
 
@@ -200,5 +202,42 @@ func TestDeadTimeNote(t *testing.T) {
 	}
 	if an.Branches != 3 || an.Poles[0].Value != 0 || an.Poles[0].Multiplicity != 2 {
 		t.Errorf("discrete delay: %+v", an.Poles)
+	}
+}
+
+// TestRouthAgainstRoots compares the Routh test with the roots of random
+// polynomials (fixed seed): both must agree whenever the Routh array is
+// trusted and no root lies within 1e-6 of the axis.
+func TestRouthAgainstRoots(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 1))
+	agree := 0
+	for range 2000 {
+		n := 1 + rng.IntN(9)
+		c := make([]float64, n+1)
+		c[0] = 1
+		for i := 1; i <= n; i++ {
+			c[i] = rng.Float64()*4 - 0.5
+		}
+		q := poly.MustNew(c...)
+		rs, err := q.Roots()
+		if err != nil {
+			t.Fatal(err)
+		}
+		want, near := true, false
+		for _, r := range rs {
+			want = want && real(r) < 0
+			near = near || math.Abs(real(r)) < 1e-6
+		}
+		got, ok := routhStable(q)
+		if !ok || near {
+			continue
+		}
+		agree++
+		if got != want {
+			t.Errorf("%v: Routh %v, roots %v (%v)", q, got, want, rs)
+		}
+	}
+	if agree < 1900 {
+		t.Errorf("only %d of 2000 decided", agree)
 	}
 }

@@ -157,7 +157,7 @@ func TestTraceProperties(t *testing.T) {
 			if testing.Short() {
 				return
 			}
-			swaps, checked := countSwaps(p, an, branchesOf(loc), scale)
+			swaps, checked, _ := countSwaps(p, an, branchesOf(loc), scale)
 			if swaps != 0 {
 				t.Errorf("%d of %d steps jump between branches", swaps, checked)
 			}
