@@ -207,6 +207,11 @@ func (lp *loop) delayPhaseCrossovers(wmax float64) []crossing {
 			level := -math.Pi + 2*math.Pi*k
 			h := func(w float64) float64 { return lp.phase(w) - level }
 			fa, fb := pa-level, pb-level
+			if a == 0 && math.Abs(fa) <= 1e-9 {
+				// L(0) is real and negative: the crossover at ω = 0,
+				// listed by endpointCrossings.
+				continue
+			}
 			if fa == 0 || fb == 0 || (fa > 0) == (fb > 0) {
 				continue
 			}

@@ -731,3 +731,58 @@ func TestDiscreteIntegratorClosedForm(t *testing.T) {
 		}
 	}
 }
+
+// TestNyquistWithDeadTimeAgainstPade checks the Nyquist count with dead
+// time against an independent route: the closed-loop roots of the loop
+// with its dead time replaced by a Padé approximant of order 10 (tf.Pade).
+// The approximant is accurate (phase error below 1e-6 rad) for ωτ up to
+// about 4, so only loops whose last gain crossover satisfies ωτ < 3 are
+// compared, and loops with a closed-loop root of the approximation within
+// 1e-3 of the imaginary axis are skipped (fixed seed).
+func TestNyquistWithDeadTimeAgainstPade(t *testing.T) {
+	r := rand.New(rand.NewPCG(1, 1))
+	checked := 0
+	for range 300 {
+		g := randomLoop(r, 1+r.IntN(5))
+		if !g.IsStrictlyProper() {
+			continue
+		}
+		tau := 0.01 + r.Float64()
+		gd, err := g.WithDelay(tau)
+		if err != nil {
+			t.Fatal(err)
+		}
+		res, err := Compute(gd, &Settings{SkipPeaks: true})
+		if err != nil {
+			t.Errorf("%v: %v", gd, err)
+			continue
+		}
+		if n := len(res.GainCrossovers); n > 0 && res.GainCrossovers[n-1].FrequencyRadPerSec*tau > 3 {
+			continue
+		}
+		pade, err := gd.Pade(10)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want, near := 0, false
+		for _, z := range closedLoopRoots(t, pade) {
+			if real(z) >= 0 {
+				want++
+			}
+			if math.Abs(real(z)) < 1e-3 {
+				near = true
+			}
+		}
+		if near {
+			continue
+		}
+		if res.ClosedLoopUnstablePoles != want {
+			t.Errorf("%v: Nyquist Z = %d, Padé closed loop gives %d", gd, res.ClosedLoopUnstablePoles, want)
+		}
+		checked++
+	}
+	if checked < 100 {
+		t.Errorf("only %d loops checked", checked)
+	}
+	t.Logf("%d loops checked", checked)
+}

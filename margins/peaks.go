@@ -78,12 +78,10 @@ func (lp *loop) rationalBandwidth() float64 {
 	t0sq := p.Coef(0) / q.Coef(0)
 	target := 0.5 * math.Log(t0sq/2)
 	f := func(w float64) (float64, float64) {
-		lnL, dlnL := lp.logValue(w)
-		l := cmplx.Exp(lnL)
+		_, dlnL := lp.logValue(w)
 		n, d, e := lp.parts(w)
-		_ = l
 		t := n * e / (d + n*e)
-		dlnT := dlnL * d / (d + n*e)
+		dlnT := dlnL * d / (d + n*e) // d ln T/dω = (d ln L/dω)/(1 + L)
 		return math.Log(cmplx.Abs(t)) - target, real(dlnT)
 	}
 	for _, x := range positiveRoots(p.Scale(2).Sub(q.Scale(t0sq))) {

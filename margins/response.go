@@ -48,7 +48,9 @@ type GridSettings struct {
 	// MaxMagnitudeStepDB bounds the magnitude change between neighbouring
 	// points, in dB, > 0. If zero, defaults to 1.
 	MaxMagnitudeStepDB float64
-	// MaxPoints caps the number of points, ≥ 10. If zero, defaults to 4000.
+	// MaxPoints caps the number of points the refinement may reach, ≥ 10
+	// (a starting grid that is already larger is returned as it is). If
+	// zero, defaults to 4000.
 	MaxPoints int
 }
 
