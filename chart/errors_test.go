@@ -40,9 +40,18 @@ func TestBadInput(t *testing.T) {
 			_, err := chart.PoleZero(servoLoop(), &chart.PlaneSettings{Window: &chart.Window{RealMin: 1, RealMax: 1, ImagMin: -1, ImagMax: 1}})
 			return err
 		}, chart.ErrSettings},
-		{"negative width", func() error { _, err := chart.PoleZero(servoLoop(), &chart.PlaneSettings{Size: chart.Size{WidthCm: -3}}); return err }, chart.ErrSize},
-		{"huge height", func() error { _, err := chart.PoleZero(servoLoop(), &chart.PlaneSettings{Size: chart.Size{HeightCm: 1e6}}); return err }, chart.ErrSize},
-		{"DPI out of range", func() error { _, err := chart.PoleZero(servoLoop(), &chart.PlaneSettings{Size: chart.Size{DPI: 5000}}); return err }, chart.ErrSize},
+		{"negative width", func() error {
+			_, err := chart.PoleZero(servoLoop(), &chart.PlaneSettings{Size: chart.Size{WidthCm: -3}})
+			return err
+		}, chart.ErrSize},
+		{"huge height", func() error {
+			_, err := chart.PoleZero(servoLoop(), &chart.PlaneSettings{Size: chart.Size{HeightCm: 1e6}})
+			return err
+		}, chart.ErrSize},
+		{"DPI out of range", func() error {
+			_, err := chart.PoleZero(servoLoop(), &chart.PlaneSettings{Size: chart.Size{DPI: 5000}})
+			return err
+		}, chart.ErrSize},
 		{"empty locus", func() error { _, err := chart.RootLocus(locus.Locus{}, nil); return err }, chart.ErrNoData},
 		{"NaN on a branch", func() error {
 			l := locus.Locus{Branches: []locus.Branch{{Points: []locus.Point{{Value: 0, S: -1}, {Value: 1, S: complex(nan, 0)}}}}}
@@ -66,7 +75,10 @@ func TestBadInput(t *testing.T) {
 			_, err := chart.StepResponse(okResp, &response.Metrics{FinalValue: nan}, nil)
 			return err
 		}, chart.ErrNotFinite},
-		{"negative end time", func() error { _, err := chart.StepResponse(okResp, nil, &chart.StepSettings{EndTimeSec: -1}); return err }, chart.ErrSettings},
+		{"negative end time", func() error {
+			_, err := chart.StepResponse(okResp, nil, &chart.StepSettings{EndTimeSec: -1})
+			return err
+		}, chart.ErrSettings},
 		{"rise levels reversed", func() error {
 			_, err := chart.StepResponse(okResp, nil, &chart.StepSettings{Levels: &response.MetricSettings{RiseLowFraction: 0.9, RiseHighFraction: 0.1}})
 			return err
