@@ -110,7 +110,7 @@ func (a *analysis) plots() []figure {
 			if m.open.IsDiscrete() && a.rational.DelaySec() == 0 {
 				l = a.rational
 			}
-			return chart.PoleZero(l, &chart.PlaneSettings{Grid: true})
+			return chart.PoleZero(l, &chart.PlaneSettings{Grid: true, Title: "Pole–zero map of the open loop L"})
 		})
 	return figs
 }

@@ -130,7 +130,7 @@ func sections(r *report) []section {
 		ms.rows = append(ms.rows, row{"peak complementary sensitivity", fmt.Sprintf("%s %s", g(mg.PeakComplementarySensitivity), atFrequency(mg.PeakComplementarySensitivityRadPerS))})
 	}
 	if finite(float64(mg.BandwidthRadPerSec)) {
-		ms.rows = append(ms.rows, row{"closed-loop bandwidth", gUnit(mg.BandwidthRadPerSec, "rad/s")})
+		ms.rows = append(ms.rows, row{"bandwidth of L/(1 + L) (−3 dB)", gUnit(mg.BandwidthRadPerSec, "rad/s")})
 	}
 	ms.rows = append(ms.rows, row{"closed loop (Nyquist)", stableWord(mg.ClosedLoopStable)})
 	for _, c := range mg.GainCrossovers {
