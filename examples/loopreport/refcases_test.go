@@ -56,7 +56,7 @@ func TestReferenceLoci(t *testing.T) {
 				t.Fatal(err)
 			}
 			var want struct {
-				Centroid  refcases.Number     `json:"asymptote_centroid"`
+				Centroid  refcases.Number      `json:"asymptote_centroid"`
 				Intervals [][2]refcases.Number `json:"stable_K_intervals"`
 				Crossings []struct {
 					Omega refcases.Number `json:"omega"`
