@@ -37,7 +37,9 @@
 //     ω → ∞.
 //   - The closed loop is stable when every closed-loop pole has Re s < 0
 //     (discrete |z| < 1). Poles of L on the imaginary axis are avoided by
-//     an indentation to their right (they count as stable open-loop poles).
+//     an indentation to their right (they count as stable open-loop poles);
+//     a computed pole within 1e-13 of the axis, relative to its modulus, is
+//     taken to lie on it.
 //
 // "Does not exist" is NaN and "infinite" is +Inf, as documented on every
 // field.
