@@ -16,7 +16,8 @@ type Settings struct {
 	// crossovers of a continuous-time loop with dead time (which has
 	// infinitely many); those in [0, OmegaMaxRadPerSec] are listed and
 	// decide the gain margins. It is ignored for rational loops, whose
-	// crossovers are all found. Range: finite and ≥ 0.
+	// crossovers are all found. Range: finite and ≥ 0, and small enough that
+	// at most 10⁵ crossovers lie below it (about τ·ω/2π of them).
 	// If zero, defaults to max(10·Ω₀, Ω₀ + 4π/τ), where τ is the dead time
 	// and Ω₀ the largest of the gain crossover frequencies and the moduli of
 	// the poles and zeros (1/τ when there are none): beyond Ω₀ the phase
@@ -245,25 +246,28 @@ func Compute(loop tf.TF, set *Settings) (Result, error) {
 	if lo != nil {
 		cs = append(cs, *lo)
 	}
-	var crossFn func(wmax float64) []crossing
+	var crossFn func(wmax float64) ([]crossing, error)
 	if lp.tau == 0 {
 		rc, err := lp.rationalPhaseCrossovers()
 		if err != nil {
 			return Result{}, err
 		}
 		cs = append(cs, rc...)
-		crossFn = func(float64) []crossing { return rc }
+		crossFn = func(float64) ([]crossing, error) { return rc, nil }
 	} else {
 		wmax := s.OmegaMaxRadPerSec
 		if wmax == 0 {
 			wmax = lp.defaultOmegaMax(gains)
 		}
 		res.OmegaMaxRadPerSec = wmax
-		dc := lp.delayPhaseCrossovers(wmax)
+		dc, err := lp.delayPhaseCrossovers(wmax)
+		if err != nil {
+			return Result{}, err
+		}
 		cs = append(cs, dc...)
-		crossFn = func(we float64) []crossing {
+		crossFn = func(we float64) ([]crossing, error) {
 			if we <= wmax {
-				return dc
+				return dc, nil
 			}
 			return lp.delayPhaseCrossovers(we)
 		}

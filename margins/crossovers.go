@@ -167,7 +167,10 @@ func (lp *loop) phaseCriticalPoints() []float64 {
 // points of the phase and at poles on the imaginary axis; on each piece the
 // phase is monotone, the levels −π + 2πk between its end values are
 // bracketed and each is refined by Brent's method (Brent 1973).
-func (lp *loop) delayPhaseCrossovers(wmax float64) []crossing {
+//
+// It returns ErrBadSettings, before any refinement, when the interval holds
+// more than maxDelayCrossings crossovers.
+func (lp *loop) delayPhaseCrossovers(wmax float64) ([]crossing, error) {
 	cuts := []float64{0}
 	for _, w := range lp.phaseCriticalPoints() {
 		if w < wmax {
@@ -183,6 +186,12 @@ func (lp *loop) delayPhaseCrossovers(wmax float64) []crossing {
 	}
 	cuts = append(cuts, wmax)
 	cuts = sortUnique(cuts, 0)
+	// The phase falls by about τ·ω over [0, ω]; refuse searches that would
+	// list an unreasonable number of crossovers.
+	total := math.Abs(lp.phase(wmax)-lp.sumPhase(0))/(2*math.Pi) + float64(len(cuts))
+	if total > maxDelayCrossings {
+		return nil, fmt.Errorf("%w: OmegaMaxRadPerSec = %v rad/s spans about %.3g phase crossovers, more than %d", ErrBadSettings, wmax, total, maxDelayCrossings)
+	}
 	var out []crossing
 	for i := 0; i+1 < len(cuts); i++ {
 		a, b := cuts[i], cuts[i+1]
@@ -224,5 +233,9 @@ func (lp *loop) delayPhaseCrossovers(wmax float64) []crossing {
 			out = append(out, crossing{w: w, k: 1 / cmplx.Abs(l), slope: imag(d)})
 		}
 	}
-	return uniqueCrossings(out)
+	return uniqueCrossings(out), nil
 }
+
+// maxDelayCrossings bounds the number of phase crossovers a dead-time
+// search may list (it grows like τ·OmegaMaxRadPerSec/2π).
+const maxDelayCrossings = 100000

@@ -238,7 +238,7 @@ func TestNyquistAgreesWithClosedLoopPoles(t *testing.T) {
 		if lo, _ := lp.endpointCrossings(); lo != nil {
 			cs = append([]crossing{*lo}, cs...)
 		}
-		z, _, err := lp.encirclementCount(gains, func(float64) []crossing { return cs })
+		z, _, err := lp.encirclementCount(gains, func(float64) ([]crossing, error) { return cs, nil })
 		if err != nil {
 			t.Errorf("%v: %v", g, err)
 			continue
@@ -450,6 +450,11 @@ func TestBadInput(t *testing.T) {
 		{"1 + L(∞) = 0", func() error { _, err := Compute(illPosed, nil); return err }, ErrIllPosed},
 		{"fractional discrete delay", func() error { _, err := Compute(frac, nil); return err }, ErrUnsupported},
 		{"negative OmegaMax", func() error { _, err := Compute(ok, &Settings{OmegaMaxRadPerSec: -1}); return err }, ErrBadSettings},
+		{"OmegaMax with 10⁸ crossovers", func() error {
+			g, _ := ok.WithDelay(1)
+			_, err := Compute(g, &Settings{OmegaMaxRadPerSec: 1e9})
+			return err
+		}, ErrBadSettings},
 		{"NaN OmegaMax", func() error { _, err := Compute(ok, &Settings{OmegaMaxRadPerSec: math.NaN()}); return err }, ErrBadSettings},
 		{"NaN frequency", func() error { _, err := FrequencyResponse(ok, []float64{1, math.NaN()}); return err }, ErrNotFinite},
 		{"Inf frequency", func() error { _, err := FrequencyResponse(ok, []float64{math.Inf(1)}); return err }, ErrNotFinite},

@@ -29,7 +29,7 @@ import (
 // the path adds −Arg F(ω_e). Every phase crossover is found by the
 // guaranteed search, so the count is exact up to rounding; it is checked to
 // be within 10⁻⁶ of a whole number.
-func (lp *loop) encirclementCount(gains []float64, cross func(wmax float64) []crossing) (z, p int, err error) {
+func (lp *loop) encirclementCount(gains []float64, cross func(wmax float64) ([]crossing, error)) (z, p int, err error) {
 	p = lp.openUnstable
 	r0 := lp.openIntegrators
 	we := 1.0
@@ -39,7 +39,10 @@ func (lp *loop) encirclementCount(gains []float64, cross func(wmax float64) []cr
 	if lp.discrete() {
 		we = math.Min(we, lp.nyquist()*(1-1e-9))
 	}
-	cs := cross(we)
+	cs, err := cross(we)
+	if err != nil {
+		return 0, p, err
+	}
 	// G at ω = 0⁺.
 	argG0 := 0.0
 	if r0 == 0 {
