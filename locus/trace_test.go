@@ -6,9 +6,11 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"math/rand/v2"
 	"testing"
 
 	"github.com/loopwise/loopwise/internal/refcases"
+	"github.com/loopwise/loopwise/internal/testutil"
 	"github.com/loopwise/loopwise/tf"
 )
 
@@ -190,5 +192,99 @@ func TestTraceCancelAndProgress(t *testing.T) {
 	_, err = Trace(familyLoop(8), &Settings{MaxPoints: 50})
 	if !errors.Is(err, ErrTooManyPoints) {
 		t.Errorf("MaxPoints 50: err = %v", err)
+	}
+}
+
+// TestStableIntervalsAgainstRoots samples values of the range (fixed
+// seed: log-uniform over 12 decades of either sign in range, plus every
+// interval end × (1 ± 1e-6)) and compares "inside a stable interval" with
+// the closed-loop roots. Samples with a root within 1e-9 of the boundary
+// are skipped (undecidable in double precision).
+func TestStableIntervalsAgainstRoots(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 1))
+	for _, nl := range propertyLoops(t) {
+		t.Run(nl.name, func(t *testing.T) {
+			set := &Settings{Range: nl.rng}
+			an, err := Analyze(nl.loop, set)
+			if err != nil {
+				t.Fatal(err)
+			}
+			r, _ := resolve(set)
+			var ks []float64
+			for range 60 {
+				k := math.Pow(10, -6+12*rng.Float64())
+				if rng.IntN(2) == 0 {
+					k = -k
+				}
+				ks = append(ks, k)
+			}
+			for _, iv := range an.StableIntervals {
+				for _, e := range []float64{iv.Lo, iv.Hi} {
+					if !math.IsInf(e, 0) && e != 0 {
+						ks = append(ks, e*(1+1e-6), e*(1-1e-6))
+					}
+				}
+			}
+			p, _ := newProblem(nl.loop, r)
+			for _, k := range ks {
+				if !(r.rng.Min < k && k < r.rng.Max) {
+					continue
+				}
+				in := false
+				for _, iv := range an.StableIntervals {
+					in = in || (iv.Lo < k && k < iv.Hi)
+				}
+				rs, err := ClosedLoopPoles(nl.loop, k)
+				if err != nil {
+					t.Fatal(err)
+				}
+				st, near := true, false
+				for _, z := range rs {
+					m := real(z)
+					if p.discrete {
+						m = cmplx.Abs(z) - 1
+					}
+					st = st && m < 0
+					near = near || math.Abs(m) < 1e-9
+				}
+				if len(rs) < p.order {
+					near = true // a root at infinity (degree drop)
+				}
+				if !near && st != in {
+					t.Errorf("k = %v: roots say stable = %v, intervals %v say %v", k, st, an.StableIntervals, in)
+				}
+			}
+		})
+	}
+}
+
+// TestDepartureDirections checks that the traced branches leave every
+// complex or multiple pole along the departure angles of the analysis
+// (within 2°: the first traced point is at about 0.2 % of the scale, where
+// the curvature of the branch turns it by much less).
+func TestDepartureDirections(t *testing.T) {
+	for _, nl := range propertyLoops(t) {
+		if nl.rng.Min != 0 && !nl.rng.IsZero() {
+			continue
+		}
+		t.Run(nl.name, func(t *testing.T) {
+			loc, err := Trace(nl.loop, &Settings{Range: nl.rng})
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, d := range loc.Analysis.Departures {
+				best := 180.0
+				for _, br := range loc.Branches {
+					if len(br.Points) < 2 || br.Points[0].S != d.Point || br.Points[0].Value != 0 {
+						continue
+					}
+					dir := cmplx.Phase(br.Points[1].S-br.Points[0].S) * 180 / math.Pi
+					best = math.Min(best, testutil.AngleDiffDeg(dir, d.AngleDeg))
+				}
+				if best > 2 {
+					t.Errorf("no branch leaves %v at %v° (closest %v° off)", d.Point, d.AngleDeg, best)
+				}
+			}
+		})
 	}
 }
