@@ -108,6 +108,11 @@ func (t linearTicks) Ticks(min, max float64) []plot.Tick {
 	step := t.Step
 	if step <= 0 {
 		step = niceStep(min, max, 6)
+		// Long labels need more room: fewer ticks for six or more
+		// characters (about 0.55 em each).
+		if labelChars(min, max, step) >= 6 {
+			step = niceStep(min, max, 4)
+		}
 	}
 	if step <= 0 || (max-min)/step > 200 {
 		return nil
@@ -141,6 +146,23 @@ func (t linearTicks) Ticks(min, max float64) []plot.Tick {
 		ticks = append(ticks, tk)
 	}
 	return ticks
+}
+
+// labelChars is the length of the longest tick label of [min, max] at the
+// given step.
+func labelChars(min, max, step float64) int {
+	digits := 0
+	if step < 1 {
+		digits = int(math.Ceil(-math.Log10(step) - 1e-9))
+	}
+	n := 0
+	for _, v := range []float64{min, max} {
+		v = math.Round(v/step) * step
+		if l := len([]rune(strconv.FormatFloat(v, 'f', digits, 64))); l > n {
+			n = l
+		}
+	}
+	return n
 }
 
 // logTicks labels each decade (and 2 and 5 within it when the range spans

@@ -1,0 +1,75 @@
+package chart_test
+
+import (
+	"bytes"
+	"testing"
+
+	"github.com/loopwise/loopwise/chart"
+	"github.com/loopwise/loopwise/locus"
+	"github.com/loopwise/loopwise/margins"
+	"github.com/loopwise/loopwise/response"
+	"github.com/loopwise/loopwise/tf"
+)
+
+// TestEdgeCases renders degenerate but valid inputs: a lone integrator, a
+// double integrator whose locus lies on the imaginary axis, a zero at the
+// origin, an unstable discrete plant, a flat response and a response
+// without metrics. Each must render without error.
+func TestEdgeCases(t *testing.T) {
+	render := func(t *testing.T, f *chart.Figure, err error) {
+		t.Helper()
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, format := range []string{chart.FormatSVG, chart.FormatPNG} {
+			if err := f.Render(&bytes.Buffer{}, format); err != nil {
+				t.Fatalf("%s: %v", format, err)
+			}
+		}
+	}
+	t.Run("integrator pole-zero map", func(t *testing.T) {
+		f, err := chart.PoleZero(tf.MustParse("1/s"), nil)
+		render(t, f, err)
+	})
+	t.Run("double integrator locus", func(t *testing.T) {
+		l, err := locus.Trace(tf.MustParse("1/s^2"), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		f, err := chart.RootLocus(l, &chart.LocusSettings{PlaneSettings: chart.PlaneSettings{Grid: true}, Mark: &chart.LocusMark{Value: 4}})
+		render(t, f, err)
+	})
+	t.Run("zero at the origin", func(t *testing.T) {
+		l, err := locus.Trace(tf.MustParse("s/((s+1)(s+2)(s+3))"), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		f, err := chart.RootLocus(l, nil)
+		render(t, f, err)
+	})
+	t.Run("unstable discrete plant", func(t *testing.T) {
+		f, err := chart.PoleZero(must(tf.ParseDiscrete("(z+0.5)/((z-1.5)(z-0.2))", 0.01)), &chart.PlaneSettings{Grid: true})
+		render(t, f, err)
+	})
+	t.Run("flat response without metrics", func(t *testing.T) {
+		f, err := chart.StepResponse(response.Response{TimeSec: []float64{0, 1, 2}, Output: []float64{1, 1, 1}}, nil, nil)
+		render(t, f, err)
+	})
+	t.Run("constant loop frequency response", func(t *testing.T) {
+		g := tf.MustParse("0.5")
+		r, err := margins.FrequencyResponse(g, []float64{0.1, 1, 10})
+		if err != nil {
+			t.Fatal(err)
+		}
+		f, err := chart.FrequencyResponse(r, nil, nil)
+		render(t, f, err)
+	})
+	t.Run("fixed window and explicit grid", func(t *testing.T) {
+		f, err := chart.PoleZero(servoLoop(), &chart.PlaneSettings{
+			Window:                      &chart.Window{RealMin: -3, RealMax: 1, ImagMin: -2, ImagMax: 2},
+			DampingRatios:               []float64{0.5, 0.707},
+			NaturalFrequenciesRadPerSec: []float64{1, 2},
+		})
+		render(t, f, err)
+	})
+}
