@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"testing"
+	"time"
 
 	"github.com/loopwise/loopwise/internal/statespace"
 	"github.com/loopwise/loopwise/tf"
@@ -223,4 +224,93 @@ func benchRK4(b *testing.B, f familyMember, target string) {
 	b.ReportMetric(samples/b.Elapsed().Seconds(), "samples/s")
 	b.ReportMetric(relErr*1e15, "err/peak*1e15")
 	b.ReportMetric(float64(sub), "substeps")
+}
+
+// rk4Substeps returns the smallest substep count (from 1, 2, 3, 4, 6, …)
+// for which RK4 reaches want (error/peak), or 0.
+func rk4Substeps(m statespace.Model, f familyMember, want float64) int {
+	for _, s := range []int{1, 2, 3, 4, 6, 8, 12, 16, 24, 32, 48, 64, 96, 128} {
+		if rk4Error(m, f, s) <= want {
+			return s
+		}
+	}
+	return 0
+}
+
+// BenchmarkRatio interleaves, in every iteration, one exact Step, one RK4
+// run at 1e-8, one RK4 run at the exact recursion's accuracy and one floor
+// run (n² multiply–adds per sample) on the same family member, and reports
+// the ratios of their accumulated times. Interleaving makes the ratios
+// robust to the load of a shared machine, where separate benchmarks drift.
+func BenchmarkRatio(b *testing.B) {
+	for _, f0 := range benchFamily(b) {
+		for _, sp := range spacings {
+			f := coarsen(f0, sp.stride)
+			b.Run(fmt.Sprintf("order=%d/spacing=%s", f.Order, sp.name), func(b *testing.B) {
+				sys, err := tf.New(f.Num, f.Den)
+				if err != nil {
+					b.Fatal(err)
+				}
+				m, err := statespace.FromTransferFunction(f.Num, f.Den)
+				if err != nil {
+					b.Fatal(err)
+				}
+				exact, _ := familyError(b, f)
+				sub8 := rk4Substeps(m, f, 1e-8)
+				subEq := rk4Substeps(m, f, math.Max(exact, 1e-12))
+				set := &Settings{HorizonSec: f.HorizonSec, StepSec: f.StepSec}
+				out := make([]float64, f.Count+1)
+				n := f.Order
+				a := make([]float64, n*n)
+				for i := range a {
+					a[i] = 1e-3 * float64(i%7)
+				}
+				x, nx := make([]float64, n), make([]float64, n)
+				var tStep, t8, tEq, tFloor time.Duration
+				for b.Loop() {
+					t0 := time.Now()
+					if _, err := Step(sys, set); err != nil {
+						b.Fatal(err)
+					}
+					t1 := time.Now()
+					mm, _ := statespace.FromTransferFunction(f.Num, f.Den)
+					rk4(mm, f.StepSec, sub8, out)
+					t2 := time.Now()
+					if subEq > 0 {
+						mm, _ := statespace.FromTransferFunction(f.Num, f.Den)
+						rk4(mm, f.StepSec, subEq, out)
+					}
+					t3 := time.Now()
+					for i := range x {
+						x[i] = 1
+					}
+					for range f.Count {
+						for i := 0; i < n; i++ {
+							row := a[i*n : i*n+n]
+							s := 0.0
+							for j, v := range row {
+								s += v * x[j]
+							}
+							nx[i] = s
+						}
+						x, nx = nx, x
+					}
+					t4 := time.Now()
+					tStep += t1.Sub(t0)
+					t8 += t2.Sub(t1)
+					tEq += t3.Sub(t2)
+					tFloor += t4.Sub(t3)
+				}
+				b.ReportMetric(float64(f.Count+1)*float64(b.N)/tStep.Seconds(), "samples/s")
+				b.ReportMetric(exact*1e15, "err/peak*1e15")
+				b.ReportMetric(t8.Seconds()/tStep.Seconds(), "speedup-vs-rk4-1e-8")
+				b.ReportMetric(float64(sub8), "rk4-substeps")
+				if subEq > 0 {
+					b.ReportMetric(tEq.Seconds()/tStep.Seconds(), "speedup-vs-rk4-equal")
+					b.ReportMetric(float64(subEq), "rk4-equal-substeps")
+				}
+				b.ReportMetric(tStep.Seconds()/tFloor.Seconds(), "cost/floor")
+			})
+		}
+	}
 }
