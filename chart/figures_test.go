@@ -49,9 +49,9 @@ func TestFiguresRender(t *testing.T) {
 			}
 			// Curves are blue; a pole-zero map has black marks only, about
 			// 15 pixels each at 72 dpi.
-			data, least := chart.Blue, 100
+			data, least := chart.OkabeIto()[5], 100
 			if strings.HasPrefix(c.name, "polezero") {
-				data, least = chart.Black, 40
+				data, least = chart.OkabeIto()[0], 40
 			}
 			inked, blue := inkAndColour(img, data)
 			// A blank figure has no ink; axes, text and one curve alone give

@@ -145,14 +145,14 @@ func FrequencyResponse(resp margins.Response, m *margins.Result, set *FrequencyS
 				p.Add(&vLine{X: wc, LineStyle: guide})
 			}
 			mk, _ := NewMarks([]float64{wc}, []float64{ref})
-			mk.GlyphStyle = draw.GlyphStyle{Color: Vermillion, Radius: vg.Points(3), Shape: dotGlyph{}}
+			mk.GlyphStyle = draw.GlyphStyle{Color: okVermillion, Radius: vg.Points(3), Shape: dotGlyph{}}
 			ph.Add(mk)
 			// The distance to 0 dB is drawn only for the crossovers that set
 			// a gain margin; the others are marked on the phase.
 			if label := decisiveCrossover(m, pc); label != "" {
-				mag.Add(&segment{X0: wc, Y0: lm, X1: wc, Y1: 0, LineStyle: draw.LineStyle{Color: Vermillion, Width: vg.Points(1)}, Heads: vg.Points(5)})
+				mag.Add(&segment{X0: wc, Y0: lm, X1: wc, Y1: 0, LineStyle: draw.LineStyle{Color: okVermillion, Width: vg.Points(1)}, Heads: vg.Points(5)})
 				magAvoid.addCurve([]float64{wc, wc}, []float64{lm, 0})
-				magNotes = append(magNotes, note{X: wc, Y: lm / 2, Text: label, Color: Vermillion})
+				magNotes = append(magNotes, note{X: wc, Y: lm / 2, Text: label, Color: okVermillion})
 			}
 			phAvoid.addPoint(wc, ref)
 			mlo, mhi = math.Min(mlo, lm), math.Max(mhi, lm)
@@ -169,12 +169,12 @@ func FrequencyResponse(resp margins.Response, m *margins.Result, set *FrequencyS
 				p.Add(&vLine{X: wc, LineStyle: guide})
 			}
 			mk, _ := NewMarks([]float64{wc}, []float64{0})
-			mk.GlyphStyle = draw.GlyphStyle{Color: BluishGreen, Radius: vg.Points(3), Shape: dotGlyph{}}
+			mk.GlyphStyle = draw.GlyphStyle{Color: okBluishGreen, Radius: vg.Points(3), Shape: dotGlyph{}}
 			mag.Add(mk)
 			magAvoid.addPoint(wc, 0)
-			ph.Add(&segment{X0: wc, Y0: ref, X1: wc, Y1: phase, LineStyle: draw.LineStyle{Color: BluishGreen, Width: vg.Points(1)}, Heads: vg.Points(5)})
+			ph.Add(&segment{X0: wc, Y0: ref, X1: wc, Y1: phase, LineStyle: draw.LineStyle{Color: okBluishGreen, Width: vg.Points(1)}, Heads: vg.Points(5)})
 			phAvoid.addCurve([]float64{wc, wc}, []float64{ref, phase})
-			phNotes = append(phNotes, note{X: wc, Y: (ref + phase) / 2, Text: "phase margin " + formatNumber(gc.PhaseMarginDeg, 3) + "°", Color: BluishGreen})
+			phNotes = append(phNotes, note{X: wc, Y: (ref + phase) / 2, Text: "phase margin " + formatNumber(gc.PhaseMarginDeg, 3) + "°", Color: okBluishGreen})
 			plo, phi = math.Min(plo, ref), math.Max(phi, ref)
 		}
 		magKey = append(magKey, gainMarginWords(m)...)

@@ -92,8 +92,8 @@ func Nyquist(n margins.Nyquist, m *margins.Result, set *NyquistSettings) (*Figur
 	if m != nil {
 		if ms := m.PeakSensitivity; finite(ms) && ms > 0 {
 			r := 1 / ms
-			msStyle := draw.LineStyle{Color: Vermillion, Width: vg.Points(0.9), Dashes: dashGuide}
-			p.Add(&circle{CX: -1, R: r, LineStyle: msStyle, Fill: alpha(Vermillion, 0x14)})
+			msStyle := draw.LineStyle{Color: okVermillion, Width: vg.Points(0.9), Dashes: dashGuide}
+			p.Add(&circle{CX: -1, R: r, LineStyle: msStyle, Fill: alpha(okVermillion, 0x14)})
 			key = append(key, complex(-1-r, r), complex(-1+r, -r))
 			box = append(box, keyEntry{Text: fmt.Sprintf("peak sensitivity %s: circle of radius 1/%s around −1",
 				formatNumber(ms, 3), formatNumber(ms, 3)), Line: &msStyle})
@@ -104,7 +104,7 @@ func Nyquist(n margins.Nyquist, m *margins.Result, set *NyquistSettings) (*Figur
 			}
 			x := -1 / pc.GainFactor
 			mk, _ := NewMarks([]float64{x}, []float64{0})
-			mk.GlyphStyle = draw.GlyphStyle{Color: Vermillion, Radius: vg.Points(3), Shape: dotGlyph{}}
+			mk.GlyphStyle = draw.GlyphStyle{Color: okVermillion, Radius: vg.Points(3), Shape: dotGlyph{}}
 			p.Add(mk)
 			avoid.addPoint(x, 0)
 			// Only the crossovers that set a margin are named; the others
@@ -115,7 +115,7 @@ func Nyquist(n margins.Nyquist, m *margins.Result, set *NyquistSettings) (*Figur
 					// −14 dB is written under the figure instead).
 					key = append(key, complex(x, 0))
 				}
-				notes = append(notes, note{X: x, Y: 0, Text: label, Color: Vermillion})
+				notes = append(notes, note{X: x, Y: 0, Text: label, Color: okVermillion})
 			}
 		}
 		for _, gc := range m.GainCrossovers {
@@ -125,9 +125,9 @@ func Nyquist(n margins.Nyquist, m *margins.Result, set *NyquistSettings) (*Figur
 			// |L| = 1 there and ∠L = −180° + PM.
 			z := cmplx.Rect(1, (gc.PhaseMarginDeg-180)*math.Pi/180)
 			mk, _ := NewMarks([]float64{real(z)}, []float64{imag(z)})
-			mk.GlyphStyle = draw.GlyphStyle{Color: BluishGreen, Radius: vg.Points(3), Shape: dotGlyph{}}
+			mk.GlyphStyle = draw.GlyphStyle{Color: okBluishGreen, Radius: vg.Points(3), Shape: dotGlyph{}}
 			p.Add(mk)
-			notes = append(notes, note{X: real(z), Y: imag(z), Text: "phase margin " + formatNumber(gc.PhaseMarginDeg, 3) + "°", Color: BluishGreen})
+			notes = append(notes, note{X: real(z), Y: imag(z), Text: "phase margin " + formatNumber(gc.PhaseMarginDeg, 3) + "°", Color: okBluishGreen})
 			avoid.addPoint(real(z), imag(z))
 		}
 	}
@@ -160,7 +160,7 @@ func Nyquist(n margins.Nyquist, m *margins.Result, set *NyquistSettings) (*Figur
 			}
 		}
 	}
-	mirrorStyle := draw.LineStyle{Color: alpha(Blue, 0xb0), Width: th.LineWidth * 0.8, Dashes: []vg.Length{vg.Points(5), vg.Points(3)}}
+	mirrorStyle := draw.LineStyle{Color: alpha(okBlue, 0xb0), Width: th.LineWidth * 0.8, Dashes: []vg.Length{vg.Points(5), vg.Points(3)}}
 	for _, pc := range branch(n.Mirror, true) {
 		c, _ := NewCurve(pc[0], pc[1])
 		c.LineStyle = mirrorStyle
@@ -168,7 +168,7 @@ func Nyquist(n margins.Nyquist, m *margins.Result, set *NyquistSettings) (*Figur
 		p.Add(c)
 		avoid.addCurve(pc[0], pc[1])
 	}
-	posStyle := draw.LineStyle{Color: Blue, Width: th.LineWidth}
+	posStyle := draw.LineStyle{Color: okBlue, Width: th.LineWidth}
 	for _, pc := range branch(n.Positive, false) {
 		c, _ := NewCurve(pc[0], pc[1])
 		c.LineStyle = posStyle
@@ -183,7 +183,7 @@ func Nyquist(n margins.Nyquist, m *margins.Result, set *NyquistSettings) (*Figur
 
 	// The critical point on top.
 	crit, _ := NewMarks([]float64{-1}, []float64{0})
-	crit.GlyphStyle = draw.GlyphStyle{Color: Black, Radius: vg.Points(5), Shape: plusGlyph{Width: vg.Points(1.6)}}
+	crit.GlyphStyle = draw.GlyphStyle{Color: okBlack, Radius: vg.Points(5), Shape: plusGlyph{Width: vg.Points(1.6)}}
 	crit.Halo = vg.Points(3)
 	p.Add(crit)
 	notes = append([]note{{X: -1, Y: 0, Text: "−1"}}, notes...)

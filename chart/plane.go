@@ -215,15 +215,15 @@ func (s *planeSpec) figure() (*Figure, error) {
 }
 
 func breakGlyph() draw.GlyphStyle {
-	return draw.GlyphStyle{Color: Orange, Radius: vg.Points(3.2), Shape: diamondGlyph{}}
+	return draw.GlyphStyle{Color: okOrange, Radius: vg.Points(3.2), Shape: diamondGlyph{}}
 }
 
 func crossingGlyph() draw.GlyphStyle {
-	return draw.GlyphStyle{Color: Vermillion, Radius: vg.Points(3.2), Shape: squareGlyph{}}
+	return draw.GlyphStyle{Color: okVermillion, Radius: vg.Points(3.2), Shape: squareGlyph{}}
 }
 
 func markedGlyph() draw.GlyphStyle {
-	return draw.GlyphStyle{Color: Black, Radius: vg.Points(3.4), Shape: dotGlyph{}}
+	return draw.GlyphStyle{Color: okBlack, Radius: vg.Points(3.4), Shape: dotGlyph{}}
 }
 
 func asymptoteLine(th Theme) draw.LineStyle {
@@ -231,11 +231,11 @@ func asymptoteLine(th Theme) draw.LineStyle {
 }
 
 func poleGlyph() draw.GlyphStyle {
-	return draw.GlyphStyle{Color: Black, Radius: markRadius, Shape: crossGlyph{Width: vg.Points(1.5)}}
+	return draw.GlyphStyle{Color: okBlack, Radius: markRadius, Shape: crossGlyph{Width: vg.Points(1.5)}}
 }
 
 func zeroGlyph() draw.GlyphStyle {
-	return draw.GlyphStyle{Color: Black, Radius: markRadius, Shape: ringGlyph{Width: vg.Points(1.3)}}
+	return draw.GlyphStyle{Color: okBlack, Radius: markRadius, Shape: ringGlyph{Width: vg.Points(1.3)}}
 }
 
 func splitComplex(z []complex128) (xs, ys []float64) {

@@ -75,7 +75,7 @@ func NewCurve(xs, ys []float64) (*Curve, error) {
 	return &Curve{
 		X:         append([]float64(nil), xs...),
 		Y:         append([]float64(nil), ys...),
-		LineStyle: draw.LineStyle{Color: Blue, Width: vg.Points(1.4)},
+		LineStyle: draw.LineStyle{Color: okBlue, Width: vg.Points(1.4)},
 		ArrowSize: vg.Points(6),
 	}, nil
 }
@@ -181,7 +181,7 @@ func NewMarks(xs, ys []float64) (*Marks, error) {
 	return &Marks{
 		X:          append([]float64(nil), xs...),
 		Y:          append([]float64(nil), ys...),
-		GlyphStyle: draw.GlyphStyle{Color: Black, Radius: vg.Points(4), Shape: crossGlyph{Width: vg.Points(1.3)}},
+		GlyphStyle: draw.GlyphStyle{Color: okBlack, Radius: vg.Points(4), Shape: crossGlyph{Width: vg.Points(1.3)}},
 	}, nil
 }
 

@@ -131,7 +131,7 @@ func StepResponse(r response.Response, m *response.Metrics, set *StepSettings) (
 		bandLo, bandHi := F-band*math.Abs(F), F+band*math.Abs(F)
 		ymin, ymax = math.Min(ymin, bandLo), math.Max(ymax, bandHi)
 		p.Add(&Band{Lo: bandLo, Hi: bandHi, Color: th.Stable,
-			Edge: draw.LineStyle{Color: alpha(BluishGreen, 0x80), Width: vg.Points(0.5)}})
+			Edge: draw.LineStyle{Color: alpha(okBluishGreen, 0x80), Width: vg.Points(0.5)}})
 		p.Add(&hLine{Y: F, LineStyle: th.guideLine(dashGuide...)})
 		key = append(key, keyEntry{Text: "final value " + formatNumber(F, 4), Line: ptr(th.guideLine(dashGuide...))})
 		key = append(key, keyEntry{Text: fmt.Sprintf("settling band ±%s %%", formatNumber(100*band, 3)), Fill: th.Stable})
@@ -153,20 +153,20 @@ func StepResponse(r response.Response, m *response.Metrics, set *StepSettings) (
 		if finite(m.RiseStartSec) && finite(m.RiseEndSec) && m.RiseTimeSec > 0 {
 			yl, yh := lo*F, hi*F
 			rm, _ := NewMarks([]float64{m.RiseStartSec, m.RiseEndSec}, []float64{yl, yh})
-			rm.GlyphStyle = draw.GlyphStyle{Color: Vermillion, Radius: vg.Points(2.8), Shape: dotGlyph{}}
-			p.Add(&segment{X0: m.RiseStartSec, Y0: yl, X1: m.RiseStartSec, Y1: yh, LineStyle: draw.LineStyle{Color: alpha(Vermillion, 0xa0), Width: vg.Points(0.6), Dashes: dotGuide}})
-			p.Add(&segment{X0: m.RiseStartSec, Y0: yh, X1: m.RiseEndSec, Y1: yh, LineStyle: draw.LineStyle{Color: Vermillion, Width: vg.Points(0.9)}, Heads: vg.Points(5)})
+			rm.GlyphStyle = draw.GlyphStyle{Color: okVermillion, Radius: vg.Points(2.8), Shape: dotGlyph{}}
+			p.Add(&segment{X0: m.RiseStartSec, Y0: yl, X1: m.RiseStartSec, Y1: yh, LineStyle: draw.LineStyle{Color: alpha(okVermillion, 0xa0), Width: vg.Points(0.6), Dashes: dotGuide}})
+			p.Add(&segment{X0: m.RiseStartSec, Y0: yh, X1: m.RiseEndSec, Y1: yh, LineStyle: draw.LineStyle{Color: okVermillion, Width: vg.Points(0.9)}, Heads: vg.Points(5)})
 			p.Add(rm)
 			text := fmt.Sprintf("rise time %s s (%s–%s %%)", formatNumber(m.RiseTimeSec, 3), formatNumber(100*lo, 3), formatNumber(100*hi, 3))
-			key = append(key, keyEntry{Text: text, Glyph: &draw.GlyphStyle{Color: Vermillion, Radius: vg.Points(2.8), Shape: dotGlyph{}}})
+			key = append(key, keyEntry{Text: text, Glyph: &draw.GlyphStyle{Color: okVermillion, Radius: vg.Points(2.8), Shape: dotGlyph{}}})
 			notes = append(notes, note{X: (m.RiseStartSec + m.RiseEndSec) / 2, Y: yh, Text: "rise " + formatNumber(m.RiseTimeSec, 3) + " s"})
 		}
 		// Overshoot: the peak and its height above the final value.
 		if m.OvershootPct > 0 && finite(m.PeakTimeSec) && finite(m.PeakValue) {
 			pk := m.PeakValue
-			p.Add(&segment{X0: m.PeakTimeSec, Y0: F, X1: m.PeakTimeSec, Y1: pk, LineStyle: draw.LineStyle{Color: ReddishPurple, Width: vg.Points(0.9)}, Heads: vg.Points(5)})
+			p.Add(&segment{X0: m.PeakTimeSec, Y0: F, X1: m.PeakTimeSec, Y1: pk, LineStyle: draw.LineStyle{Color: okReddishPurple, Width: vg.Points(0.9)}, Heads: vg.Points(5)})
 			pm, _ := NewMarks([]float64{m.PeakTimeSec}, []float64{pk})
-			pm.GlyphStyle = draw.GlyphStyle{Color: ReddishPurple, Radius: vg.Points(3), Shape: dotGlyph{}}
+			pm.GlyphStyle = draw.GlyphStyle{Color: okReddishPurple, Radius: vg.Points(3), Shape: dotGlyph{}}
 			p.Add(pm)
 			text := fmt.Sprintf("overshoot %s %% at %s s", formatNumber(m.OvershootPct, 3), formatNumber(m.PeakTimeSec, 3))
 			key = append(key, keyEntry{Text: text, Glyph: &pm.GlyphStyle})
@@ -179,7 +179,7 @@ func StepResponse(r response.Response, m *response.Metrics, set *StepSettings) (
 			// The mark sits on the drawn curve at the undershoot time.
 			uv := interp(r.TimeSec, r.Output, m.UndershootTimeSec)
 			um, _ := NewMarks([]float64{m.UndershootTimeSec}, []float64{uv})
-			um.GlyphStyle = draw.GlyphStyle{Color: Orange, Radius: vg.Points(3), Shape: dotGlyph{}}
+			um.GlyphStyle = draw.GlyphStyle{Color: okOrange, Radius: vg.Points(3), Shape: dotGlyph{}}
 			p.Add(um)
 			text := fmt.Sprintf("undershoot %s %% at %s s", formatNumber(m.UndershootPct, 3), formatNumber(m.UndershootTimeSec, 3))
 			key = append(key, keyEntry{Text: text, Glyph: &um.GlyphStyle})
@@ -187,13 +187,13 @@ func StepResponse(r response.Response, m *response.Metrics, set *StepSettings) (
 		// Settling: the last exit from the band.
 		if finite(m.SettlingTimeSec) && m.SettlingTimeSec > 0 {
 			st := m.SettlingTimeSec
-			p.Add(&vLine{X: st, LineStyle: draw.LineStyle{Color: BluishGreen, Width: vg.Points(0.8), Dashes: dashGuide}})
+			p.Add(&vLine{X: st, LineStyle: draw.LineStyle{Color: okBluishGreen, Width: vg.Points(0.8), Dashes: dashGuide}})
 			ysAt := interp(r.TimeSec, r.Output, st)
 			sm, _ := NewMarks([]float64{st}, []float64{ysAt})
-			sm.GlyphStyle = draw.GlyphStyle{Color: BluishGreen, Radius: vg.Points(3), Shape: dotGlyph{}}
+			sm.GlyphStyle = draw.GlyphStyle{Color: okBluishGreen, Radius: vg.Points(3), Shape: dotGlyph{}}
 			p.Add(sm)
 			text := fmt.Sprintf("settling time %s s (±%s %% band)", formatNumber(st, 3), formatNumber(100*band, 3))
-			key = append(key, keyEntry{Text: text, Line: &draw.LineStyle{Color: BluishGreen, Width: vg.Points(0.8), Dashes: dashGuide}})
+			key = append(key, keyEntry{Text: text, Line: &draw.LineStyle{Color: okBluishGreen, Width: vg.Points(0.8), Dashes: dashGuide}})
 			notes = append(notes, note{X: st, Y: ysAt, Text: "settled " + formatNumber(st, 3) + " s"})
 		}
 	}
@@ -221,11 +221,11 @@ func StepResponse(r response.Response, m *response.Metrics, set *StepSettings) (
 	if err != nil {
 		return nil, err
 	}
-	c.Color, c.Width = Blue, th.LineWidth
+	c.Color, c.Width = okBlue, th.LineWidth
 	p.Add(c)
 	if r.SampleTimeSec > 0 && len(r.TimeSec) <= 400 {
 		dm, _ := NewMarks(r.TimeSec, r.Output)
-		dm.GlyphStyle = draw.GlyphStyle{Color: Blue, Radius: vg.Points(1.6), Shape: draw.CircleGlyph{}}
+		dm.GlyphStyle = draw.GlyphStyle{Color: okBlue, Radius: vg.Points(1.6), Shape: draw.CircleGlyph{}}
 		p.Add(dm)
 	}
 	if len(key) > 0 {

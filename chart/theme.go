@@ -17,31 +17,39 @@ import (
 // how to make figures and presentations that are friendly to colorblind
 // people" (2008), the eight-colour palette.
 var (
-	// Black is the Okabe–Ito black (#000000).
-	Black = color.NRGBA{R: 0x00, G: 0x00, B: 0x00, A: 0xff}
-	// Orange is the Okabe–Ito orange (#E69F00).
-	Orange = color.NRGBA{R: 0xe6, G: 0x9f, B: 0x00, A: 0xff}
-	// SkyBlue is the Okabe–Ito sky blue (#56B4E9).
-	SkyBlue = color.NRGBA{R: 0x56, G: 0xb4, B: 0xe9, A: 0xff}
-	// BluishGreen is the Okabe–Ito bluish green (#009E73).
-	BluishGreen = color.NRGBA{R: 0x00, G: 0x9e, B: 0x73, A: 0xff}
-	// Yellow is the Okabe–Ito yellow (#F0E442).
-	Yellow = color.NRGBA{R: 0xf0, G: 0xe4, B: 0x42, A: 0xff}
-	// Blue is the Okabe–Ito blue (#0072B2).
-	Blue = color.NRGBA{R: 0x00, G: 0x72, B: 0xb2, A: 0xff}
-	// Vermillion is the Okabe–Ito vermillion (#D55E00).
-	Vermillion = color.NRGBA{R: 0xd5, G: 0x5e, B: 0x00, A: 0xff}
-	// ReddishPurple is the Okabe–Ito reddish purple (#CC79A7).
-	ReddishPurple = color.NRGBA{R: 0xcc, G: 0x79, B: 0xa7, A: 0xff}
+	// okBlack is the Okabe–Ito black (#000000).
+	okBlack = color.NRGBA{R: 0x00, G: 0x00, B: 0x00, A: 0xff}
+	// okOrange is the Okabe–Ito orange (#E69F00).
+	okOrange = color.NRGBA{R: 0xe6, G: 0x9f, B: 0x00, A: 0xff}
+	// okSkyBlue is the Okabe–Ito sky blue (#56B4E9).
+	okSkyBlue = color.NRGBA{R: 0x56, G: 0xb4, B: 0xe9, A: 0xff}
+	// okBluishGreen is the Okabe–Ito bluish green (#009E73).
+	okBluishGreen = color.NRGBA{R: 0x00, G: 0x9e, B: 0x73, A: 0xff}
+	// okYellow is the Okabe–Ito yellow (#F0E442).
+	okYellow = color.NRGBA{R: 0xf0, G: 0xe4, B: 0x42, A: 0xff}
+	// okBlue is the Okabe–Ito blue (#0072B2).
+	okBlue = color.NRGBA{R: 0x00, G: 0x72, B: 0xb2, A: 0xff}
+	// okVermillion is the Okabe–Ito vermillion (#D55E00).
+	okVermillion = color.NRGBA{R: 0xd5, G: 0x5e, B: 0x00, A: 0xff}
+	// okReddishPurple is the Okabe–Ito reddish purple (#CC79A7).
+	okReddishPurple = color.NRGBA{R: 0xcc, G: 0x79, B: 0xa7, A: 0xff}
 )
+
+// OkabeIto returns the eight colours of the Okabe–Ito palette in their
+// published order: black (#000000), orange (#E69F00), sky blue (#56B4E9),
+// bluish green (#009E73), yellow (#F0E442), blue (#0072B2), vermillion
+// (#D55E00) and reddish purple (#CC79A7).
+func OkabeIto() [8]color.NRGBA {
+	return [8]color.NRGBA{okBlack, okOrange, okSkyBlue, okBluishGreen, okYellow, okBlue, okVermillion, okReddishPurple}
+}
 
 // Palette returns the Okabe–Ito colours in the order this package uses them
 // for successive curves (root-locus branches, for example): blue, vermillion,
-// bluish green, reddish purple, orange, sky blue. Yellow and black are left
+// bluish green, reddish purple, orange, sky blue. okYellow and black are left
 // out: yellow is too faint on white for a thin line, black is kept for poles,
 // zeros and text. Each call returns a new slice.
 func Palette() []color.Color {
-	return []color.Color{Blue, Vermillion, BluishGreen, ReddishPurple, Orange, SkyBlue}
+	return []color.Color{okBlue, okVermillion, okBluishGreen, okReddishPurple, okOrange, okSkyBlue}
 }
 
 // Theme is the look shared by every figure: fonts, sizes and the neutral
