@@ -131,8 +131,8 @@ func (p *problem) analyze() (Analysis, error) {
 	}
 	p.asymptotes(&an)
 	an.RealAxisSegments = p.realAxisSegments()
-	an.Departures = p.angles(p.poles, p.zeros, p.a.Lead(), p.b.Lead(), p.startSigns(), true)
-	an.Arrivals = p.angles(p.zeros, p.poles, p.b.Lead(), p.a.Lead(), p.infSigns(), false)
+	an.Departures = p.angles(p.poles, p.zeros, p.a.Lead(), p.b.Lead(), p.startSigns())
+	an.Arrivals = p.angles(p.zeros, p.poles, p.b.Lead(), p.a.Lead(), p.infSigns())
 	an.BreakPoints = p.breakPoints()
 	cr, err := p.crossings()
 	if err != nil {
@@ -278,13 +278,13 @@ func (p *problem) realAxisSegments() []Interval {
 	return segs
 }
 
-// angles returns the departure angles (from the roots of a, when dep) or
-// the arrival angles (at the roots of b) by Evans' angle condition
+// angles returns the departure angles (own = poles) or the arrival angles
+// (own = zeros) by Evans' angle condition
 // (Evans 1950): for a root r of multiplicity μ, locus points r + δ satisfy
 // μ·∠δ ≡ ∠(−σ·b₀/a₀) + Σ∠(r − other roots of b) − Σ∠(r − other roots of
 // a) (mod 360°), σ the sign of k at the end where the branches meet r.
 // The sums are over exact root sets with multiplicities.
-func (p *problem) angles(own, other []poly.Root, ownLead, otherLead float64, signs []float64, dep bool) []AngleAt {
+func (p *problem) angles(own, other []poly.Root, ownLead, otherLead float64, signs []float64) []AngleAt {
 	var out []AngleAt
 	for _, r := range own {
 		if !(imag(r.Value) > 0 || (imag(r.Value) == 0 && r.Multiplicity > 1)) {
@@ -319,7 +319,6 @@ func (p *problem) angles(own, other []poly.Root, ownLead, otherLead float64, sig
 			out = append(out, AngleAt{Point: r.Value, AngleDeg: a, Multiplicity: r.Multiplicity})
 		}
 	}
-	_ = dep
 	return out
 }
 
@@ -391,7 +390,7 @@ func (p *problem) breakPoints() []BreakPoint {
 // newtonPoly polishes a simple root of q by Newton's method, keeping the
 // iterate real when real is set, and stopping when the residual stops
 // decreasing.
-func newtonPoly(q, qd poly.Poly, s complex128, real bool) complex128 {
+func newtonPoly(q, qd poly.Poly, s complex128, keepReal bool) complex128 {
 	f := q.EvalComplex(s)
 	for range 6 {
 		d := qd.EvalComplex(s)
@@ -399,8 +398,8 @@ func newtonPoly(q, qd poly.Poly, s complex128, real bool) complex128 {
 			break
 		}
 		n := s - f/d
-		if real {
-			n = complex(realPart(n), 0)
+		if keepReal {
+			n = complex(real(n), 0)
 		}
 		fn := q.EvalComplex(n)
 		if cabs(fn) >= cabs(f) {
@@ -410,5 +409,3 @@ func newtonPoly(q, qd poly.Poly, s complex128, real bool) complex128 {
 	}
 	return s
 }
-
-func realPart(z complex128) float64 { return real(z) }

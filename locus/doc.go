@@ -3,32 +3,97 @@
 // asymptotes, departure and arrival angles, break points, crossings of the
 // stability boundary), the exact set of stable values, point queries, and
 // branches traced by predictor–corrector continuation. Parameter loci
-// a(s) + p·b(s) = 0 for any parameter that enters the characteristic
-// polynomial affinely are derived automatically (FromParameter).
+// a(s) + p·b(s) = 0, for any parameter that enters the characteristic
+// polynomial affinely, are derived automatically (FromParameter, FromText).
+//
+//	an, err := locus.Analyze(loop, nil)             // construction quantities
+//	loc, err := locus.Trace(loop, nil)              // branches, view rectangle
+//	k, poles, err := locus.ValueAt(loop, s, nil)    // magnitude condition at s
+//	pts, err := locus.DampingCrossings(loop, 0.5, nil)
+//	par, err := locus.FromText("Td", "60(1+Td*s)", plant) // then Analyze(par.Loop, ...)
 //
 // # Conventions
 //
 // The characteristic equation is a(x) + k·b(x) = 0 in x = s (continuous
 // time) or x = z (discrete time). For a loop k·L = k·N/D under negative
 // feedback, a = D and b = N; for a parameter locus a and b come from
-// FromParameter and the loop passed to Analyze or Trace is b/a. The range of
-// k is Settings.Range, (0, +Inf) by default; negative ranges give the
-// complementary locus. Stable means every closed-loop root has Re < 0
-// (continuous) or |z| < 1 (discrete). Angles are in degrees, frequencies in
-// rad/s (discrete: ω = θ/T for z = e^(jθ), θ ∈ [0, π]).
+// FromParameter and the loop passed to Analyze or Trace is b/a, with
+// Settings.Variable naming the parameter. The range of k is
+// Settings.Range, (0, +Inf) by default; Range{Min: math.Inf(-1), Max: 0}
+// gives the complementary locus, and finite ranges are allowed. Stable
+// means every closed-loop root has Re < 0 (continuous) or |z| < 1
+// (discrete). Angles are in degrees, frequencies in rad/s; in discrete time
+// the boundary is the unit circle, z = e^(jθ) with θ ∈ [0, π] and
+// ω = θ/T.
 //
-// The definitions follow the Conventions section of the project's reference
-// cases (shared/refcases/README.md): break points are roots of
-// a′·b − a·b′ that are neither poles nor zeros and at which k = −a/b is real
-// and in range, each with the number of branches meeting there; departure
-// angles are listed for poles with Im > 0 and real multiple poles, one per
-// branch, normalised to (−180, 180]; open-loop poles and zeros on the
-// boundary are not crossings; stable intervals are open and their ends come
-// from crossings and from the value where the degree of a + k·b drops.
+// The definitions follow the Conventions section of the project's
+// reference cases (shared/refcases/README.md), so that results compare
+// directly:
+//
+//   - Real-axis segments are the maximal closed intervals of real σ with
+//     −a(σ)/b(σ) in the range; pieces touching at a multiple pole or zero
+//     are merged.
+//   - Asymptotes: centroid (Σpoles − Σzeros)/(n − m); angles in [0, 360),
+//     (2q+1)·180°/|n−m| when k·b₀/a₀ > 0 and q·360°/|n−m| otherwise. With
+//     deg b > deg a the branches come from infinity as k → 0 and the same
+//     formulas hold.
+//   - Departure angles: for every pole with Im > 0 and every real multiple
+//     pole, one angle per branch, μ·θ ≡ ∠(−σ·b₀/a₀) + Σ∠(p − zᵢ) −
+//     Σ∠(p − pⱼ), normalised to (−180, 180] and ascending; arrival angles
+//     likewise at zeros. Conjugate poles' angles are the negatives.
+//   - Break points: roots of a′·b − a·b′ that are neither poles nor zeros,
+//     at which k = −a/b is real and in range (complex break points
+//     included, with their conjugates), each with the number of branches
+//     meeting there (multiplicity + 1).
+//   - Crossings: every ω ≥ 0 with a(jω) + k·b(jω) = 0 for k in the open
+//     range, ω = 0 included; open-loop poles and zeros on the boundary are
+//     not crossings.
+//   - Stable intervals: the exact set of k in the range for which the closed
+//     loop is stable, as open intervals whose ends are crossing values, the
+//     value where the degree of a + k·b drops, and the range ends.
 //
 // Dead time e^(−sT) is replaced by a diagonal Padé approximation of order
-// Settings.PadeOrder (6 if zero) and a note records it; in discrete time a
-// dead time of whole sample periods is written exactly as a power of z.
+// Settings.PadeOrder (6 if zero) and a note in Analysis.Notes records it;
+// in discrete time a dead time of whole sample periods is written exactly
+// as a power of z (a fractional one is ErrUnsupported).
+//
+// # Methods and accuracy
+//
+// Everything is computed from the polynomials, without a grid. Roots come
+// from package poly (companion eigenvalues refined by Newton's method),
+// with multiple roots recognised by the test of Kahan (1972) and Zeng
+// (2004). Crossings are the real roots of the even polynomial
+// Im(a(jω)·conj b(jω))/ω in ω² (after the bilinear map z = (1+w)/(1−w) in
+// discrete time), polished by Newton's method on the two real equations in
+// (ω, k). Break points are the roots of a′b − ab′ polished by Newton's
+// method; k is stationary there, so its error is second order. Stability of
+// each piece between critical values is decided by the Routh array
+// (Routh 1877; Hurwitz 1895), with closed-loop roots when a pivot is near
+// zero. Against 50-digit references (the reference cases and
+// testdata/golden.py) crossing values agree to 4e-16 and break-point values
+// to 2e-14 relative; departure angles to 1e-9 degrees.
+//
+// Trace follows every root by predictor–corrector continuation (Allgower &
+// Georg 2003) between consecutive special values (range ends, break
+// points, crossings, the degree drop); break points and multiple poles are
+// left along their Puiseux directions, towards ±∞ the variable is changed
+// to log k; see trace.go for the details. Every traced point satisfies
+// |a(s) + k·b(s)| ≤ 1e-9·(Σ|aᵢ||s|ⁱ + |k|·Σ|bᵢ||s|ⁱ), and no step may land
+// on another branch (each correction must be small against the distance to
+// every other root).
+//
+// # Performance
+//
+// BenchmarkTrace and BenchmarkBaselineGrid compare, on a deterministic
+// family of loops of order 4 to 24, the trace with the naive baseline (2000
+// log-spaced gains, companion-matrix eigenvalues from gonum at each,
+// branches matched to the nearest root). Measured on a shared 2-core
+// machine (minimum of three runs): the trace is 48× (n = 8) to 170×
+// (n = 12) faster, 128× at n = 24, with 10 to 25 times fewer points; its
+// chords stay closer to the exact locus (largest deviation 5e-5 to 2e-4 of
+// the view scale, against 2e-4 to 5e-3 for the grid), with no branch swap;
+// its crossing and break values are exact, where the grid is off by
+// 2e-5 to 6e-5 (crossings, interpolated) and 0.3 % to 2 % (break points).
 //
 // # Invariants
 //

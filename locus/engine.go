@@ -4,8 +4,6 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
-
-	"github.com/loopwise/loopwise/poly"
 )
 
 // kMap is a parameterisation k(t) of a piece, with dk/dt.
@@ -89,10 +87,8 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 	// Initial step.
 	h := 0.05
 	if hasCluster {
-		_, d1 := km(1)
 		kEnd, _ := km(1)
 		dk := kEnd - k0
-		_ = d1
 		for i := range n {
 			if !inCluster(i) || !active[i] {
 				continue
@@ -423,5 +419,3 @@ func (t *tracer) traceToEnd(nd node, end node) ([][]Point, []int, error) {
 	}
 	return paths, to, err
 }
-
-var _ = poly.Root{}

@@ -69,8 +69,6 @@ func checkAgainstCase(t *testing.T, c refcases.Case, an Analysis) {
 	}
 	tol := c.Tolerance
 	near := func(got, w float64) bool { return testutil.Close(got, w, tol.Rel, tol.Abs) }
-	flatten := func(rs []rootList) []complex128 { return nil }
-	_ = flatten
 	var gp, gz []complex128
 	for _, r := range an.Poles {
 		for range r.Multiplicity {
@@ -211,8 +209,6 @@ func checkAgainstCase(t *testing.T, c refcases.Case, an Analysis) {
 		}
 	}
 }
-
-type rootList struct{}
 
 // TestReferenceCases checks every root-locus reference case (A01 A02 A03
 // A05 A07 A08 A09 A10 A12 A14 A16 B01 B02 B05; sources in each case:

@@ -48,7 +48,9 @@ import (
 )
 
 // Point is one traced point of a branch: the value of the locus variable
-// and the closed-loop pole.
+// and the closed-loop pole. The last point of a branch that ends at an
+// open-loop zero as k → ±∞ has Value = ±Inf and S the zero exactly (the
+// first point, for a range that starts at −∞).
 type Point struct {
 	Value float64
 	S     complex128

@@ -49,6 +49,8 @@ func propertyLoops(t *testing.T) []namedLoop {
 		namedLoop{"biproper-negative", tf.MustNew([]float64{2, 1}, []float64{1, 3, 2}), Range{Min: -10, Max: 10}},
 		namedLoop{"lead-lag-both-signs", tf.MustNew([]float64{1, 3, 2}, []float64{1, 5, 6, 0}), Range{Min: math.Inf(-1), Max: math.Inf(1)}},
 		namedLoop{"improper", tf.MustNew([]float64{1, 3, 2}, []float64{1, 0}), Range{}},
+		namedLoop{"biproper-drop", tf.MustNew([]float64{1, 6, 8}, []float64{1, 4, 3}), Range{Min: math.Inf(-1), Max: 0}},
+		namedLoop{"biproper-drop-finite", tf.MustNew([]float64{1, 6, 8}, []float64{1, 4, 3}), Range{Min: -5, Max: 5}},
 		namedLoop{"finite-range", tf.MustNew([]float64{1}, []float64{1, 3, 2, 0}), Range{Min: 0.1, Max: 20}},
 	)
 	for _, n := range []int{4, 8, 12} {
