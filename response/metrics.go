@@ -15,6 +15,8 @@ type MetricSettings struct {
 	// RiseLowFraction and RiseHighFraction are the fractions of the final
 	// value between which the rise time is measured, 0 < low < high ≤ 1.
 	// If zero, default to 0.1 and 0.9 (10–90 %, common practice).
+	// With a high fraction of 1 and no overshoot the level is only
+	// approached: RiseEndSec and RiseTimeSec are then +Inf.
 	RiseLowFraction, RiseHighFraction float64
 	// SettlingBandFraction is the half-width of the settling band as a
 	// fraction of |final value|, in (0, 1). If zero, defaults to 0.02

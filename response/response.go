@@ -32,7 +32,9 @@ type Settings struct {
 
 // Response is a sampled time response.
 type Response struct {
-	// TimeSec holds the sample times in seconds, increasing from 0.
+	// TimeSec holds the sample times in seconds: k·StepSec for
+	// k = 0 … ⌈HorizonSec/StepSec⌉ (Step, Impulse, Ramp), or the given
+	// times (Simulate).
 	TimeSec []float64
 	// Output holds the output at TimeSec. In continuous time these are
 	// exact values of the continuous response at those times (to rounding);

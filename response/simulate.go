@@ -41,7 +41,7 @@ type SimulateSettings struct {
 	InitialState []float64
 }
 
-// Simulate returns the response of sys to the sampled input u given at the
+// Simulate returns the response of sys to the sampled input given at the
 // increasing times timeSec (seconds, not necessarily evenly spaced), read
 // between samples as set.Interpolation says; the input is zero before
 // timeSec[0] and the system starts there (at rest or from
@@ -53,14 +53,15 @@ type SimulateSettings struct {
 // spaced times cost n² multiply–adds per sample). A dead time delays the
 // input exactly: the delayed input's break points are merged into the
 // intervals. Discrete time: timeSec must be evenly spaced by the sample
-// period and u is the input sequence; the dead time must be a whole number
+// period and input is the input sequence; the dead time must be a whole number
 // of samples.
 //
 // Errors: ErrTimeVector (fewer than one sample, lengths differ, not
 // strictly increasing, uneven spacing in discrete time), ErrNotFinite,
 // ErrImproper, ErrInitialState, ErrDelay, ErrSettings (unknown
 // interpolation).
-func Simulate(sys tf.TF, timeSec, u []float64, set *SimulateSettings) (Response, error) {
+func Simulate(sys tf.TF, timeSec, input []float64, set *SimulateSettings) (Response, error) {
+	u := input
 	if len(timeSec) == 0 {
 		return Response{}, fmt.Errorf("%w: no samples", ErrTimeVector)
 	}
