@@ -17,13 +17,14 @@ func sameDomain(g, h TF) (float64, error) {
 }
 
 // Series returns g·h (g and h in cascade). Dead times add. It returns
-// ErrDomainMismatch when g and h differ in sample period.
+// ErrDomainMismatch when g and h differ in sample period and ErrNotFinite
+// when the coefficients overflow (as do all the operations of this file).
 func (g TF) Series(h TF) (TF, error) {
 	ts, err := sameDomain(g, h)
 	if err != nil {
 		return TF{}, err
 	}
-	return TF{num: g.num.Mul(h.num), den: g.Den().Mul(h.Den()), delay: g.delay + h.delay, ts: ts}, nil
+	return checked("series connection", g.num.Mul(h.num), g.Den().Mul(h.Den()), g.delay+h.delay, ts)
 }
 
 // Parallel returns g + h. The dead times must be equal (then they are
@@ -43,19 +44,18 @@ func (g TF) Parallel(h TF) (TF, error) {
 	}
 	gd, hd := g.Den(), h.Den()
 	if gd.Equal(hd) {
-		return TF{num: g.num.Add(h.num), den: gd, delay: delay, ts: ts}, nil
+		return checked("parallel connection", g.num.Add(h.num), gd, delay, ts)
 	}
-	return TF{num: g.num.Mul(hd).Add(h.num.Mul(gd)), den: gd.Mul(hd), delay: delay, ts: ts}, nil
+	return checked("parallel connection", g.num.Mul(hd).Add(h.num.Mul(gd)), gd.Mul(hd), delay, ts)
 }
 
-// Scale returns k·g. It returns ErrNotFinite for a NaN or infinite k.
+// Scale returns k·g. It returns ErrNotFinite for a NaN or infinite k, or
+// when the product overflows.
 func (g TF) Scale(k float64) (TF, error) {
 	if math.IsNaN(k) || math.IsInf(k, 0) {
 		return TF{}, fmt.Errorf("%w: gain %v", ErrNotFinite, k)
 	}
-	g.num = g.num.Scale(k)
-	g.den = g.Den()
-	return g, nil
+	return checked("scaled transfer function", g.num.Scale(k), g.Den(), g.delay, g.ts)
 }
 
 // Neg returns −g.
@@ -102,7 +102,7 @@ func feedback(g, h TF, sign float64) (TF, error) {
 	if den.IsZero() {
 		return TF{}, fmt.Errorf("%w: 1 %s g·h is identically zero", ErrZeroDenominator, map[bool]string{true: "+", false: "−"}[sign > 0])
 	}
-	return TF{num: num, den: den, ts: ts}, nil
+	return checked("feedback loop", num, den, 0, ts)
 }
 
 // ClosedLoop returns the complementary sensitivity T = L/(1 + L) of the
@@ -121,11 +121,23 @@ func (l TF) Sensitivity() (TF, error) {
 	if den.IsZero() {
 		return TF{}, fmt.Errorf("%w: 1 + L is identically zero", ErrZeroDenominator)
 	}
-	return TF{num: ld, den: den, ts: l.ts}, nil
+	return checked("sensitivity", ld, den, 0, l.ts)
 }
 
 // CharacteristicPolynomial returns D + N of the unity negative-feedback loop
 // L = N/D, whose roots are the closed-loop poles (dead time ignored).
 func (l TF) CharacteristicPolynomial() poly.Poly { return l.Den().Add(l.num) }
+
+// checked returns num/den·e^(−s·delay) after checking that the arithmetic
+// that produced it did not overflow: ErrNotFinite names the operation.
+func checked(what string, num, den poly.Poly, delay, ts float64) (TF, error) {
+	if !num.IsFinite() || !den.IsFinite() || math.IsInf(delay, 0) || math.IsNaN(delay) {
+		return TF{}, fmt.Errorf("%w: the coefficients or dead time of the %s overflow float64", ErrNotFinite, what)
+	}
+	if den.IsZero() {
+		return TF{}, fmt.Errorf("%w: the denominator of the %s underflows to zero", ErrZeroDenominator, what)
+	}
+	return TF{num: num, den: den, delay: delay, ts: ts}, nil
+}
 
 func one(ts float64) TF { return TF{num: poly.Constant(1), den: poly.Constant(1), ts: ts} }

@@ -531,6 +531,9 @@ func TestDiscretizeErrors(t *testing.T) {
 		{"fractional delay matched", gDelay, 0.1, MatchedPoleZero, nil, ErrFractionalDelay},
 		{"matched zero on the sampling frequency", MustParse("(s^2 + 3947.8417604357433)/(s+1)^2"), 0.1, MatchedPoleZero, nil, ErrNumerical},
 		{"ZOH overflow", MustParse("1/(s-1000)"), 10, ZeroOrderHold, nil, ErrNotFinite},
+		{"ZOH ‖AT‖ overflow", MustParse("1e300/(s+1e300)"), 1e300, ZeroOrderHold, nil, ErrNotFinite},
+		{"ZOH pole far too fast", MustParse("1e100/(s+1e100)"), 1e-3, ZeroOrderHold, nil, ErrNumerical},
+		{"FOH pole far too fast", MustParse("1e12/(s+1e12)"), 1, FirstOrderHold, nil, ErrNumerical},
 	}
 	for _, test := range tests {
 		t.Run(test.name, func(t *testing.T) {
@@ -785,5 +788,25 @@ func TestDiscretizeStaticGainProperty(t *testing.T) {
 				}
 			}
 		}
+	}
+}
+
+// TestZeroOrderHoldFastPoles: for poles much faster than the sample
+// period the matrix exponential (scaling and squaring) loses about
+// 0.13·ε·‖AT‖ relative accuracy; the closed form (1 − e^{−aT})/(z − e^{−aT})
+// is met within ε·aT, and beyond ‖AT‖ = 1e9 Discretize refuses.
+func TestZeroOrderHoldFastPoles(t *testing.T) {
+	for _, aT := range []float64{1e3, 1e5, 1e7} {
+		gd, err := MustNew([]float64{aT}, []float64{1, aT}).Discretize(1, ZeroOrderHold, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := -math.Expm1(-aT)
+		if got := gd.Num().Coef(0); math.Abs(got-want) > 0x1p-52*aT {
+			t.Errorf("aT = %g: numerator %.17g, want %.17g", aT, got, want)
+		}
+	}
+	if _, err := MustNew([]float64{1e10}, []float64{1, 1e10}).Discretize(1, ZeroOrderHold, nil); !errors.Is(err, ErrNumerical) {
+		t.Errorf("aT = 1e10: got %v, want ErrNumerical", err)
 	}
 }

@@ -42,13 +42,17 @@ func PadeDelay(delaySec float64, order int) (TF, error) {
 	if delaySec == 0 {
 		return one(0), nil
 	}
-	num, den := padeCoeffs(delaySec, order)
+	num, den, ok := padeCoeffs(delaySec, order)
+	if !ok {
+		return TF{}, fmt.Errorf("%w: the Padé coefficients of order %d for a dead time of %v s overflow float64", ErrNotFinite, order, delaySec)
+	}
 	return FromPolys(num, den, 0)
 }
 
 // padeCoeffs returns the numerator and denominator of the (n, n) Padé
-// approximant of e^(−sT), scaled so that the constant terms are 1.
-func padeCoeffs(T float64, n int) (num, den poly.Poly) {
+// approximant of e^(−sT), scaled so that the constant terms are 1; ok is
+// false when a coefficient overflows.
+func padeCoeffs(T float64, n int) (num, den poly.Poly, ok bool) {
 	nc := make([]float64, n+1) // ascending powers of s
 	dc := make([]float64, n+1)
 	c := 1.0
@@ -65,9 +69,9 @@ func padeCoeffs(T float64, n int) (num, den poly.Poly) {
 			nc[k] = -c * tk
 		}
 	}
-	num, _ = poly.FromAscending(nc)
-	den, _ = poly.FromAscending(dc)
-	return num, den
+	num, err1 := poly.FromAscending(nc)
+	den, err2 := poly.FromAscending(dc)
+	return num, den, err1 == nil && err2 == nil
 }
 
 // Pade returns the rational transfer function g with its dead time replaced
@@ -98,5 +102,5 @@ func (g TF) Pade(order int) (TF, error) {
 	if err != nil {
 		return TF{}, err
 	}
-	return g.WithoutDelay().Series(p)
+	return g.WithoutDelay().Series(p) // Series reports overflow
 }

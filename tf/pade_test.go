@@ -156,6 +156,7 @@ func TestPadeErrors(t *testing.T) {
 		{math.NaN(), 2, ErrNotFinite},
 		{math.Inf(1), 2, ErrNotFinite},
 		{-1, 2, ErrNegativeDelay},
+		{1e300, 5, ErrNotFinite}, // T⁵ overflows
 	} {
 		if _, err := PadeDelay(test.delay, test.order); !errors.Is(err, test.want) {
 			t.Errorf("PadeDelay(%v, %d): got %v, want %v", test.delay, test.order, err, test.want)
@@ -164,7 +165,10 @@ func TestPadeErrors(t *testing.T) {
 	if p, err := PadeDelay(0, 3); err != nil || !p.EqualApprox(MustNew([]float64{1}, []float64{1}), 0) {
 		t.Errorf("zero delay: %v, %v", p, err)
 	}
-	g, _ := MustParse("1/(s+1)").WithDelay(1)
+	g, _ := MustParse("1/(s+1e300)").WithDelay(1e300)
+	if _, err := g.Pade(1); !errors.Is(err, ErrNotFinite) {
+		t.Errorf("Pade with overflowing product: %v", err)
+	}
 	if _, err := g.Pade(-1); !errors.Is(err, ErrOrder) {
 		t.Errorf("Pade(-1): got %v", err)
 	}

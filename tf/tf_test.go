@@ -213,6 +213,21 @@ func TestAlgebraErrors(t *testing.T) {
 	if _, err := PositiveFeedback(one, one); !errors.Is(err, ErrZeroDenominator) {
 		t.Errorf("1/(1 − 1): %v", err)
 	}
+	// Overflow is an error, not a value with infinite coefficients.
+	huge := MustNew([]float64{1}, []float64{1e200, 1})
+	if _, err := huge.Series(huge); !errors.Is(err, ErrNotFinite) {
+		t.Errorf("overflowing series: %v", err)
+	}
+	if _, err := huge.Scale(1e200); err != nil {
+		t.Errorf("scale: %v", err) // 1e200/(1e200 s + 1): the numerator is fine
+	}
+	if _, err := MustNew([]float64{1e300}, []float64{1, 1}).Scale(1e10); !errors.Is(err, ErrNotFinite) {
+		t.Errorf("overflowing scale: %v", err)
+	}
+	longDelay, _ := g.WithDelay(1e308)
+	if _, err := longDelay.Series(longDelay); !errors.Is(err, ErrNotFinite) {
+		t.Errorf("overflowing dead time: %v", err)
+	}
 	// A zero term adds no dead time to a sum.
 	zeroDelayed, _ := TF{}.WithDelay(0.5)
 	for _, p := range [][2]TF{{zeroDelayed, g}, {g, zeroDelayed}} {
