@@ -79,6 +79,11 @@ func TestFiguresRender(t *testing.T) {
 					t.Errorf("SVG does not contain %q", w)
 				}
 			}
+			for _, bad := range []string{"#-", "NaN", "Inf"} {
+				if strings.Contains(s, bad) {
+					t.Errorf("SVG contains %q (an invalid colour or coordinate)", bad)
+				}
+			}
 			if !strings.Contains(s, "font-family:'Liberation Sans',Arial,Helvetica,sans-serif") {
 				t.Errorf("SVG does not name the fallback fonts")
 			}

@@ -19,7 +19,7 @@ func (t Theme) background() color.Color { return color.White }
 func newPanel(th Theme, title, xLabel, yLabel string) *plot.Plot {
 	p := plot.New()
 	p.TextHandler = textHandler()
-	p.BackgroundColor = color.Transparent
+	p.BackgroundColor = nil // the figure paints one background for all panels
 	p.Title.Text = title
 	p.Title.TextStyle = th.textStyle(th.FontSizeTitle, true, draw.XCenter, draw.YTop)
 	p.Title.Padding = vg.Points(6)
