@@ -39,7 +39,25 @@ func (p Poly) RootsBackwardError(roots []complex128) (float64, error) {
 			return 0, fmt.Errorf("%w: root %d is %v", ErrNotFinite, i, r)
 		}
 	}
-	nf := func() *big.Float { return new(big.Float).SetPrec(bigPrecision) }
+	eta := backwardError(p.c, roots)
+	if math.IsNaN(eta) {
+		return 0, fmt.Errorf("%w: backward error is NaN", ErrNotFinite)
+	}
+	return eta, nil
+}
+
+// backwardError computes η of RootsBackwardError for ascending
+// coefficients c (len(roots) = len(c) − 1) in math/big at bigPrecision
+// bits.
+func backwardError(c []float64, roots []complex128) float64 {
+	return backwardErrorPrec(c, roots, bigPrecision)
+}
+
+// backwardErrorPrec is backwardError at prec bits. Rebuilding ∏(x − rᵢ)
+// at prec bits adds a relative error of about n·2⁻ᵖʳᵉᶜ·∏(1+|rᵢ|)/‖q‖.
+func backwardErrorPrec(c []float64, roots []complex128, prec uint) float64 {
+	n := len(c) - 1
+	nf := func() *big.Float { return new(big.Float).SetPrec(prec) }
 	// q̂ by ascending powers, real and imaginary parts.
 	re := make([]*big.Float, n+1)
 	im := make([]*big.Float, n+1)
@@ -47,36 +65,39 @@ func (p Poly) RootsBackwardError(roots []complex128) (float64, error) {
 		re[i], im[i] = nf(), nf()
 	}
 	re[0].SetFloat64(1)
-	t1, t2 := nf(), nf()
+	t1, t2, tr, ti := nf(), nf(), nf(), nf()
 	rr, ri := nf(), nf()
 	for k, r := range roots {
 		rr.SetFloat64(real(r))
 		ri.SetFloat64(imag(r))
-		// Multiply by (x − r): new[i] = old[i−1] − r·old[i].
+		// Multiply by (x − r) in place, highest power first:
+		// new[i] = old[i−1] − r·old[i].
 		for i := k + 1; i >= 0; i-- {
-			nr, ni := nf(), nf()
-			if i > 0 {
-				nr.Set(re[i-1])
-				ni.Set(im[i-1])
-			}
 			if i <= k {
-				t1.Mul(rr, re[i])
-				t2.Mul(ri, im[i])
-				nr.Sub(nr, t1)
-				nr.Add(nr, t2)
-				t1.Mul(rr, im[i])
+				tr.Mul(rr, re[i])
+				t1.Mul(ri, im[i])
+				tr.Sub(tr, t1)
+				ti.Mul(rr, im[i])
 				t2.Mul(ri, re[i])
-				ni.Sub(ni, t1)
-				ni.Sub(ni, t2)
+				ti.Add(ti, t2)
+			} else {
+				tr.SetFloat64(0)
+				ti.SetFloat64(0)
 			}
-			re[i], im[i] = nr, ni
+			if i > 0 {
+				re[i].Sub(re[i-1], tr)
+				im[i].Sub(im[i-1], ti)
+			} else {
+				re[i].Neg(tr)
+				im[i].Neg(ti)
+			}
 		}
 	}
-	lead := nf().SetFloat64(p.Lead())
+	lead := nf().SetFloat64(c[n])
 	num, den := nf(), nf()
 	q, d := nf(), nf()
 	for i := 0; i <= n; i++ {
-		q.SetFloat64(p.c[i])
+		q.SetFloat64(c[i])
 		q.Quo(q, lead)
 		d.Sub(re[i], q)
 		d.Mul(d, d)
@@ -90,8 +111,5 @@ func (p Poly) RootsBackwardError(roots []complex128) (float64, error) {
 	den.Sqrt(den)
 	num.Quo(num, den)
 	eta, _ := num.Float64()
-	if math.IsNaN(eta) {
-		return 0, fmt.Errorf("%w: backward error is NaN", ErrNotFinite)
-	}
-	return eta, nil
+	return eta
 }

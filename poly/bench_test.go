@@ -28,7 +28,7 @@ func referenceRoots(p Poly, start []complex128) []complex128 {
 	out := make([]complex128, len(start))
 	for i, z := range start {
 		for range 3 {
-			z -= bigHorner(p.c, z) / hornerDeriv(p.c, z)
+			z -= bigHorner(p.c, z) / newTaylor(p.c).deriv(z)
 		}
 		out[i] = z
 	}
@@ -105,8 +105,9 @@ func BenchmarkRoots(b *testing.B) {
 			for b.Loop() {
 				i := k % len(ps)
 				copy(z, eigs[i])
-				aberth(scs[i], z)
-				finish(scs[i], z, nil)
+				tc := newTaylor(scs[i])
+				aberth(tc, z)
+				finish(tc, z, nil)
 				k++
 			}
 		})

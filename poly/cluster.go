@@ -34,6 +34,8 @@ import (
 //     on exactly split Taylor coefficients; c is real when the group
 //     straddles the real axis.
 //  3. The group is accepted as an m-fold root at c when
+//     (o) it is isolated: every other computed root is farther than 3·rad
+//     from c, rad being the largest distance of a member from c; and
 //     (a) every member lies within 4·ρₘ(c) of c, ρₘ(c) =
 //     (u·p̃(|c|)·m!/|p⁽ᵐ⁾(c)|)^(1/m), the scatter radius above; and
 //     (b) the componentwise backward error of the m-fold root is at most
@@ -67,6 +69,15 @@ import (
 // them, one of 1e-12 would merge roots 1 and 1 + 2e-6).
 const defaultClusterTolerance = 8 * unitRoundoff
 
+// clusterIsolationFactor: a group of computed roots is a candidate
+// multiple root only if every other computed root is farther from its
+// centre than this factor times the group's radius. Without it, a
+// polynomial with a high-order cluster, such as (x+0.7)¹²(x+0.71)¹², whose
+// roots scatter over a disc of radius 0.35, would let any handful of
+// nearby points pass the backward-error test (inside that disc every point
+// is a 6-fold root of a polynomial within 8u).
+const clusterIsolationFactor = 3
+
 // clusterRadiusFactor is the factor K in condition (a), |zᵢ − c| ≤ K·ρₘ(c):
 // the true roots of a polynomial perturbed by u lie within about ρₘ; K = 4
 // leaves room for perturbations of a few u. Condition (b) is the sharp test.
@@ -74,11 +85,12 @@ const clusterRadiusFactor = 4
 
 // findClusters groups the refined roots z of p (ascending c) into simple
 // and multiple roots.
-func findClusters(c []float64, z []complex128, tol float64) []candidate {
+func findClusters(tc *taylor, z []complex128, tol float64) []candidate {
 	n := len(z)
+	c := tc.c
 	kappa := make([]float64, n)
 	for i, v := range z {
-		kappa[i] = unitRoundoff * absPoly(c, abs(v)) / abs(hornerDeriv(c, v))
+		kappa[i] = unitRoundoff * absPoly(c, abs(v)) / abs(tc.deriv(v))
 	}
 	// Union–find over the neighbour graph.
 	parent := make([]int, n)
@@ -110,14 +122,13 @@ func findClusters(c []float64, z []complex128, tol float64) []candidate {
 		comps[r] = append(comps[r], i)
 	}
 	var out []candidate
-	tc := newTaylor(c)
 	// Components entirely in the lower half-plane are mirrored from their
 	// upper partner so that multiple complex roots come in exact pairs.
 	done := map[int][]candidate{}
 	for _, r := range roots {
 		idx := comps[r]
 		if len(idx) == 1 {
-			out = append(out, candidate{z: z[idx[0]], m: 1, noise: simpleNoise(c, z[idx[0]])})
+			out = append(out, candidate{z: z[idx[0]], m: 1, noise: simpleNoise(tc, z[idx[0]])})
 			continue
 		}
 		if allBelow(z, idx) {
@@ -139,8 +150,20 @@ func findClusters(c []float64, z []complex128, tol float64) []candidate {
 			if len(uidx) != len(idx) || !mirrors(z, uidx, idx) {
 				continue
 			}
+			used := map[int]bool{}
 			for _, cd := range res {
-				out = append(out, candidate{z: conj(cd.z), m: cd.m, noise: cd.noise})
+				var mem []int
+				for _, i := range cd.members {
+					best, bd := -1, math.Inf(1)
+					for _, j := range idx {
+						if d := abs(conj(z[i]) - z[j]); !used[j] && d < bd {
+							best, bd = j, d
+						}
+					}
+					used[best] = true
+					mem = append(mem, best)
+				}
+				out = append(out, candidate{z: conj(cd.z), m: cd.m, noise: cd.noise, members: mem})
 			}
 			delete(done, ur)
 			mirrored = true
@@ -166,7 +189,7 @@ func allBelow(z []complex128, idx []int) bool {
 
 // mirrors reports whether the conjugates of the points a lie near the
 // points b: every conj(z[a_i]) is closer to some z[b_j] than the diameter of
-// the two sets.
+// a (or 1e-6·|z[a_i]|, if larger).
 func mirrors(z []complex128, a, b []int) bool {
 	diam := 0.0
 	for _, i := range a {
@@ -177,7 +200,7 @@ func mirrors(z []complex128, a, b []int) bool {
 	for _, i := range a {
 		near := false
 		for _, j := range b {
-			if abs(conj(z[i])-z[j]) <= diam {
+			if abs(conj(z[i])-z[j]) <= math.Max(diam, 1e-6*abs(z[i])) {
 				near = true
 				break
 			}
@@ -194,14 +217,20 @@ func splitComponent(tc *taylor, z []complex128, idx []int, tol float64) []candid
 	remaining := append([]int(nil), idx...)
 	var out []candidate
 	for len(remaining) >= 2 {
+		// For every member, the others by increasing distance: the group
+		// of its m nearest is a prefix.
+		orders := make([][]int, len(remaining))
+		for k, seed := range remaining {
+			orders[k] = byDistance(z, remaining, seed)
+		}
 		found := false
 		for m := len(remaining); m >= 2 && !found; m-- {
 			var best candidate
 			var bestSet []int
 			bestEta := math.Inf(1)
 			seen := map[string]bool{}
-			for _, seed := range remaining {
-				set := nearest(z, remaining, seed, m)
+			for k := range remaining {
+				set := orders[k][:m]
 				key := setKey(set)
 				if seen[key] {
 					continue
@@ -223,29 +252,40 @@ func splitComponent(tc *taylor, z []complex128, idx []int, tol float64) []candid
 		}
 	}
 	for _, i := range remaining {
-		out = append(out, candidate{z: z[i], m: 1, noise: simpleNoise(tc.c, z[i])})
+		out = append(out, candidate{z: z[i], m: 1, noise: simpleNoise(tc, z[i])})
 	}
 	return out
 }
 
-// nearest returns the m indices of pool nearest to z[seed] (seed first).
-func nearest(z []complex128, pool []int, seed, m int) []int {
-	s := append([]int(nil), pool...)
-	slices.SortStableFunc(s, func(a, b int) int {
-		da, db := abs(z[a]-z[seed]), abs(z[b]-z[seed])
-		switch {
-		case a == seed:
-			return -1
-		case b == seed:
-			return 1
-		case da < db:
-			return -1
-		case da > db:
+// byDistance returns pool sorted by increasing distance from z[seed]
+// (seed first, ties by index).
+func byDistance(z []complex128, pool []int, seed int) []int {
+	type item struct {
+		i int
+		d float64
+	}
+	items := make([]item, len(pool))
+	for k, i := range pool {
+		dz := z[i] - z[seed]
+		items[k] = item{i, real(dz)*real(dz) + imag(dz)*imag(dz)}
+		if i == seed {
+			items[k].d = -1
+		}
+	}
+	slices.SortFunc(items, func(a, b item) int {
+		if a.d != b.d {
+			if a.d < b.d {
+				return -1
+			}
 			return 1
 		}
-		return a - b
+		return a.i - b.i
 	})
-	return s[:m]
+	out := make([]int, len(pool))
+	for k, it := range items {
+		out[k] = it.i
+	}
+	return out
 }
 
 func setKey(set []int) string {
@@ -262,6 +302,14 @@ func setKey(set []int) string {
 // multiplicity m; it returns the candidate, its backward error and whether
 // it is accepted.
 func testGroup(tc *taylor, z []complex128, set []int, m int, tol float64) (candidate, float64, bool) {
+	isolated := func(c complex128, rad float64) bool {
+		for i, v := range z {
+			if !slices.Contains(set, i) && abs(v-c) <= clusterIsolationFactor*rad {
+				return false
+			}
+		}
+		return true
+	}
 	var mean complex128
 	up, down := false, false
 	for _, i := range set {
@@ -274,16 +322,22 @@ func testGroup(tc *taylor, z []complex128, set []int, m int, tol float64) (candi
 	for _, i := range set {
 		rad0 = math.Max(rad0, abs(z[i]-mean))
 	}
+	if !isolated(mean, rad0) {
+		return candidate{}, 0, false
+	}
 	if up && down || math.Abs(imag(mean)) <= rad0 {
 		mean = complex(real(mean), 0)
 	}
 	cen, noise, ok := tc.newtonRoot(m-1, mean)
-	if !ok || abs(cen-mean) > 2*rad0+4*unitRoundoff*abs(mean) {
+	if !ok {
 		return candidate{}, 0, false
 	}
 	rad := 0.0
 	for _, i := range set {
 		rad = math.Max(rad, abs(z[i]-cen))
+	}
+	if !isolated(cen, rad) {
+		return candidate{}, 0, false
 	}
 	tm := abs(tc.evalPlain(m, cen))
 	if tm == 0 {
@@ -294,7 +348,79 @@ func testGroup(tc *taylor, z []complex128, set []int, m int, tol float64) (candi
 		return candidate{}, 0, false
 	}
 	eta := tc.multipleBackwardError(cen, m)
-	return candidate{z: cen, m: m, noise: noise}, eta, eta <= tol
+	return candidate{z: cen, m: m, noise: noise, members: slices.Clone(set)}, eta, eta <= tol
+}
+
+// checkConsistency keeps a recognised multiple root only if the whole root
+// set stays a root set of a nearby polynomial. The cluster test is local:
+// the perturbation that makes c an m-fold root also moves the other roots,
+// which is harmless when they are well conditioned but not, for instance,
+// on Wilkinson's polynomial of degree 25, where a perturbation of 8u moves
+// every root near 15 by about 1. So the normwise backward error (see
+// RootsBackwardError) of the set with the merge must not exceed
+// max(2·η₀, 64u), η₀ being that of the unmerged approximations (both
+// computed at 128 bits, ample for a comparison at the level of u); merges
+// that fail (with their conjugate partner) are undone.
+func checkConsistency(tc *taylor, z []complex128, cands []candidate) []candidate {
+	var multi []int
+	for i, cd := range cands {
+		if cd.m > 1 {
+			multi = append(multi, i)
+		}
+	}
+	if len(multi) == 0 {
+		return cands
+	}
+	limit := math.Max(2*backwardErrorPrec(tc.c, z, 128), 64*unitRoundoff)
+	with := func(groups []int) []complex128 {
+		drop := map[int]bool{}
+		var set []complex128
+		for _, g := range groups {
+			for _, i := range cands[g].members {
+				drop[i] = true
+			}
+			for range cands[g].m {
+				set = append(set, cands[g].z)
+			}
+		}
+		for i, v := range z {
+			if !drop[i] {
+				set = append(set, v)
+			}
+		}
+		return set
+	}
+	if backwardErrorPrec(tc.c, with(multi), 128) <= limit {
+		return cands
+	}
+	reject := map[int]bool{}
+	for _, g := range multi {
+		if backwardErrorPrec(tc.c, with([]int{g}), 128) > limit {
+			reject[g] = true
+		}
+	}
+	// Keep decisions symmetric under conjugation.
+	for _, g := range multi {
+		if reject[g] || imag(cands[g].z) == 0 {
+			continue
+		}
+		for _, h := range multi {
+			if reject[h] && cands[h].m == cands[g].m && abs(cands[h].z-conj(cands[g].z)) <= 1e-8*abs(cands[g].z) {
+				reject[g] = true
+			}
+		}
+	}
+	var out []candidate
+	for i, cd := range cands {
+		if !reject[i] {
+			out = append(out, cd)
+			continue
+		}
+		for _, j := range cd.members {
+			out = append(out, candidate{z: z[j], m: 1, noise: simpleNoise(tc, z[j])})
+		}
+	}
+	return out
 }
 
 // taylor holds the Taylor-coefficient polynomials Tⱼ(x) = p⁽ʲ⁾(x)/j! =

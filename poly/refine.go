@@ -1,6 +1,7 @@
 package poly
 
 import (
+	"fmt"
 	"math"
 	"math/big"
 	"slices"
@@ -51,6 +52,9 @@ const (
 	// evaluation: 256 bits make its error about 2⁻²⁵⁶·p̃(|z|), negligible
 	// next to the 2⁻¹⁰⁶·p̃(|z|) of the compensated scheme.
 	bigPrecision = 256
+	// kickWindow is the number of Aberth sweeps over which a step must
+	// halve; otherwise the approximation is moved (see aberth).
+	kickWindow = 6
 )
 
 // candidate is a root in the pipeline: its value (in the scaled variable),
@@ -61,6 +65,9 @@ type candidate struct {
 	z     complex128
 	m     int
 	noise float64
+	// members are the indices of the refined approximations merged into
+	// a multiple root (nil for a simple root).
+	members []int
 }
 
 // rootsNonZero returns the roots of the polynomial with ascending
@@ -84,27 +91,65 @@ func rootsNonZero(c []float64, s *RootSettings) ([]Root, error) {
 			return nil, err
 		}
 		z = vals
-		aberth(sc, z)
+		tc := newTaylor(sc)
+		aberth(tc, z)
+		if bad := unconverged(tc, z); len(bad) > 0 {
+			// Second chance: move the stragglers off their spot by a
+			// thousandth of their modulus (off the real axis) and
+			// iterate again from the whole set.
+			for _, k := range bad {
+				z[k] += complex(0, 1e-3*math.Max(abs(z[k]), 0x1p-1000))
+			}
+			aberth(tc, z)
+			if bad := unconverged(tc, z); len(bad) > 0 {
+				return nil, fmt.Errorf("%w: %d of %d roots of the degree-%d polynomial (for example near %v) did not converge", ErrNoConvergence, len(bad), n, n, complex(math.Ldexp(real(z[bad[0]]), e), math.Ldexp(imag(z[bad[0]]), e)))
+			}
+		}
 	}
-	return unscale(finish(sc, z, s), e), nil
+	cands, err := finish(newTaylor(sc), z, s)
+	if err != nil {
+		return nil, err
+	}
+	return unscale(cands, e), nil
+}
+
+// unconverged returns the indices of approximations that are not roots of
+// a nearby polynomial: a z is kept when its componentwise backward error
+// |p(z)|/p̃(|z|) is at most 4n·u (a root rounded to float64 has about
+// |z·p′(z)|·u/p̃(|z|) ≤ n·u; members of a cluster have far less). This is
+// a safety net against iterations that stopped early, not the accuracy
+// test of the refinement.
+func unconverged(tc *taylor, z []complex128) []int {
+	var bad []int
+	n := len(tc.c) - 1
+	for k, v := range z {
+		f, fb := evalComp(tc.c, v)
+		if !(abs(f) <= 4*float64(n)*unitRoundoff*absPoly(tc.c, abs(v))+fb) {
+			bad = append(bad, k)
+		}
+	}
+	return bad
 }
 
 // finish turns refined approximations z of the roots of the scaled
 // polynomial sc into the final candidates: clusters, math/big fallback,
 // symmetry.
-func finish(sc []float64, z []complex128, s *RootSettings) []candidate {
+func finish(tc *taylor, z []complex128, s *RootSettings) ([]candidate, error) {
 	var cands []candidate
 	if s.clusterTolerance() > 0 {
-		cands = findClusters(sc, z, s.clusterTolerance())
+		cands = findClusters(tc, z, s.clusterTolerance())
+		cands = checkConsistency(tc, z, cands)
 	} else {
 		cands = make([]candidate, len(z))
 		for i, v := range z {
-			cands[i] = candidate{z: v, m: 1, noise: simpleNoise(sc, v)}
+			cands[i] = candidate{z: v, m: 1, noise: simpleNoise(tc, v)}
 		}
 	}
-	polishWithBig(sc, cands)
-	symmetrize(cands)
-	return cands
+	polishWithBig(tc, cands)
+	if k := symmetrize(tc, cands); k > 0 {
+		return nil, fmt.Errorf("%w: %d complex roots found without their conjugate", ErrNoConvergence, k)
+	}
+	return cands, nil
 }
 
 // scaleToUnitRoots returns the coefficients of p(2ᵉ·y)/2^k for the e that
@@ -138,22 +183,12 @@ func unscale(cands []candidate, e int) []Root {
 	return out
 }
 
-// hornerDeriv returns p′(z) by plain Horner's scheme (its relative accuracy
-// only affects the speed of Newton's method, not its limiting accuracy).
-func hornerDeriv(c []float64, z complex128) complex128 {
-	n := len(c) - 1
-	if imag(z) == 0 {
-		x := real(z)
-		d := 0.0
-		for i := n; i >= 1; i-- {
-			d = d*x + float64(i)*c[i]
-		}
-		return complex(d, 0)
-	}
-	var d complex128
-	for i := n; i >= 1; i-- {
-		d = d*z + complex(float64(i)*c[i], 0)
-	}
+// deriv returns p′(z) from the exactly split coefficients (k+1)·a_{k+1}
+// by the compensated scheme. Plain Horner would not do: near the roots of
+// an ill-conditioned polynomial (Wilkinson's of degree 25, say) its error
+// γ₂ₙ·p̃′(|z|) exceeds |p′(z)| itself, and Newton's method then wanders.
+func (t *taylor) deriv(z complex128) complex128 {
+	d, _ := t.eval(1, z)
 	return d
 }
 
@@ -168,9 +203,9 @@ func evalComp(c []float64, z complex128) (complex128, float64) {
 
 // simpleNoise returns the uncertainty of z as a simple root of p caused by
 // rounding in the compensated residual: errBound/|p′(z)|.
-func simpleNoise(c []float64, z complex128) float64 {
-	_, eb := evalComp(c, z)
-	return eb / abs(hornerDeriv(c, z))
+func simpleNoise(tc *taylor, z complex128) float64 {
+	_, eb := evalComp(tc.c, z)
+	return eb / abs(tc.deriv(z))
 }
 
 // aberth refines all roots z of p (ascending coefficients c) in place by the
@@ -178,14 +213,26 @@ func simpleNoise(c []float64, z complex128) float64 {
 //
 //	zₖ ← zₖ − p(zₖ) / (p′(zₖ) − p(zₖ)·Σⱼ≠ₖ 1/(zₖ − zⱼ)),
 //
-// with p(zₖ) from the compensated Horner scheme. A root stops when its step
+// with p(zₖ) and p′(zₖ) from the compensated Horner scheme. A root stops when its step
 // falls below 2u·|zₖ| (the next step would not change it), when the step is
 // below the noise of the residual (errBound/|p′|; this is where members of
 // a cluster stop), or when the values stop being finite.
-func aberth(c []float64, z []complex128) {
+func aberth(tc *taylor, z []complex128) {
+	c := tc.c
 	n := len(z)
+	// Equal starting values (the eigen solver can return a double root
+	// twice exactly) would receive equal corrections forever: separate
+	// them by a relative 2⁻²⁶ ≈ 1.5e-8 off the real axis.
+	for k := range z {
+		for j := range k {
+			if z[j] == z[k] {
+				z[k] += complex(0, 0x1p-26*math.Max(abs(z[k]), 0x1p-1000))
+			}
+		}
+	}
 	done := make([]bool, n)
-	prev := make([]float64, n)
+	hist := make([][kickWindow]float64, n)
+	lastKick := make([]int, n)
 	for it := range maxAberthIterations {
 		active := false
 		for k := range z {
@@ -198,7 +245,7 @@ func aberth(c []float64, z []complex128) {
 				done[k] = true
 				continue
 			}
-			d := hornerDeriv(c, zk)
+			d := tc.deriv(zk)
 			var s complex128
 			for j, zj := range z {
 				if j != k && zj != zk {
@@ -217,17 +264,28 @@ func aberth(c []float64, z []complex128) {
 				done[k] = true
 				continue
 			}
-			// The real axis is invariant under the iteration for a real
-			// polynomial, so a real approximation can never reach a
-			// complex root (for instance when the eigenvalues of a
-			// nearly double complex pair come out as two real numbers).
-			// A real approximation that stops converging fast (its step
-			// no longer halves) is moved off the axis by the size of its
-			// step; if the root is real, the iteration brings it back.
-			if it >= 3 && imag(z[k]) == 0 && ad > 0.5*prev[k] {
-				z[k] = complex(real(z[k]), ad)
+			// Two symmetries can trap an approximation for good: the real
+			// axis is invariant under the iteration for a real polynomial
+			// (a real approximation never reaches a complex root, for
+			// instance when the eigenvalues of a nearly double complex
+			// pair come out real), and so is the perpendicular bisector
+			// of two close roots (an exact conjugate pair of eigenvalues
+			// with the real part of the midpoint of two close real roots
+			// takes only imaginary steps). An approximation whose step
+			// stops shrinking (it has not halved over the last
+			// kickWindow sweeps; linear convergence to a multiple root is
+			// faster) is
+			// moved by the size of its step, at most its distance to the
+			// nearest other approximation, in a direction that belongs to
+			// neither symmetry (golden-angle turns); the iteration then
+			// resumes from there.
+			hist[k][it%kickWindow] = ad
+			if it-lastKick[k] >= kickWindow && ad > 0.5*hist[k][(it+1)%kickWindow] {
+				theta := 2.399963229728653 * float64(it+k+1) // golden angle, radians
+				r := math.Min(ad, nearestOther(z, k))
+				z[k] += complex(r*math.Cos(theta), r*math.Sin(theta))
+				lastKick[k] = it
 			}
-			prev[k] = ad
 			active = true
 		}
 		if !active {
@@ -236,12 +294,25 @@ func aberth(c []float64, z []complex128) {
 	}
 }
 
+// nearestOther returns the distance from z[k] to the nearest other
+// approximation (+Inf when there is none).
+func nearestOther(z []complex128, k int) float64 {
+	d := math.Inf(1)
+	for j, v := range z {
+		if j != k {
+			d = math.Min(d, abs(v-z[k]))
+		}
+	}
+	return d
+}
+
 // polishWithBig re-polishes simple roots whose compensated residual is too
 // noisy: Newton steps (with the Aberth correction against the other roots,
 // so a step cannot jump to a neighbour) whose residual p(z) is evaluated in
 // math/big at bigPrecision bits from the exact double coefficients and the
 // exact double argument.
-func polishWithBig(c []float64, cands []candidate) {
+func polishWithBig(tc *taylor, cands []candidate) {
+	c := tc.c
 	for k := range cands {
 		ck := &cands[k]
 		if ck.m != 1 || !(ck.noise > bigFallbackUlps*unitRoundoff*abs(ck.z)) || math.IsInf(ck.noise, 0) {
@@ -254,7 +325,7 @@ func polishWithBig(c []float64, cands []candidate) {
 			if f == 0 {
 				break
 			}
-			d := hornerDeriv(c, z)
+			d := tc.deriv(z)
 			var s complex128
 			for j, o := range cands {
 				if j != k && o.z != z {
@@ -305,9 +376,16 @@ func bigHorner(c []float64, z complex128) complex128 {
 // 2·noise)) of the axis becomes real, and every remaining root in the upper
 // half-plane is paired with the nearest unused root of the same
 // multiplicity in the lower half-plane; both are replaced by the average of
-// the pair, mirrored. A root left without a partner (not seen in testing)
-// is made real when its imaginary part is within √u·|z|.
-func symmetrize(cands []candidate) {
+// the pair, mirrored, provided the two are within 1e-6 relative (plus
+// their noise) of being mirror images.
+//
+// A complex simple root left without a partner (members of an
+// unrecognised cluster, which stop anywhere in the cluster's disc) is then
+// made real if its imaginary part is within its first-order sensitivity
+// κ = u·p̃(|z|)/|p′(z)| (a relative coefficient change of u can make it
+// real), and the pairing is repeated. It returns the number of complex
+// roots still without a partner (0 unless the iteration failed).
+func symmetrize(tc *taylor, cands []candidate) int {
 	for i := range cands {
 		c := &cands[i]
 		tol := math.Max(4*unitRoundoff*abs(c.z), 2*c.noise)
@@ -315,6 +393,34 @@ func symmetrize(cands []candidate) {
 			c.z = complex(real(c.z), 0)
 		}
 	}
+	used := pairConjugates(cands)
+	snapped := false
+	for i := range cands {
+		c := &cands[i]
+		if used[i] || imag(c.z) == 0 || c.m != 1 {
+			continue
+		}
+		kappa := unitRoundoff * absPoly(tc.c, abs(c.z)) / abs(tc.deriv(c.z))
+		if math.Abs(imag(c.z)) <= kappa {
+			c.z = complex(real(c.z), 0)
+			snapped = true
+		}
+	}
+	if snapped {
+		used = pairConjugates(cands)
+	}
+	unpaired := 0
+	for i := range cands {
+		if !used[i] && imag(cands[i].z) != 0 {
+			unpaired++
+		}
+	}
+	return unpaired
+}
+
+// pairConjugates pairs the complex roots (see symmetrize) and reports which
+// are paired.
+func pairConjugates(cands []candidate) []bool {
 	order := make([]int, len(cands))
 	for i := range order {
 		order[i] = i
@@ -327,7 +433,6 @@ func symmetrize(cands []candidate) {
 		if used[i] || imag(cands[i].z) <= 0 {
 			continue
 		}
-		used[i] = true
 		u := cands[i].z
 		best, bd := -1, math.Inf(1)
 		for j := range cands {
@@ -338,19 +443,14 @@ func symmetrize(cands []candidate) {
 				best, bd = j, d
 			}
 		}
-		if best < 0 {
-			used[i] = false
+		if best < 0 || bd > 1e-6*abs(u)+4*(cands[i].noise+cands[best].noise) {
 			continue
 		}
-		used[best] = true
+		used[i], used[best] = true, true
 		l := cands[best].z
 		v := complex((real(u)+real(l))/2, (imag(u)-imag(l))/2)
 		cands[i].z = v
 		cands[best].z = complex(real(v), -imag(v))
 	}
-	for i := range cands {
-		if !used[i] && imag(cands[i].z) != 0 && math.Abs(imag(cands[i].z)) <= math.Sqrt(unitRoundoff)*abs(cands[i].z) {
-			cands[i].z = complex(real(cands[i].z), 0)
-		}
-	}
+	return used
 }

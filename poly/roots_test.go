@@ -252,7 +252,7 @@ func TestRootsBackwardErrorRandom(t *testing.T) {
 			polished := slices.Clone(rs)
 			for i, z := range polished {
 				for range 3 {
-					z -= bigHorner(p.c, z) / hornerDeriv(p.c, z)
+					z -= bigHorner(p.c, z) / newTaylor(p.c).deriv(z)
 				}
 				polished[i] = z
 			}
