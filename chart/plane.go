@@ -14,34 +14,36 @@ import (
 // valuedPoint is a point of the plane with the label that goes beside it.
 type valuedPoint struct {
 	At    complex128
+	Value float64 // value of the locus variable there
 	Label string
 }
 
 // planeSpec is everything a complex-plane figure (root locus or pole–zero
 // map) may show, already in plain numbers.
 type planeSpec struct {
-	th          Theme
-	size        Size
-	title       string
-	discrete    bool
-	sampleTime  float64
-	poles       []poly.Root
-	zeros       []poly.Root
-	branches    [][]complex128
-	colourIndex []int // palette index per branch; nil means the branch index
-	hasAsym     bool
-	centroid    float64
-	anglesDeg   []float64
-	breaks      []valuedPoint
-	crossings   []valuedPoint
-	marked      []complex128
-	markedLabel string
-	dampings    []float64
-	freqs       []float64
-	autoGrid    bool
-	key         []keyEntry
-	mustSee     []complex128 // points the automatic view must show
-	window      *Window      // fixed view; nil = automatic
+	th           Theme
+	size         Size
+	title        string
+	discrete     bool
+	sampleTime   float64
+	poles        []poly.Root
+	zeros        []poly.Root
+	branches     [][]complex128
+	colourIndex  []int       // palette index per branch; nil means the branch index
+	branchValues [][]float64 // value of the locus variable at each branch point
+	hasAsym      bool
+	centroid     float64
+	anglesDeg    []float64
+	breaks       []valuedPoint
+	crossings    []valuedPoint
+	marked       []complex128
+	markedLabel  string
+	dampings     []float64
+	freqs        []float64
+	autoGrid     bool
+	key          []keyEntry
+	mustSee      []complex128 // points the automatic view must show
+	window       *Window      // fixed view; nil = automatic
 }
 
 // Style constants of complex-plane figures.
@@ -87,6 +89,7 @@ func (s *planeSpec) figure() (*Figure, error) {
 	if !s.discrete {
 		key, left = focus(key, s.mustSee)
 	}
+	key = append(key, s.boundedBranchPoints(key)...)
 	xmin, xmax, ymin, ymax := planeView(key, s.discrete)
 	if w := s.window; w != nil {
 		xmin, xmax, ymin, ymax = w.RealMin, w.RealMax, w.ImagMin, w.ImagMax
@@ -228,6 +231,42 @@ func markedGlyph() draw.GlyphStyle {
 
 func asymptoteLine(th Theme) draw.LineStyle {
 	return draw.LineStyle{Color: th.Axis, Width: th.GuideWidth, Dashes: dashGuide}
+}
+
+// boundedBranchPoints returns the branch points up to the largest value
+// (in magnitude) of the break points and crossings that are in view: the
+// part of the locus where something happens, such as a loop between a
+// break-away and a break-in point, which the key points alone may not
+// frame. Points on the real axis are left out (the segments there run
+// between key points), and so are points farther than twice the farthest
+// key point (they belong to branches on their way to infinity).
+func (s *planeSpec) boundedBranchPoints(key []complex128) []complex128 {
+	if len(s.branchValues) != len(s.branches) || len(key) == 0 {
+		return nil
+	}
+	reach := 0.0
+	for _, z := range key {
+		reach = math.Max(reach, cmplx.Abs(z))
+	}
+	vmax := math.Inf(-1)
+	for _, v := range append(append([]valuedPoint(nil), s.breaks...), s.crossings...) {
+		if cmplx.Abs(v.At) <= reach*(1+1e-9) {
+			vmax = math.Max(vmax, math.Abs(v.Value))
+		}
+	}
+	if math.IsInf(vmax, -1) {
+		return nil
+	}
+	var out []complex128
+	for i, b := range s.branches {
+		for j, z := range b {
+			// Real-axis parts run between key points already framed.
+			if math.Abs(s.branchValues[i][j]) <= vmax && cmplx.Abs(z) <= 2*reach && math.Abs(imag(z)) > 1e-9*reach {
+				out = append(out, z)
+			}
+		}
+	}
+	return out
 }
 
 func poleGlyph() draw.GlyphStyle {

@@ -113,13 +113,16 @@ func RootLocus(l locus.Locus, set *LocusSettings) (*Figure, error) {
 
 	for i, b := range l.Branches {
 		pts := make([]complex128, 0, len(b.Points))
+		vals := make([]float64, 0, len(b.Points))
 		for j, p := range b.Points {
 			if !finite(real(p.S)) || !finite(imag(p.S)) {
 				return nil, fmt.Errorf("%w: branch %d point %d is %v", ErrNotFinite, i, j, p.S)
 			}
 			pts = append(pts, p.S)
+			vals = append(vals, p.Value)
 		}
 		spec.branches = append(spec.branches, pts)
+		spec.branchValues = append(spec.branchValues, vals)
 	}
 	// Colour by closed-loop root index so that a branch split at infinity
 	// keeps its colour.
@@ -134,7 +137,7 @@ func RootLocus(l locus.Locus, set *LocusSettings) (*Figure, error) {
 		if !hide && imag(bp.Point) >= 0 {
 			label = name + " = " + formatNumber(bp.Value, 4)
 		}
-		spec.breaks = append(spec.breaks, valuedPoint{At: bp.Point, Label: label})
+		spec.breaks = append(spec.breaks, valuedPoint{At: bp.Point, Value: bp.Value, Label: label})
 	}
 	// The first crossing (smallest value) decides the stable range: the
 	// automatic view keeps it.
@@ -152,9 +155,9 @@ func RootLocus(l locus.Locus, set *LocusSettings) (*Figure, error) {
 		if !hide {
 			label = fmt.Sprintf("%s = %s at %s rad/s", name, formatNumber(c.Value, 4), formatNumber(c.FrequencyRadPerSec, 3))
 		}
-		spec.crossings = append(spec.crossings, valuedPoint{At: c.Point, Label: label})
+		spec.crossings = append(spec.crossings, valuedPoint{At: c.Point, Value: c.Value, Label: label})
 		if imag(c.Point) != 0 {
-			spec.crossings = append(spec.crossings, valuedPoint{At: complex(real(c.Point), -imag(c.Point))})
+			spec.crossings = append(spec.crossings, valuedPoint{At: complex(real(c.Point), -imag(c.Point)), Value: c.Value})
 		}
 	}
 	if set != nil && set.Mark != nil {
