@@ -150,7 +150,9 @@ const delayTol = 1e-9
 // unknown method, or pre-warping with a method other than Tustin;
 // ErrFrequency for a pre-warping frequency outside (0, π/T); ErrImproper
 // for an improper g (except Tustin); ErrFractionalDelay as above;
-// ErrNumerical if an eigenvalue or linear solve fails.
+// ErrNumerical when ‖A·T‖₁ of the realisation exceeds 1e9 for the holds
+// (the matrix exponential would lose more than about 1e-7 relative
+// accuracy) or an eigenvalue or linear solve fails.
 func (g TF) Discretize(sampleTimeSec float64, method DiscretizeMethod, set *DiscretizeSettings) (TF, error) {
 	T := sampleTimeSec
 	if g.IsDiscrete() {
