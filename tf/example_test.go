@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"log"
 
+	"gonum.org/v1/gonum/mat"
+
 	"github.com/loopwise/loopwise/tf"
 )
 
@@ -96,4 +98,32 @@ func ExampleTF_Discretize() {
 	// Output:
 	// num [8.1973 -7.7967]
 	// den [1 -0.5994]
+}
+
+// A test-stand axis written as state equations: a 2 kg carriage on a
+// 50 N/m spring with 0.6 N·s/m damping, force in, position out.
+func ExampleFromStateSpace() {
+	a := mat.NewDense(2, 2, []float64{0, 1, -25, -0.3})
+	b := mat.NewDense(2, 1, []float64{0, 0.5})
+	c := mat.NewDense(1, 2, []float64{1, 0})
+	d := mat.NewDense(1, 1, []float64{0})
+	g, err := tf.FromStateSpace(a, b, c, d)
+	if err != nil {
+		log.Fatal(err)
+	}
+	fmt.Printf("num %.4g\nden %.4g\n", g.Num().Coeffs(), g.Den().Coeffs())
+	// Output:
+	// num [0.5]
+	// den [1 0.3 25]
+}
+
+// The second-order Padé approximant of a 0.1 s transport delay.
+func ExamplePadeDelay() {
+	p, err := tf.PadeDelay(0.1, 2)
+	if err != nil {
+		log.Fatal(err)
+	}
+	fmt.Println(p)
+	// Output:
+	// (0.0008333333333333335*s^2 - 0.05*s + 1)/(0.0008333333333333335*s^2 + 0.05*s + 1)
 }
