@@ -17,8 +17,8 @@ import (
 // ill-condition", Technical Report 6, Computer Science Department, UC
 // Berkeley) observed that the multiple root itself is well conditioned
 // when the perturbations are restricted to polynomials that keep the
-// multiplicity (the "pejorative manifold"), and Zeng (2004, "Algorithm
-// 835: MultRoot", ACM TOMS 30(2); 2005, "Computing multiple roots of
+// multiplicity (the "pejorative manifold"), and Zeng (2004, Algorithm
+// 835, ACM Trans. Math. Softw. 30(2); 2005, "Computing multiple roots of
 // inexact polynomials", Math. Comp. 74(250)) built a root finder on that
 // idea. We use it in this form:
 //
