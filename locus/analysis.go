@@ -131,10 +131,14 @@ func (p *problem) analyze() (Analysis, error) {
 	}
 	p.asymptotes(&an)
 	an.RealAxisSegments = p.realAxisSegments()
-	an.Departures = p.angles(p.poles, p.zeros, p.a.Lead(), p.b.Lead(), p.startSigns())
-	an.Arrivals = p.angles(p.zeros, p.poles, p.b.Lead(), p.a.Lead(), p.infSigns())
-	an.BreakPoints = p.breakPoints()
-	cr, err := p.crossings()
+	mv := p.moving()
+	an.Departures = mv.angles(mv.poles, mv.zeros, mv.a.Lead(), mv.b.Lead(), p.startSigns())
+	an.Arrivals = mv.angles(mv.zeros, mv.poles, mv.b.Lead(), mv.a.Lead(), p.infSigns())
+	an.BreakPoints = mv.breakPoints()
+	cr, err := mv.crossings()
+	if mv != p {
+		p.notes = append(p.notes, mv.notes...)
+	}
 	if err != nil {
 		return Analysis{}, err
 	}

@@ -1,9 +1,11 @@
 package locus
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"math/cmplx"
+	"slices"
 )
 
 // kMap is a parameterisation k(t) of a piece, with dk/dt.
@@ -392,6 +394,28 @@ func (t *tracer) traceToEnd(nd node, end node) ([][]Point, []int, error) {
 		uMax = math.Log(math.Abs(nd.k-end.k) / (1e-15 * math.Max(1, math.Abs(end.k))))
 	}
 	paths, fin, err := t.cont(km, uMax, nd.slots, nil, nil, 1, stop)
+	if errors.Is(err, ErrTraceFailed) {
+		// Near a multiple limit point (a multiple zero) the converging
+		// roots are only known to about ε^(1/ν), and the continuation can
+		// stall before reaching the stop radius. Accept when every
+		// unfinished root is already close to a free limit point.
+		free := slices.Clone(taken)
+		close := true
+		for i := range n {
+			if to[i] >= 0 {
+				continue
+			}
+			j := nearestSlot(end.slots, free, fin[i])
+			if j < 0 || cabs(fin[i]-end.slots[j]) > 1e-2*t.scale {
+				close = false
+				break
+			}
+			free[j] = true
+		}
+		if close {
+			err = nil
+		}
+	}
 	// Roots still unfinished at the end of the parameter: nearest free
 	// limit, else infinity.
 	for i := range n {

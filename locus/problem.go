@@ -22,6 +22,20 @@ type problem struct {
 	notes    []string
 	poles    []poly.Root
 	zeros    []poly.Root
+	// common lists the roots shared by a and b (with their common
+	// multiplicity): closed-loop poles for every k. reduced is the problem
+	// with them divided out (nil when there are none); the moving branches
+	// are those of reduced.
+	common  []poly.Root
+	reduced *problem
+}
+
+// moving returns the problem whose roots move with k.
+func (p *problem) moving() *problem {
+	if p.reduced != nil {
+		return p.reduced
+	}
+	return p
 }
 
 // newProblem turns a loop N/D (dead time replaced by a Padé approximation)
@@ -68,15 +82,65 @@ func newProblemPolys(a, b poly.Poly, discrete bool, ts float64, r resolved, note
 	if p.zeros, err = rootsMult(b); err != nil {
 		return nil, fmt.Errorf("locus: zeros: %w", err)
 	}
-	for _, z := range p.zeros {
-		if cabs(a.EvalComplex(z.Value)) <= 1e-9*absEval(a, cabs(z.Value)) {
-			p.notes = append(p.notes, fmt.Sprintf("numerator and denominator share the root %v: it is a closed-loop pole for every %s", fmtC(z.Value), r.variable))
-		}
-	}
+	p.findCommon()
 	if p.m > p.n {
 		p.notes = append(p.notes, fmt.Sprintf("b has higher degree than a (%d > %d): %d branch(es) come from infinity as the %s approaches 0", p.m, p.n, p.m-p.n, r.variable))
 	}
 	return p, nil
+}
+
+// findCommon divides out the roots shared by a and b (matched within
+// 1e-8 relative), which stay closed-loop poles for every k.
+func (p *problem) findCommon() {
+	var common, rp, rz []poly.Root
+	zm := map[int]int{}
+	for _, q := range p.poles {
+		mult := q.Multiplicity
+		for j, z := range p.zeros {
+			avail := z.Multiplicity - zm[j]
+			if avail > 0 && cabs(q.Value-z.Value) <= 1e-8*math.Max(1, cabs(q.Value)) {
+				c := min(mult, avail)
+				zm[j] += c
+				mult -= c
+				common = append(common, poly.Root{Value: q.Value, Multiplicity: c})
+			}
+		}
+		if mult > 0 {
+			rp = append(rp, poly.Root{Value: q.Value, Multiplicity: mult})
+		}
+	}
+	if len(common) == 0 {
+		return
+	}
+	for j, z := range p.zeros {
+		if m := z.Multiplicity - zm[j]; m > 0 {
+			rz = append(rz, poly.Root{Value: z.Value, Multiplicity: m})
+		}
+	}
+	var vals []complex128
+	for _, c := range common {
+		for range c.Multiplicity {
+			vals = append(vals, c.Value)
+		}
+	}
+	g, err := poly.FromRoots(vals)
+	if err != nil {
+		return
+	}
+	a1, _, err1 := p.a.DivMod(g)
+	b1, _, err2 := p.b.DivMod(g)
+	if err1 != nil || err2 != nil || b1.IsZero() {
+		return
+	}
+	q := *p
+	q.a, q.b, q.ad, q.bd = a1, b1, a1.Derivative(), b1.Derivative()
+	q.n, q.m = a1.Degree(), b1.Degree()
+	q.order = max(q.n, q.m)
+	q.poles, q.zeros = rp, rz
+	q.common, q.reduced, q.notes = nil, nil, nil
+	p.common = common
+	p.reduced = &q
+	p.notes = append(p.notes, fmt.Sprintf("numerator and denominator share %d root(s), e.g. %v: closed-loop poles for every %s, left out of the moving branches", len(vals), fmtC(vals[0]), p.variable))
 }
 
 // padeDelay returns the numerator and denominator of the diagonal Padé

@@ -122,9 +122,17 @@ func Trace(loop tf.TF, set *Settings) (Locus, error) {
 	if err != nil {
 		return Locus{}, err
 	}
-	t := newTracer(p, an, r)
+	t := newTracer(p.moving(), an, r)
 	loc, err := t.run()
 	loc.Analysis = an
+	// Roots shared by a and b stay put for every value.
+	idx := t.p.order
+	for _, c := range p.common {
+		for range c.Multiplicity {
+			loc.Branches = append(loc.Branches, Branch{Index: idx, Points: []Point{{Value: p.rng.Min, S: c.Value}, {Value: p.rng.Max, S: c.Value}}})
+			idx++
+		}
+	}
 	return loc, err
 }
 
@@ -264,20 +272,25 @@ func (t *tracer) nodes() ([]node, error) {
 	if hasDrop && in(kd) {
 		ks = append(ks, kd)
 	}
+	if in(0) {
+		// k = 0 inside the range: the branches pass through the poles,
+		// which may be multiple.
+		ks = append(ks, 0)
+	}
 	for _, e := range []float64{rng.Min, rng.Max} {
 		if !math.IsInf(e, 0) {
 			ks = append(ks, e)
 		}
 	}
 	slices.Sort(ks)
-	ks = slices.CompactFunc(ks, func(x, y float64) bool { return math.Abs(x-y) <= 1e-12*math.Max(1, math.Abs(x)) })
+	ks = slices.CompactFunc(ks, sameValue)
 	var raw []node
 	if math.IsInf(rng.Min, -1) {
 		raw = append(raw, node{k: math.Inf(-1), kind: infNode})
 	}
 	for _, k := range ks {
 		kind := regularNode
-		if hasDrop && math.Abs(k-kd) <= 1e-12*math.Max(1, math.Abs(kd)) {
+		if hasDrop && sameValue(k, kd) {
 			kind = dropNode
 			k = kd
 		}
@@ -312,6 +325,16 @@ func (t *tracer) nodes() ([]node, error) {
 		}
 	}
 	return out, nil
+}
+
+// sameValue reports whether two special values are equal within the
+// accuracy with which they are known (1e-9 relative: a break value is
+// −a(s₀)/b(s₀) evaluated in the monomial basis, whose rounding error can
+// reach that size for clustered roots). Values this close become one node
+// of the trace, with all their exact points; the residual of those points
+// at the common value stays within the documented 1e-9.
+func sameValue(x, y float64) bool {
+	return math.Abs(x-y) <= 1e-9*math.Max(math.Abs(x), math.Abs(y))
 }
 
 // buffer returns a regular value strictly between lo and hi.
@@ -380,7 +403,7 @@ func (t *tracer) fillNode(nd *node) error {
 	}
 	// Snap to exactly known points.
 	near := func(k float64) bool {
-		return nd.kind == regularNode && math.Abs(k-nd.k) <= 1e-12*math.Max(1, math.Abs(nd.k))
+		return nd.kind == regularNode && sameValue(k, nd.k)
 	}
 	used := make([]bool, N)
 	for _, c := range t.an.AxisCrossings {

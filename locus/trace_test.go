@@ -138,7 +138,7 @@ func TestTraceProperties(t *testing.T) {
 				n := 0
 				for _, br := range loc.Branches {
 					for _, q := range br.Points {
-						if q.S == s && q.Value == k {
+						if q.S == s && sameValue(q.Value, k) {
 							n++
 							break
 						}
