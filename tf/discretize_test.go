@@ -837,3 +837,44 @@ func FuzzDiscretize(f *testing.F) {
 		}
 	})
 }
+
+// TestFirstOrderClosedForms checks the first-order lag a/(s+a) against
+// closed forms derived here from the definitions (Franklin, Powell &
+// Workman, Digital Control of Dynamic Systems, 3rd ed., Ch. 6, from
+// memory), with e = e^{−aT}:
+//
+//	triangle hold  G(z) = (z−1)²/(Tz)·Z{G(s)/s²}
+//	               = [(aT + e − 1)z + (1 − e − aT·e)] / (aT·(z − e)),
+//	Tustin         G(z) = aT(z + 1) / ((2 + aT)z − (2 − aT)),
+//	Tustin of 1/s  G(z) = (T/2)(z + 1)/(z − 1).
+func TestFirstOrderClosedForms(t *testing.T) {
+	for _, a := range []float64{0.5, 3, 40} {
+		for _, T := range []float64{0.01, 0.1, 0.5} {
+			g := MustNew([]float64{a}, []float64{1, a})
+			e := math.Exp(-a * T)
+			aT := a * T
+			foh, err := g.Discretize(T, FirstOrderHold, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			// (aT + e − 1) = aT + expm1(−aT) keeps its digits for small aT.
+			em1 := math.Expm1(-aT)
+			checkCoeffs(t, "FOH num", foh.Num(), []float64{(aT + em1) / aT, (-em1 - aT*e) / aT}, 1e-13)
+			checkCoeffs(t, "FOH den", foh.Den(), []float64{1, -e}, 1e-14)
+			tus, err := g.Discretize(T, Tustin, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			k := aT / (2 + aT)
+			checkCoeffs(t, "Tustin num", tus.Num(), []float64{k, k}, 1e-15)
+			checkCoeffs(t, "Tustin den", tus.Den(), []float64{1, -(2 - aT) / (2 + aT)}, 1e-15)
+		}
+	}
+	T := 0.02
+	integ, err := MustNew([]float64{1}, []float64{1, 0}).Discretize(T, Tustin, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkCoeffs(t, "Tustin 1/s num", integ.Num(), []float64{T / 2, T / 2}, 1e-15)
+	checkCoeffs(t, "Tustin 1/s den", integ.Den(), []float64{1, -1}, 0)
+}
