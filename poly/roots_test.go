@@ -443,3 +443,39 @@ func TestMultiplicityRecovery(t *testing.T) {
 		})
 	}
 }
+
+// TestRootsBackwardErrorClosedForm: for q = x² − 3x + 2 and the roots 1
+// and 2 + h, q̂ = (x−1)(x−2−h) = x² − (3+h)x + 2 + h, so q̂ − q = −hx + h
+// and η = h·√2/√14 (hand derivation);
+// exact roots give 0.
+func TestRootsBackwardErrorClosedForm(t *testing.T) {
+	p := MustNew(2, -6, 4) // 2q: the monic form is taken first
+	h := 0x1p-40
+	eta, err := p.RootsBackwardError([]complex128{1, complex(2+h, 0)})
+	want := h * math.Sqrt(2) / math.Sqrt(14)
+	// 1e-15 relative: the math/big computation is exact to far better,
+	// the final rounding and the square roots cost a few ulps.
+	if err != nil || !testutil.Close(eta, want, 1e-15, 0) {
+		t.Errorf("η = %g, %v; want %g", eta, err, want)
+	}
+	if eta, err := p.RootsBackwardError([]complex128{2, 1}); err != nil || eta != 0 {
+		t.Errorf("exact roots: η = %g, %v", eta, err)
+	}
+}
+
+// TestUnconvergedSafetyNet: the check behind ErrNoConvergence accepts the
+// roots of (x+1)³(x+2) (a triple root is only fixed to about u^(1/3)
+// without recognition, yet its approximations are roots of a nearby
+// polynomial) and rejects a value that is not near a root.
+func TestUnconvergedSafetyNet(t *testing.T) {
+	c := MustNew(1, 5, 9, 7, 2).c
+	tc := newTaylor(c)
+	z := []complex128{-2, -1 + 1e-6, -1 - 1e-6i, complex(-1, 1e-6)}
+	if bad := unconverged(tc, z); len(bad) != 0 {
+		t.Errorf("flagged %v", bad)
+	}
+	z[0] = -2.001
+	if bad := unconverged(tc, z); !slices.Equal(bad, []int{0}) {
+		t.Errorf("flagged %v, want [0]", bad)
+	}
+}
