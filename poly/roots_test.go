@@ -479,3 +479,47 @@ func TestUnconvergedSafetyNet(t *testing.T) {
 		t.Errorf("flagged %v, want [0]", bad)
 	}
 }
+
+// TestQuadraticNearDouble: x² − 0.2x + 0.01 is (x − 0.1)² with decimal
+// coefficients rounded to double; the closed form gives two roots about
+// 1e-9 apart (√u·0.1), recognised as the double root 0.1 (to 4u: the root
+// of p′ = 2x − 0.2 is fl(0.2)/2). With recognition off the two roots stay.
+func TestQuadraticNearDouble(t *testing.T) {
+	p := MustNew(1, -0.2, 0.01)
+	rs, err := p.RootsWithMultiplicity()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rs) != 1 || rs[0].Multiplicity != 2 || !testutil.CloseComplex(rs[0].Value, 0.1, 4*unitRoundoff, 0) {
+		t.Errorf("got %v, want the double root 0.1", rs)
+	}
+	rs, err = p.RootsWithSettings(&RootSettings{ClusterTolerance: -1})
+	if err != nil || len(rs) != 2 {
+		t.Errorf("recognition off: got %v, %v", rs, err)
+	}
+}
+
+// TestRootsConcurrent: Roots on one value from several goroutines gives
+// identical results (run with -race in CI).
+func TestRootsConcurrent(t *testing.T) {
+	p := wilkinsonPoly(12).Mul(MustNew(1, 2, 2).Pow(2))
+	want, err := p.Roots()
+	if err != nil {
+		t.Fatal(err)
+	}
+	errs := make(chan error, 4)
+	for range 4 {
+		go func() {
+			got, err := p.Roots()
+			if err == nil && !slices.Equal(got, want) {
+				err = errors.New("different roots from a concurrent call")
+			}
+			errs <- err
+		}()
+	}
+	for range 4 {
+		if err := <-errs; err != nil {
+			t.Error(err)
+		}
+	}
+}
