@@ -100,6 +100,19 @@ func TestQueries(t *testing.T) {
 	if k, err := gd.StaticGain(); err != nil || k != 1 {
 		t.Errorf("discrete static gain %v, %v", k, err)
 	}
+	// A pole at z = 1 written in factors expands to coefficients whose sum
+	// is rounding noise (about 1e-16), not 0: still an infinite gain, not
+	// the 5.7e15 that a plain division gives.
+	integ, _ := ParseDiscrete("(0.368z+0.264)/((z-1)(z-0.368))", 1)
+	if k, err := integ.StaticGain(); !errors.Is(err, ErrInfiniteGain) {
+		t.Errorf("discrete integrator static gain %v, %v; want ErrInfiniteGain", k, err)
+	}
+	// And a common factor (z − 1) in both, expanded inexactly, cancels:
+	// (z−1)(z−0.3)/((z−1)(z−0.5)(z−0.2)) has static gain 0.7/(0.5·0.8).
+	common, _ := ParseDiscrete("(z-1)(z-0.3)/((z-1)(z-0.5)(z-0.2))", 1)
+	if k, err := common.StaticGain(); err != nil || math.Abs(k-1.75) > 1e-12 {
+		t.Errorf("static gain with a cancelling z = 1: %v, %v; want 1.75", k, err)
+	}
 	if MustParse("(s^2+1)/(s+1)").IsProper() {
 		t.Error("improper reported proper")
 	}
