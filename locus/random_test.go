@@ -41,7 +41,8 @@ func randomLoop(rng *rand.Rand) (tf.TF, error) {
 	return tf.FromZerosPolesGain(zeros, poles, 1)
 }
 
-// TestRandomLoops traces 150 random loops over random ranges: no panic,
+// TestRandomLoops traces 150 random loops, half of them discrete, over
+// random ranges: no panic,
 // and every traced point satisfies the characteristic equation (relative
 // backward error 1e-9, the documented bound); a failure must be one of the
 // package's errors.
@@ -54,6 +55,13 @@ func TestRandomLoops(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
+		if i%2 == 1 {
+			// A discrete loop: roots scaled by 1/7 into and around the
+			// unit disc (sample period 0.1 s).
+			if loop, err = tf.FromPolys(loop.Num().ScaleVariable(7), loop.Den().ScaleVariable(7), 0.1); err != nil {
+				t.Fatal(err)
+			}
+		}
 		rg := ranges[i%len(ranges)]
 		set := &Settings{Range: rg}
 		loc, err := Trace(loop, set)
@@ -63,14 +71,19 @@ func TestRandomLoops(t *testing.T) {
 			continue
 		}
 		r, _ := resolve(set)
-		p, _ := newProblem(loop, r)
+		full, _ := newProblem(loop, r)
+		p := full.moving() // the traced equation, shared roots divided out
 		for _, br := range loc.Branches {
+			eq := p
+			if br.Index >= p.order {
+				eq = full // a root shared by a and b: fixed, a root of both
+			}
 			for _, q := range br.Points {
 				if math.IsInf(q.Value, 0) {
 					continue
 				}
-				f, _ := p.eval(q.S, q.Value)
-				if e := cmplx.Abs(f) / p.magnitude(q.S, q.Value); e > 1e-9 {
+				f, _ := eq.eval(q.S, q.Value)
+				if e := cmplx.Abs(f) / eq.magnitude(q.S, q.Value); e > 1e-9 {
 					t.Errorf("loop %d %v range %v: residual %g at %v", i, loop, rg, e, q)
 					break
 				}

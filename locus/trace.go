@@ -104,7 +104,9 @@ type Locus struct {
 // b/a, k in set.Range, traced by predictor–corrector continuation from the
 // start of the range to its end (see the file comment of trace.go and the
 // package documentation). Every traced point satisfies
-// |a(s) + k·b(s)| ≤ 1e-9·(Σ|a_i||s|^i + |k|·Σ|b_i||s|^i). Break points,
+// |a(s) + k·b(s)| ≤ 1e-9·(Σ|a_i||s|^i + |k|·Σ|b_i||s|^i), with a and b
+// after division by the roots they share (those stay fixed and are
+// returned as constant branches). Break points,
 // crossings and range ends are points of the branches, exactly. It honours
 // set.Context and reports progress through set.Progress. On cancellation,
 // ErrTraceFailed or ErrTooManyPoints it returns the partial locus with the
@@ -328,13 +330,13 @@ func (t *tracer) nodes() ([]node, error) {
 }
 
 // sameValue reports whether two special values are equal within the
-// accuracy with which they are known (1e-9 relative: a break value is
+// accuracy with which they are known (2e-10 relative: a break value is
 // −a(s₀)/b(s₀) evaluated in the monomial basis, whose rounding error can
 // reach that size for clustered roots). Values this close become one node
 // of the trace, with all their exact points; the residual of those points
 // at the common value stays within the documented 1e-9.
 func sameValue(x, y float64) bool {
-	return math.Abs(x-y) <= 1e-9*math.Max(math.Abs(x), math.Abs(y))
+	return math.Abs(x-y) <= 2e-10*math.Max(math.Abs(x), math.Abs(y))
 }
 
 // buffer returns a regular value strictly between lo and hi.
