@@ -429,35 +429,50 @@ func checkConsistency(tc *taylor, z []complex128, cands []candidate) []candidate
 // plain evaluation of lo gives Tⱼ(x) as accurately as p itself.
 type taylor struct {
 	c      []float64
-	hi, lo map[int][]float64
-	binom  [][]float64 // Pascal's triangle, exact below 2⁵³
+	hi, lo [][]float64 // by j; nil until first used
+	binom  [][]float64 // Pascal's triangle, exact below 2⁵³; built on first use for j ≥ 2
 }
 
 func newTaylor(c []float64) *taylor {
 	n := len(c) - 1
-	b := make([][]float64, n+1)
-	for i := range b {
-		b[i] = make([]float64, i+1)
-		b[i][0], b[i][i] = 1, 1
-		for j := 1; j < i; j++ {
-			b[i][j] = b[i-1][j-1] + b[i-1][j]
-		}
+	return &taylor{c: c, hi: make([][]float64, n+1), lo: make([][]float64, n+1)}
+}
+
+// binomial returns C(i, j), exact below 2⁵³.
+func (t *taylor) binomial(i, j int) float64 {
+	switch j {
+	case 0:
+		return 1
+	case 1:
+		return float64(i)
 	}
-	return &taylor{c: c, hi: map[int][]float64{}, lo: map[int][]float64{}, binom: b}
+	if t.binom == nil {
+		n := len(t.c) - 1
+		b := make([][]float64, n+1)
+		for i := range b {
+			b[i] = make([]float64, i+1)
+			b[i][0], b[i][i] = 1, 1
+			for j := 1; j < i; j++ {
+				b[i][j] = b[i-1][j-1] + b[i-1][j]
+			}
+		}
+		t.binom = b
+	}
+	return t.binom[i][j]
 }
 
 func (t *taylor) coeffs(j int) (hi, lo []float64) {
-	if h, ok := t.hi[j]; ok {
-		return h, t.lo[j]
-	}
 	n := len(t.c) - 1
 	if j > n {
 		return nil, nil
 	}
+	if t.hi[j] != nil {
+		return t.hi[j], t.lo[j]
+	}
 	hi = make([]float64, n-j+1)
 	lo = make([]float64, n-j+1)
 	for k := range hi {
-		hi[k], lo[k] = twoProd(t.c[k+j], t.binom[k+j][j])
+		hi[k], lo[k] = twoProd(t.c[k+j], t.binomial(k+j, j))
 	}
 	t.hi[j], t.lo[j] = hi, lo
 	return hi, lo
@@ -547,7 +562,7 @@ func (t *taylor) multipleBackwardError(c complex128, m int) float64 {
 			if i < j {
 				continue
 			}
-			w := complex(math.Abs(t.c[i])*t.binom[i][j], 0) * cpow(c, i-j)
+			w := complex(math.Abs(t.c[i])*t.binomial(i, j), 0) * cpow(c, i-j)
 			re[k], im[k] = real(w), imag(w)
 		}
 		add := func(row []float64, b float64) bool {

@@ -79,6 +79,7 @@ func rootsNonZero(c []float64, s *RootSettings) ([]Root, error) {
 	}
 	sc, e := scaleToUnitRoots(c)
 	var z []complex128
+	tc := newTaylor(sc)
 	if n == 2 {
 		q := quadraticRoots(sc[2], sc[1], sc[0])
 		if len(q) == 1 {
@@ -91,7 +92,6 @@ func rootsNonZero(c []float64, s *RootSettings) ([]Root, error) {
 			return nil, err
 		}
 		z = vals
-		tc := newTaylor(sc)
 		aberth(tc, z)
 		if bad := unconverged(tc, z); len(bad) > 0 {
 			// Second chance: move the stragglers off their spot by a
@@ -106,7 +106,7 @@ func rootsNonZero(c []float64, s *RootSettings) ([]Root, error) {
 			}
 		}
 	}
-	cands, err := finish(newTaylor(sc), z, s)
+	cands, err := finish(tc, z, s)
 	if err != nil {
 		return nil, err
 	}
