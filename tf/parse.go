@@ -168,6 +168,7 @@ type parser struct {
 	set  ParseSettings
 	pos  int
 	tok  token
+	prev token // the token before tok
 	err  error // first lexical error
 }
 
@@ -176,6 +177,7 @@ func (p *parser) errf(format string, a ...any) error {
 }
 
 func (p *parser) next() {
+	p.prev = p.tok
 	for p.pos < len(p.text) && (p.text[p.pos] == ' ' || p.text[p.pos] == '\t' || p.text[p.pos] == '\n' || p.text[p.pos] == '\r') {
 		p.pos++
 	}
@@ -306,6 +308,10 @@ func (p *parser) term() (rat, error) {
 			op = p.tok
 			p.next()
 		case p.startsPrimary():
+			if p.tok.kind == tokNum && p.prev.kind == tokNum {
+				// "2 3" or "1 000": a typo far more often than a product.
+				return rat{}, p.errf("two numbers side by side (%s %s); write '*' between them if a product is meant", p.prev.text, p.tok.text)
+			}
 			op = token{kind: tokOp, text: "*", pos: p.tok.pos}
 		default:
 			return v, nil

@@ -120,6 +120,8 @@ func TestParseErrors(t *testing.T) {
 		{"1e308*1e308", 0, "", ErrNotFinite},
 		{"exp(-1e308*s)*exp(-1e308*s)", 0, "", ErrNotFinite},
 		{"0^-1", 3, "negative power of zero", ErrSyntax},
+		{"2 3", 2, "two numbers side by side", ErrSyntax},
+		{"s^2 3", 4, "two numbers side by side", ErrSyntax},
 		{"1/(1e-200*1e-200*s)", 1, "division by zero", ErrSyntax}, // the product underflows to 0
 	}
 	for _, test := range tests {
