@@ -156,6 +156,12 @@ func stepCase(name string, loop func() tf.TF) figureCase {
 	}}
 }
 
+// stageLoop is a positioning stage with a PI controller, a lightly damped
+// mount resonance near 11 rad/s and a fast amplifier pole at 50 rad/s:
+// its slow break points are tiny against the whole locus, which is what
+// the detail panel is for.
+func stageLoop() tf.TF { return tf.MustParse("30(s+2.5)/(s(s+1.6)(s^2+1.2s+120)(0.02s+1))") }
+
 // scaledServo is the servo loop at a gain of 20 (stable closed loop).
 func scaledServo() tf.TF { return must(servoLoop().Scale(20)) }
 
@@ -166,6 +172,9 @@ func allCases() []figureCase {
 		rootLocusCase("locus_discrete", digitalLoop, 2, "crossing of the unit circle", "sample period 0.1 s"),
 		rootLocusCase("locus_deadtime", thermalLoop, 1, "asymptote"),
 		parameterLocusCase(),
+		{name: "locus_detail", words: []string{"Detail near the origin", "break point"}, build: func(t *testing.T) *chart.Figure {
+			return must(chart.RootLocus(traceLocus(t, stageLoop(), nil), &chart.LocusSettings{PlaneSettings: chart.PlaneSettings{Detail: true}}))
+		}},
 		poleZeroCase("polezero_continuous", servoLoop),
 		poleZeroCase("polezero_discrete", digitalLoop),
 		poleZeroCase("polezero_parameter", parameterLoop),

@@ -64,6 +64,9 @@ type Figure struct {
 	// square lists panels whose two axes must have the same scale (complex
 	// planes), so angles and circles look true.
 	square map[int]bool
+	// cols is the number of panel columns (0 or 1: one column); panels
+	// fill the rows in order.
+	cols int
 }
 
 // newFigure returns a one-panel figure of the given size.
@@ -236,11 +239,18 @@ func (f *Figure) draw(c draw.Canvas) {
 		c.Min.Y = y + vg.Points(4)
 	}
 	n := len(f.Panels)
-	col := make([][]*plot.Plot, n)
-	for i, p := range f.Panels {
-		col[i] = []*plot.Plot{p}
+	cols := max(f.cols, 1)
+	rows := (n + cols - 1) / cols
+	col := make([][]*plot.Plot, rows)
+	for r := range col {
+		col[r] = make([]*plot.Plot, cols)
 	}
-	tiles := draw.Tiles{Rows: n, Cols: 1, PadY: vg.Points(10)}
+	at := func(i int) (int, int) { return i / cols, i % cols }
+	for i, p := range f.Panels {
+		r, k := at(i)
+		col[r][k] = p
+	}
+	tiles := draw.Tiles{Rows: rows, Cols: cols, PadY: vg.Points(10), PadX: vg.Points(14)}
 	// Square panels need their data area known before their ranges are
 	// final; two passes settle tick-label widths. The requested ranges are
 	// put back afterwards so that rendering leaves the panels unchanged.
@@ -261,12 +271,14 @@ func (f *Figure) draw(c draw.Canvas) {
 		cans := plot.Align(col, tiles, c)
 		for i := range saved {
 			p := f.Panels[i]
-			equalScale(p, p.DataCanvas(cans[i][0]))
+			r, k := at(i)
+			equalScale(p, p.DataCanvas(cans[r][k]))
 		}
 	}
 	cans := plot.Align(col, tiles, c)
 	for i, p := range f.Panels {
-		p.Draw(cans[i][0])
+		r, k := at(i)
+		p.Draw(cans[r][k])
 	}
 }
 

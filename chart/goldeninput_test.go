@@ -121,6 +121,8 @@ func goldenCases() []figureCase {
 	return []figureCase{
 		locusCase("locus_continuous", func() (tf.TF, *locus.Settings) { return servoLoop(), nil },
 			&chart.LocusSettings{PlaneSettings: chart.PlaneSettings{Grid: true}, Mark: &chart.LocusMark{Value: 20}}),
+		locusCase("locus_detail", func() (tf.TF, *locus.Settings) { return stageLoop(), nil },
+			&chart.LocusSettings{PlaneSettings: chart.PlaneSettings{Detail: true}}),
 		locusCase("locus_discrete", func() (tf.TF, *locus.Settings) { return digitalLoop(), nil },
 			&chart.LocusSettings{Mark: &chart.LocusMark{Value: 2}}),
 		locusCase("locus_parameter", func() (tf.TF, *locus.Settings) {

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"sort"
 
 	"github.com/loopwise/loopwise/poly"
 	"gonum.org/v1/plot"
@@ -21,29 +22,28 @@ type valuedPoint struct {
 // planeSpec is everything a complex-plane figure (root locus or pole–zero
 // map) may show, already in plain numbers.
 type planeSpec struct {
-	th           Theme
-	size         Size
-	title        string
-	discrete     bool
-	sampleTime   float64
-	poles        []poly.Root
-	zeros        []poly.Root
-	branches     [][]complex128
-	colourIndex  []int       // palette index per branch; nil means the branch index
-	branchValues [][]float64 // value of the locus variable at each branch point
-	hasAsym      bool
-	centroid     float64
-	anglesDeg    []float64
-	breaks       []valuedPoint
-	crossings    []valuedPoint
-	marked       []complex128
-	markedLabel  string
-	dampings     []float64
-	freqs        []float64
-	autoGrid     bool
-	key          []keyEntry
-	mustSee      []complex128 // points the automatic view must show
-	window       *Window      // fixed view; nil = automatic
+	th          Theme
+	size        Size
+	title       string
+	discrete    bool
+	sampleTime  float64
+	poles       []poly.Root
+	zeros       []poly.Root
+	branches    [][]complex128
+	colourIndex []int // palette index per branch; nil means the branch index
+	hasAsym     bool
+	centroid    float64
+	anglesDeg   []float64
+	breaks      []valuedPoint
+	crossings   []valuedPoint
+	marked      []complex128
+	markedLabel string
+	dampings    []float64
+	freqs       []float64
+	autoGrid    bool
+	key         []keyEntry
+	mustSee     []complex128 // points the automatic view must show
+	window      *Window      // fixed view; nil = automatic
 }
 
 // Style constants of complex-plane figures.
@@ -53,15 +53,8 @@ var (
 	dotGuide   = []vg.Length{vg.Points(1), vg.Points(2)}
 )
 
-func (s *planeSpec) figure() (*Figure, error) {
-	th := s.th
-	xl, yl := "real part σ (1/s)", "imaginary part ω (rad/s)"
-	if s.discrete {
-		xl, yl = "real part of z", "imaginary part of z"
-	}
-	p := newPanel(th, s.title, xl, yl)
-
-	// Axis limits from the key points.
+// keyPoints returns the points the automatic view frames.
+func (s *planeSpec) keyPoints() []complex128 {
 	var key []complex128
 	for _, r := range s.poles {
 		key = append(key, r.Value)
@@ -85,16 +78,117 @@ func (s *planeSpec) figure() (*Figure, error) {
 			key = append(key, b...)
 		}
 	}
-	left := 0
+	return key
+}
+
+// view returns the axis limits and the number of key points left out of
+// view by focus.
+func (s *planeSpec) view() (xmin, xmax, ymin, ymax float64, left int) {
+	key := s.keyPoints()
 	if !s.discrete {
 		key, left = focus(key, s.mustSee)
 	}
 	key = append(key, s.boundedBranchPoints(key)...)
-	xmin, xmax, ymin, ymax := planeView(key, s.discrete)
+	xmin, xmax, ymin, ymax = planeView(key, s.discrete)
 	if w := s.window; w != nil {
 		xmin, xmax, ymin, ymax = w.RealMin, w.RealMax, w.ImagMin, w.ImagMax
 		left = 0
 	}
+	return xmin, xmax, ymin, ymax, left
+}
+
+// detailGapRatio separates the group of key points nearest the origin
+// from the rest for the detail panel: a smaller ratio than focusGapRatio,
+// since the far points stay in the main panel.
+const detailGapRatio = 2.5
+
+// detailWindow returns the region of the detail panel: the box of the key
+// points nearest the origin, up to the first gap of detailGapRatio in
+// modulus, padded as planeView pads. ok is false when there is no such
+// group or it is not at least six times smaller than the main view.
+func (s *planeSpec) detailWindow(xmin, xmax, ymin, ymax float64) (w Window, ok bool) {
+	key := s.keyPoints()
+	if !s.discrete {
+		key, _ = focus(key, s.mustSee)
+	}
+	sort.Slice(key, func(i, j int) bool { return cmplx.Abs(key[i]) < cmplx.Abs(key[j]) })
+	cut := len(key)
+	for i := 2; i < len(key); i++ {
+		lo, hi := cmplx.Abs(key[i-1]), cmplx.Abs(key[i])
+		if lo > 0 && hi > detailGapRatio*lo {
+			cut = i
+			break
+		}
+	}
+	if cut < 2 || cut == len(key) {
+		return w, false
+	}
+	group := key[:cut]
+	group = append(group, s.boundedBranchPoints(group)...)
+	x0, x1, y0, y1 := planeView(group, s.discrete)
+	if 6*math.Max(x1-x0, y1-y0) > math.Max(xmax-xmin, ymax-ymin) {
+		return w, false
+	}
+	return Window{RealMin: x0, RealMax: x1, ImagMin: y0, ImagMax: y1}, true
+}
+
+// figureWithDetail is figure plus, when set.Detail asks for it and a
+// small group of key points exists, a zoomed second panel to the right.
+func (s *planeSpec) figureWithDetail(set *PlaneSettings) (*Figure, error) {
+	f, err := s.figure()
+	if err != nil || set == nil || !set.Detail || set.Window != nil {
+		return f, err
+	}
+	xmin, xmax, ymin, ymax, _ := s.view()
+	win, ok := s.detailWindow(xmin, xmax, ymin, ymax)
+	if !ok {
+		return f, nil
+	}
+	d := *s
+	d.window = &win
+	d.key = nil
+	d.title = "Detail near the origin"
+	df, err := d.figure()
+	if err != nil {
+		return nil, err
+	}
+	f.Panels[0].Add(&outline{W: win, Style: draw.LineStyle{Color: s.th.Axis, Width: vg.Points(0.7), Dashes: []vg.Length{vg.Points(2), vg.Points(2)}}})
+	f.Panels = append(f.Panels, df.Panels[0])
+	f.square[1] = true
+	f.cols = 2
+	if set.WidthCm == 0 {
+		f.WidthCm = 26
+	}
+	return f, nil
+}
+
+// outline draws the boundary of a window of the plane (the region shown
+// in the detail panel).
+type outline struct {
+	W     Window
+	Style draw.LineStyle
+}
+
+func (o *outline) Plot(dc draw.Canvas, p *plot.Plot) {
+	tx, ty := p.Transforms(&dc)
+	w := o.W
+	pts := []vg.Point{
+		{X: tx(w.RealMin), Y: ty(w.ImagMin)}, {X: tx(w.RealMax), Y: ty(w.ImagMin)},
+		{X: tx(w.RealMax), Y: ty(w.ImagMax)}, {X: tx(w.RealMin), Y: ty(w.ImagMax)},
+		{X: tx(w.RealMin), Y: ty(w.ImagMin)},
+	}
+	dc.StrokeLines(o.Style, dc.ClipLinesXY(pts)...)
+}
+
+func (s *planeSpec) figure() (*Figure, error) {
+	th := s.th
+	xl, yl := "real part σ (1/s)", "imaginary part ω (rad/s)"
+	if s.discrete {
+		xl, yl = "real part of z", "imaginary part of z"
+	}
+	p := newPanel(th, s.title, xl, yl)
+
+	xmin, xmax, ymin, ymax, left := s.view()
 	if left > 0 && s.key != nil {
 		s.key = append(s.key, keyEntry{Text: fmt.Sprintf("%d far points lie outside this view", left)})
 	}
@@ -233,36 +327,48 @@ func asymptoteLine(th Theme) draw.LineStyle {
 	return draw.LineStyle{Color: th.Axis, Width: th.GuideWidth, Dashes: dashGuide}
 }
 
-// boundedBranchPoints returns the branch points up to the largest value
-// (in magnitude) of the break points and crossings that are in view: the
-// part of the locus where something happens, such as a loop between a
-// break-away and a break-in point, which the key points alone may not
-// frame. Points on the real axis are left out (the segments there run
-// between key points), and so are points farther than twice the farthest
-// key point (they belong to branches on their way to infinity).
+// boundedBranchPoints returns the points of the branch arcs that leave
+// the real axis and come back to it (a loop between a break-away and a
+// break-in point) or end at an open-loop zero: bounded parts of the locus
+// that the key points alone may not frame. Arcs on their way to infinity
+// are left out, and so are points farther than twice the farthest key
+// point.
 func (s *planeSpec) boundedBranchPoints(key []complex128) []complex128 {
-	if len(s.branchValues) != len(s.branches) || len(key) == 0 {
-		return nil
-	}
 	reach := 0.0
 	for _, z := range key {
 		reach = math.Max(reach, cmplx.Abs(z))
 	}
-	vmax := math.Inf(-1)
-	for _, v := range append(append([]valuedPoint(nil), s.breaks...), s.crossings...) {
-		if cmplx.Abs(v.At) <= reach*(1+1e-9) {
-			vmax = math.Max(vmax, math.Abs(v.Value))
-		}
-	}
-	if math.IsInf(vmax, -1) {
+	if reach == 0 {
 		return nil
 	}
+	tol := 1e-9 * reach
+	nearZero := func(z complex128) bool {
+		for _, r := range s.zeros {
+			if cmplx.Abs(z-r.Value) <= 1e-3*reach {
+				return true
+			}
+		}
+		return false
+	}
 	var out []complex128
-	for i, b := range s.branches {
-		for j, z := range b {
-			// Real-axis parts run between key points already framed.
-			if math.Abs(s.branchValues[i][j]) <= vmax && cmplx.Abs(z) <= 2*reach && math.Abs(imag(z)) > 1e-9*reach {
-				out = append(out, z)
+	for _, b := range s.branches {
+		start := -1
+		for j := 0; j <= len(b); j++ {
+			off := j < len(b) && math.Abs(imag(b[j])) > tol
+			switch {
+			case off && start < 0:
+				start = j
+			case !off && start >= 0:
+				// The arc b[start:j] is off the axis; keep it if it came
+				// back to the axis (j < len(b)) or ended at a zero.
+				if j < len(b) || nearZero(b[j-1]) {
+					for _, z := range b[start:j] {
+						if cmplx.Abs(z) <= 2*reach {
+							out = append(out, z)
+						}
+					}
+				}
+				start = -1
 			}
 		}
 	}

@@ -235,7 +235,7 @@ func (g ringGlyph) DrawGlyph(c *draw.Canvas, sty draw.GlyphStyle, pt vg.Point) {
 	c.Stroke(p)
 }
 
-// diamondGlyph is a filled diamond with a white outline (break points).
+// diamondGlyph is a filled diamond with a dark outline (break points).
 type diamondGlyph struct{}
 
 // DrawGlyph implements draw.GlyphDrawer.
@@ -249,9 +249,13 @@ func (diamondGlyph) DrawGlyph(c *draw.Canvas, sty draw.GlyphStyle, pt vg.Point) 
 	p.Close()
 	c.SetColor(sty.Color)
 	c.Fill(p)
-	c.SetLineStyle(draw.LineStyle{Color: color.White, Width: vg.Points(0.6)})
+	c.SetLineStyle(draw.LineStyle{Color: markOutline, Width: vg.Points(0.7)})
 	c.Stroke(p)
 }
+
+// markOutline is the dark outline of break-point and crossing marks, so
+// that they stand out on a branch of their own colour.
+var markOutline = color.NRGBA{R: 0x22, G: 0x22, B: 0x22, A: 0xff}
 
 // dotGlyph is a filled circle with a white outline.
 type dotGlyph struct{}
@@ -268,7 +272,7 @@ func (dotGlyph) DrawGlyph(c *draw.Canvas, sty draw.GlyphStyle, pt vg.Point) {
 	c.Stroke(p)
 }
 
-// squareGlyph is a filled square with a white outline (axis crossings).
+// squareGlyph is a filled square with a dark outline (axis crossings).
 type squareGlyph struct{}
 
 // DrawGlyph implements draw.GlyphDrawer.
@@ -282,7 +286,7 @@ func (squareGlyph) DrawGlyph(c *draw.Canvas, sty draw.GlyphStyle, pt vg.Point) {
 	p.Close()
 	c.SetColor(sty.Color)
 	c.Fill(p)
-	c.SetLineStyle(draw.LineStyle{Color: color.White, Width: vg.Points(0.6)})
+	c.SetLineStyle(draw.LineStyle{Color: markOutline, Width: vg.Points(0.7)})
 	c.Stroke(p)
 }
 

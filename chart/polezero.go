@@ -30,6 +30,13 @@ type PlaneSettings struct {
 	Grid bool
 	// HideKey leaves out the box that explains the symbols.
 	HideKey bool
+	// Detail adds a second panel to the right that zooms on the group of
+	// poles, zeros and break points nearest the origin when that group is
+	// small against the whole view (a fast pole far to the left, say);
+	// the region is outlined in the main panel. Without such a group the
+	// figure has one panel. With Detail and no WidthCm the figure is 26 cm
+	// wide.
+	Detail bool
 	// Window fixes the visible part of the plane. If nil, the view is
 	// chosen from the points that matter (see the package documentation);
 	// it is then widened on one axis so that both axes have the same scale.
@@ -117,7 +124,7 @@ func PoleZero(g tf.TF, set *PlaneSettings) (*Figure, error) {
 		}
 		spec.key = append(spec.key, spec.stableKey())
 	}
-	return spec.figure()
+	return spec.figureWithDetail(set)
 }
 
 func ptr[T any](v T) *T { return &v }

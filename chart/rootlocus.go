@@ -113,16 +113,13 @@ func RootLocus(l locus.Locus, set *LocusSettings) (*Figure, error) {
 
 	for i, b := range l.Branches {
 		pts := make([]complex128, 0, len(b.Points))
-		vals := make([]float64, 0, len(b.Points))
 		for j, p := range b.Points {
 			if !finite(real(p.S)) || !finite(imag(p.S)) {
 				return nil, fmt.Errorf("%w: branch %d point %d is %v", ErrNotFinite, i, j, p.S)
 			}
 			pts = append(pts, p.S)
-			vals = append(vals, p.Value)
 		}
 		spec.branches = append(spec.branches, pts)
-		spec.branchValues = append(spec.branchValues, vals)
 	}
 	// Colour by closed-loop root index so that a branch split at infinity
 	// keeps its colour.
@@ -193,7 +190,7 @@ func RootLocus(l locus.Locus, set *LocusSettings) (*Figure, error) {
 		spec.key = append(spec.key, spec.stableKey())
 		spec.key = append(spec.key, keyEntry{Text: stableWords(name, a.StableIntervals, a.Range)})
 	}
-	f, err := spec.figure()
+	f, err := spec.figureWithDetail(ps)
 	if err != nil {
 		return nil, err
 	}
