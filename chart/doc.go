@@ -18,7 +18,8 @@
 //	f, _ = chart.StepResponse(r, &metrics, nil)        // response.Step, response.StepMetrics
 //
 // A Figure holds ordinary gonum/plot panels (Figure.Panels) that may be
-// changed before writing. The building blocks are exported plotters that
+// changed before writing, a title and lines of notes written under the
+// panels (the margins in words, the approximations the analysis made). The building blocks are exported plotters that
 // follow gonum/plot's conventions (constructors copy and check the data,
 // styles are exported fields): Curve (lines with direction arrows), Marks,
 // Rays, StableRegion and Band.
@@ -45,8 +46,14 @@
 //
 // The view of a complex plane is chosen from the points that matter
 // (poles, zeros, break points, crossings, asymptote centroid, marked
-// poles, the stability boundary), not from the whole trace: branches that
-// run to infinity are clipped and their asymptotes show where they go.
+// poles, the stability boundary, and the arcs of the locus that leave the
+// real axis and come back), not from the whole trace: branches that run to
+// infinity are clipped and their asymptotes show where they go. Points
+// eight times farther out than the rest (the poles and zeros of a Padé
+// approximation of dead time, say) are left out of the view and counted
+// in the key, unless the first crossing of the stability boundary lies
+// among them. PlaneSettings.Detail adds a zoomed panel for a small group
+// of points near the origin; PlaneSettings.Window fixes the view.
 //
 // # Invariants
 //

@@ -188,3 +188,30 @@ func TestEqualScale(t *testing.T) {
 		t.Errorf("after equalScale x [%g, %g], y [%g, %g]; want y [−4.5, 5.5]", p.X.Min, p.X.Max, p.Y.Min, p.Y.Max)
 	}
 }
+
+// TestBoundedBranchPoints checks which branch arcs frame the view: an arc
+// that leaves the real axis and comes back (a circle between a break-away
+// and a break-in point) does; an arc that leaves for infinity does not.
+func TestBoundedBranchPoints(t *testing.T) {
+	var circle, away []complex128
+	for k := 0; k <= 36; k++ {
+		a := float64(k) * math.Pi / 36
+		circle = append(circle, complex(-2+math.Cos(a), math.Sin(a))) // −1 → −3 over the top
+		away = append(away, complex(-1, float64(k)))                   // −1 upwards to 36j
+	}
+	s := planeSpec{branches: [][]complex128{circle, away}}
+	key := []complex128{0, -1, -3, -5}
+	pts := s.boundedBranchPoints(key)
+	top := 0.0
+	for _, z := range pts {
+		top = math.Max(top, imag(z))
+	}
+	// The circle reaches Im = 1; the arc to infinity (Im up to 36) must
+	// not be used.
+	if math.Abs(top-1) > 1e-12 {
+		t.Errorf("highest framed point Im = %g, want 1 (the top of the circle)", top)
+	}
+	if len(pts) != 35 {
+		t.Errorf("%d framed points, want the 35 off-axis points of the circle", len(pts))
+	}
+}

@@ -329,7 +329,7 @@ func asymptoteLine(th Theme) draw.LineStyle {
 
 // boundedBranchPoints returns the points of the branch arcs that leave
 // the real axis and come back to it (a loop between a break-away and a
-// break-in point) or end at an open-loop zero: bounded parts of the locus
+// break-in point) or end at an open-loop zero in view: bounded parts of the locus
 // that the key points alone may not frame. Arcs on their way to infinity
 // are left out, and so are points farther than twice the farthest key
 // point.
@@ -344,7 +344,9 @@ func (s *planeSpec) boundedBranchPoints(key []complex128) []complex128 {
 	tol := 1e-9 * reach
 	nearZero := func(z complex128) bool {
 		for _, r := range s.zeros {
-			if cmplx.Abs(z-r.Value) <= 1e-3*reach {
+			// Only zeros in view: an arc on its way to a far zero (of a
+			// Padé approximation, say) is like one on its way to infinity.
+			if cmplx.Abs(r.Value) <= reach*(1+1e-9) && cmplx.Abs(z-r.Value) <= 1e-3*reach {
 				return true
 			}
 		}
