@@ -197,7 +197,7 @@ func TestBoundedBranchPoints(t *testing.T) {
 	for k := 0; k <= 36; k++ {
 		a := float64(k) * math.Pi / 36
 		circle = append(circle, complex(-2+math.Cos(a), math.Sin(a))) // −1 → −3 over the top
-		away = append(away, complex(-1, float64(k)))                   // −1 upwards to 36j
+		away = append(away, complex(-1, float64(k)))                  // −1 upwards to 36j
 	}
 	s := planeSpec{branches: [][]complex128{circle, away}}
 	key := []complex128{0, -1, -3, -5}
