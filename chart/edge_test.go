@@ -73,3 +73,38 @@ func TestEdgeCases(t *testing.T) {
 		render(t, f, err)
 	})
 }
+
+// TestDetailPanel checks that Detail adds a zoomed panel only when a small
+// group of points near the origin exists, and widens the default figure.
+func TestDetailPanel(t *testing.T) {
+	f := must(chart.RootLocus(traceLocus(t, stageLoop(), nil), &chart.LocusSettings{PlaneSettings: chart.PlaneSettings{Detail: true}}))
+	if len(f.Panels) != 2 || f.WidthCm != 26 {
+		t.Errorf("stage loop: %d panels, width %g cm; want 2 panels, 26 cm", len(f.Panels), f.WidthCm)
+	}
+	if len(f.Panels) == 2 {
+		main, detail := f.Panels[0], f.Panels[1]
+		// The break points of the stage loop lie within |s| < 4, the fast
+		// pole at −50: the detail must be at least six times smaller.
+		if 6*(detail.X.Max-detail.X.Min) > main.X.Max-main.X.Min {
+			t.Errorf("detail spans %g, main %g: not a zoom", detail.X.Max-detail.X.Min, main.X.Max-main.X.Min)
+		}
+	}
+	// The servo loop has no separate group near the origin.
+	f = must(chart.RootLocus(traceLocus(t, servoLoop(), nil), &chart.LocusSettings{PlaneSettings: chart.PlaneSettings{Detail: true}}))
+	if len(f.Panels) != 1 {
+		t.Errorf("servo loop: %d panels, want 1", len(f.Panels))
+	}
+}
+
+// TestEmbedFonts checks that an SVG with EmbedFonts carries its fonts.
+func TestEmbedFonts(t *testing.T) {
+	f := must(chart.PoleZero(servoLoop(), nil))
+	f.EmbedFonts = true
+	var buf bytes.Buffer
+	if err := f.Render(&buf, chart.FormatSVG); err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Contains(buf.Bytes(), []byte("@font-face")) {
+		t.Errorf("SVG with EmbedFonts has no @font-face rule")
+	}
+}
