@@ -108,7 +108,7 @@ func frequencyCase(name string, loop func() tf.TF) figureCase {
 		if err != nil {
 			t.Fatal(err)
 		}
-		f, err := chart.FrequencyResponse(r, &m, nil)
+		f, err := chart.FrequencyResponse(r, &m, &chart.FrequencySettings{SampleTimeSec: loop().SampleTimeSec()})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -162,6 +162,12 @@ func stepCase(name string, loop func() tf.TF) figureCase {
 // the detail panel is for.
 func stageLoop() tf.TF { return tf.MustParse("30(s+2.5)/(s(s+1.6)(s^2+1.2s+120)(0.02s+1))") }
 
+// withWords adds words the SVG of c must contain.
+func withWords(c figureCase, words ...string) figureCase {
+	c.words = append(append([]string(nil), c.words...), words...)
+	return c
+}
+
 // scaledServo is the servo loop at a gain of 20 (stable closed loop).
 func scaledServo() tf.TF { return must(servoLoop().Scale(20)) }
 
@@ -179,7 +185,7 @@ func allCases() []figureCase {
 		poleZeroCase("polezero_discrete", digitalLoop),
 		poleZeroCase("polezero_parameter", parameterLoop),
 		frequencyCase("frequency_continuous", scaledServo),
-		frequencyCase("frequency_discrete", digitalLoop),
+		withWords(frequencyCase("frequency_discrete", digitalLoop), "Nyquist frequency π/T = 31.4 rad/s"),
 		frequencyCase("frequency_parameter", parameterLoop),
 		frequencyCase("frequency_deadtime", thermalLoop),
 		nyquistCase("nyquist_continuous", scaledServo),

@@ -96,6 +96,10 @@ func TestBadInput(t *testing.T) {
 			_, err := chart.FrequencyResponse(r, nil, nil)
 			return err
 		}, chart.ErrLength},
+		{"negative sample period", func() error {
+			_, err := chart.FrequencyResponse(okFreq, nil, &chart.FrequencySettings{SampleTimeSec: -0.1})
+			return err
+		}, chart.ErrSettings},
 		{"empty Nyquist curve", func() error { _, err := chart.Nyquist(margins.Nyquist{}, nil, nil); return err }, chart.ErrNoData},
 		{"Nyquist lengths differ", func() error {
 			_, err := chart.Nyquist(margins.Nyquist{Positive: []complex128{1, 2}, PositiveFrequencyRadPerSec: []float64{1}}, nil, nil)

@@ -22,11 +22,18 @@ type FrequencySettings struct {
 	// Title is the figure title. If empty, defaults to "Frequency
 	// response of the loop".
 	Title string
+	// SampleTimeSec is the sample period of a discrete loop in seconds
+	// (≥ 0). If positive, a line marks the Nyquist frequency π/T, the end
+	// of a discrete frequency response. If zero, no line.
+	SampleTimeSec float64
 }
 
 func (s *FrequencySettings) check() error {
 	if s == nil {
 		return nil
+	}
+	if s.SampleTimeSec < 0 || !finite(s.SampleTimeSec) {
+		return fmt.Errorf("%w: SampleTimeSec = %g, want 0 or a finite value > 0", ErrSettings, s.SampleTimeSec)
 	}
 	return s.Size.check()
 }
@@ -130,6 +137,15 @@ func FrequencyResponse(resp margins.Response, m *margins.Result, set *FrequencyS
 	}
 
 	mag.Add(&hLine{Y: 0, LineStyle: draw.LineStyle{Color: th.Axis, Width: th.GuideWidth}})
+	if set != nil && set.SampleTimeSec > 0 {
+		wn := math.Pi / set.SampleTimeSec
+		if wn > wmin && wn <= wmax*(1+1e-9) {
+			ny := draw.LineStyle{Color: th.Axis, Width: th.GuideWidth, Dashes: dashGuide}
+			mag.Add(&vLine{X: math.Min(wn, wmax), LineStyle: ny})
+			ph.Add(&vLine{X: math.Min(wn, wmax), LineStyle: ny})
+			magKey = append(magKey, keyEntry{Text: "Nyquist frequency π/T = " + formatNumber(wn, 3) + " rad/s", Line: &ny})
+		}
+	}
 
 	if m != nil {
 		guide := draw.LineStyle{Color: th.Guide, Width: th.GuideWidth, Dashes: dotGuide}
