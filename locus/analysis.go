@@ -341,9 +341,9 @@ func wrap180(a float64) float64 {
 // breakPoints returns the roots s₀ of a′·b − a·b′ = 0 that are neither
 // poles nor zeros, at which k₀ = −a(s₀)/b(s₀) is real and in the range,
 // with branches = 1 + multiplicity of s₀ (Evans 1950; Ogata, Modern
-// Control Engineering, 5th ed., §6-2, rule 5). Roots are polished by
-// Newton's method on a′b − ab′; k₀ is stationary there, so its error is
-// second order in the error of s₀.
+// Control Engineering, 5th ed., §6-2, rule 5). The roots come from poly,
+// already refined by Newton's method with a compensated residual; k₀ is
+// stationary there, so its error is second order in the error of s₀.
 func (p *problem) breakPoints() []BreakPoint {
 	B := p.ad.Mul(p.b).Sub(p.a.Mul(p.bd))
 	if B.Degree() < 1 {
@@ -353,20 +353,14 @@ func (p *problem) breakPoints() []BreakPoint {
 	if err != nil {
 		return nil
 	}
-	Bd := B.Derivative()
 	var out []BreakPoint
 	for _, r := range rs {
 		s := r.Value
 		if imag(s) < 0 {
 			continue // added with its conjugate
 		}
-		if r.Multiplicity == 1 {
-			s = newtonPoly(B, Bd, s, imag(s) == 0)
-		}
 		av, bv := p.a.EvalComplex(s), p.b.EvalComplex(s)
-		ax := cabs(s)
-		const vanish = 1e3 * 0x1p-53
-		if cabs(av) <= vanish*absEval(p.a, ax) || cabs(bv) <= vanish*absEval(p.b, ax) {
+		if p.atPoleOrZero(s) || av == 0 || bv == 0 {
 			continue // a multiple pole or zero: k₀ = 0 or ∞
 		}
 		k := -av / bv
@@ -391,6 +385,36 @@ func (p *problem) breakPoints() []BreakPoint {
 	return out
 }
 
+// atPoleOrZero reports whether s is an open-loop pole or zero: within
+// 1e-9 (relative) of a simple one, or 1e-6 of a multiple one (known only to
+// about ε^(1/μ)).
+func (p *problem) atPoleOrZero(s complex128) bool {
+	for _, rs := range [][]poly.Root{p.poles, p.zeros} {
+		for _, r := range rs {
+			tol := 1e-9
+			if r.Multiplicity > 1 {
+				tol = 1e-6
+			}
+			if cabs(s-r.Value) <= tol*math.Max(1, cabs(r.Value)) {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// nearMultiple reports whether s lies within 1e-6 (relative) of a multiple
+// root in rs: a root of a′b − ab′ there belongs to the multiple pole or
+// zero, moved off it by rounding.
+func nearMultiple(s complex128, rs []poly.Root) bool {
+	for _, r := range rs {
+		if r.Multiplicity > 1 && cabs(s-r.Value) <= 1e-6*math.Max(1, cabs(r.Value)) {
+			return true
+		}
+	}
+	return false
+}
+
 // newtonPoly polishes a simple root of q by Newton's method, keeping the
 // iterate real when real is set, and stopping when the residual stops
 // decreasing.
@@ -401,7 +425,11 @@ func newtonPoly(q, qd poly.Poly, s complex128, keepReal bool) complex128 {
 		if d == 0 {
 			break
 		}
-		n := s - f/d
+		step := f / d
+		if cabs(step) > 1e-6*math.Max(1, cabs(s)) {
+			break // not a refinement: the root is ill-conditioned here
+		}
+		n := s - step
 		if keepReal {
 			n = complex(real(n), 0)
 		}

@@ -206,10 +206,7 @@ func (p *problem) polishCrossing(t float64) (float64, float64, bool) {
 			break
 		}
 	}
-	x := p.boundaryPoint(t)
-	ax := cabs(x)
-	const vanish = 1e3 * 0x1p-53
-	if cabs(p.a.EvalComplex(x)) <= vanish*absEval(p.a, ax) || cabs(p.b.EvalComplex(x)) <= vanish*absEval(p.b, ax) {
+	if x := p.boundaryPoint(t); p.atPoleOrZero(x) {
 		return t, k, false
 	}
 	return t, k, rel <= 1e-9

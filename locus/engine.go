@@ -286,7 +286,14 @@ func (t *tracer) checkStep(s, pred, corr []complex128, active []bool, tan []comp
 			d := corr[i] - corr[j]
 			d2 := real(d)*real(d) + imag(d)*imag(d)
 			if d2 == 0 || e2 > 0.0625*d2 {
-				return 0, false
+				// Unless both roots are within rounding noise of each
+				// other (ill-conditioned cluster, where which is which is
+				// not defined in double precision), reject.
+				ki, _ := km(tn)
+				noise := 10 * (t.rootNoise(corr[i], ki) + t.rootNoise(corr[j], ki))
+				if !(d2 <= noise*noise && e2 <= noise*noise) {
+					return 0, false
+				}
 			}
 		}
 		lim := t.chordAbs * math.Max(1, cabs(corr[i]-t.centre)/t.scale)
@@ -304,6 +311,27 @@ func (t *tracer) checkStep(s, pred, corr []complex128, active []bool, tan []comp
 		}
 	}
 	return ratio, true
+}
+
+// rootNoise estimates how far a computed root s of a + k·b can be from
+// the exact one because of rounding in the coefficients: the first-order
+// bound n·u·M/|P′| and the bound √(2n·u·M/|P″|) that holds near a double
+// root (Wilkinson 1963, Rounding Errors in Algebraic Processes, ch. 2),
+// with M the magnitude of the terms of a + k·b at s.
+func (t *tracer) rootNoise(s complex128, k float64) float64 {
+	p := t.p
+	u := float64(p.order+1) * 0x1p-53
+	m := p.magnitude(s, k)
+	_, d1 := p.eval(s, k)
+	d2 := p.ad.Derivative().EvalComplex(s) + complex(k, 0)*p.bd.Derivative().EvalComplex(s)
+	e := math.Inf(1)
+	if d1 != 0 {
+		e = u * m / cabs(d1)
+	}
+	if d2 != 0 {
+		e = math.Min(e, math.Sqrt(2*u*m/cabs(d2)))
+	}
+	return e
 }
 
 // muOf returns the least common multiple of the cluster multiplicities
@@ -335,6 +363,25 @@ func (t *tracer) traceHalf(nd node, kEnd float64) ([][]Point, []complex128, erro
 	mu := muOf(nd.mult)
 	km := powerMap(nd.k, kEnd-nd.k, mu)
 	paths, fin, err := t.cont(km, 1, nd.slots, nd.clus, nd.mult, mu, nil)
+	if errors.Is(err, ErrTraceFailed) && mu > 1 {
+		// The local expansion did not lead away from the cluster: in
+		// double precision the coefficients of a + k·b only determine
+		// these roots to about √ε·cond, and they are distinct there.
+		// Start from the roots the root finder gives at this value.
+		raw, rerr := t.p.charPoly(nd.k).Roots()
+		t.stats.RootSolves++
+		if rerr == nil && len(raw) == len(nd.slots) {
+			perm, _ := matchSets(nd.slots, raw)
+			start := make([]complex128, len(raw))
+			for i, j := range perm {
+				start[i] = raw[j]
+			}
+			paths, fin, err = t.cont(powerMap(nd.k, kEnd-nd.k, 1), 1, start, nil, nil, 1, nil)
+			if err == nil {
+				t.notes = append(t.notes, fmt.Sprintf("the roots near %s = %.6g are ill-conditioned (clustered roots of a + k·b); the trace leaves them from the computed roots, not from the exact multiple root", t.p.variable, nd.k))
+			}
+		}
+	}
 	if err != nil {
 		return paths, fin, err
 	}

@@ -117,21 +117,32 @@ func (p *problem) findCommon() {
 			rz = append(rz, poly.Root{Value: z.Value, Multiplicity: m})
 		}
 	}
-	var vals []complex128
+	// Roots at the origin are divided out exactly (trailing zero
+	// coefficients), the others by polynomial division, so that the exact
+	// zero roots of a and b stay exact.
+	var vals, nonzero []complex128
+	origin := 0
 	for _, c := range common {
 		for range c.Multiplicity {
 			vals = append(vals, c.Value)
+			if c.Value == 0 {
+				origin++
+			} else {
+				nonzero = append(nonzero, c.Value)
+			}
 		}
 	}
-	g, err := poly.FromRoots(vals)
+	g, err := poly.FromRoots(nonzero)
 	if err != nil {
 		return
 	}
-	a1, _, err1 := p.a.DivMod(g)
-	b1, _, err2 := p.b.DivMod(g)
+	ka, kb := trailingZeros(p.a), trailingZeros(p.b)
+	a1, _, err1 := dropLow(p.a, ka).DivMod(g)
+	b1, _, err2 := dropLow(p.b, kb).DivMod(g)
 	if err1 != nil || err2 != nil || b1.IsZero() {
 		return
 	}
+	a1, b1 = a1.ShiftUp(ka-origin), b1.ShiftUp(kb-origin)
 	q := *p
 	q.a, q.b, q.ad, q.bd = a1, b1, a1.Derivative(), b1.Derivative()
 	q.n, q.m = a1.Degree(), b1.Degree()
@@ -141,6 +152,20 @@ func (p *problem) findCommon() {
 	p.common = common
 	p.reduced = &q
 	p.notes = append(p.notes, fmt.Sprintf("numerator and denominator share %d root(s), e.g. %v: closed-loop poles for every %s, left out of the moving branches", len(vals), fmtC(vals[0]), p.variable))
+}
+
+func trailingZeros(q poly.Poly) int {
+	k := 0
+	for k < q.Degree() && q.Coef(k) == 0 {
+		k++
+	}
+	return k
+}
+
+// dropLow returns q/x^k for the k trailing zero coefficients of q.
+func dropLow(q poly.Poly, k int) poly.Poly {
+	r, _ := poly.FromAscending(q.Ascending()[k:])
+	return r
 }
 
 // padeDelay returns the numerator and denominator of the diagonal Padé

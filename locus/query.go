@@ -202,9 +202,7 @@ func (p *problem) polishOnRay(r float64, d complex128) (float64, float64, bool) 
 		}
 		r, k, f, e = r+dr, k+dk, nf, ne
 	}
-	x = complex(r, 0) * d
-	const vanish = 1e3 * 0x1p-53
-	if cabs(p.b.EvalComplex(x)) <= vanish*absEval(p.b, cabs(x)) || cabs(p.a.EvalComplex(x)) <= vanish*absEval(p.a, cabs(x)) {
+	if p.atPoleOrZero(complex(r, 0) * d) {
 		return r, k, false
 	}
 	return r, k, e <= 1e-9

@@ -127,6 +127,7 @@ func Trace(loop tf.TF, set *Settings) (Locus, error) {
 	t := newTracer(p.moving(), an, r)
 	loc, err := t.run()
 	loc.Analysis = an
+	loc.Analysis.Notes = append(slices.Clone(an.Notes), t.notes...)
 	// Roots shared by a and b stay put for every value.
 	idx := t.p.order
 	for _, c := range p.common {
@@ -166,6 +167,7 @@ type tracer struct {
 	chordAbs float64
 	stats    TraceStats
 	kTyp     float64
+	notes    []string
 	traced   int
 }
 
@@ -504,7 +506,7 @@ func (t *tracer) traceLink(left, right node) (link, error) {
 			return link{}, err
 		}
 		perm, worst := matchSets(lend, rend)
-		if worst > 1e-6*t.scale {
+		if worst > 1e-6*t.scale && !t.withinNoise(lend, rend, perm, mid) {
 			return link{}, fmt.Errorf("%w: the traces from %s = %v and %v disagree by %.3g at %v", ErrTraceFailed, t.p.variable, left.k, right.k, worst, mid)
 		}
 		l := link{to: perm, paths: make([][]Point, N)}
@@ -541,6 +543,18 @@ func (t *tracer) traceLink(left, right node) (link, error) {
 		return l, nil
 	}
 	return link{}, fmt.Errorf("%w: two end values %v and %v are adjacent", ErrTraceFailed, left.k, right.k)
+}
+
+// withinNoise reports whether every matched pair agrees within 1e-6 of the
+// scale or within 1e3 times the rounding noise of its roots (rootNoise).
+func (t *tracer) withinNoise(a, b []complex128, perm []int, k float64) bool {
+	for i, j := range perm {
+		d := cabs(a[i] - b[j])
+		if d > 1e-6*t.scale && d > 1e3*(t.rootNoise(a[i], k)+t.rootNoise(b[j], k)) {
+			return false
+		}
+	}
+	return true
 }
 
 // matchSets pairs a with b (same length) greedily by increasing distance
