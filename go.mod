@@ -14,4 +14,5 @@ require (
 	golang.org/x/text v0.28.0 // indirect
 	gonum.org/v1/gonum v0.17.0 // indirect
 	gonum.org/v1/plot v0.17.0 // indirect
+	rsc.io/pdf v0.1.1 // indirect
 )
