@@ -134,6 +134,9 @@ func StepMetrics(sys tf.TF, set *MetricSettings) (Metrics, error) {
 	if err != nil {
 		return Metrics{}, err
 	}
+	if err := s.findPoles(); err != nil {
+		return Metrics{}, err
+	}
 	if !s.stable() {
 		return Metrics{}, s.unstableError("step metrics")
 	}

@@ -126,6 +126,11 @@ func (s *system) grid(set *Settings) (horizon, step float64, count int, err erro
 	if s.discrete && st != 0 && math.Abs(st-s.ts) > 1e-12*s.ts {
 		return 0, 0, 0, fmt.Errorf("%w: Settings.StepSec %v s differs from the sample period %v s of a discrete system", ErrSettings, st, s.ts)
 	}
+	if h == 0 || st == 0 {
+		if err := s.findPoles(); err != nil {
+			return 0, 0, 0, err
+		}
+	}
 	if h == 0 {
 		h = s.autoHorizon()
 	}

@@ -554,3 +554,30 @@ func TestCustomLevelsAndAutoGrid(t *testing.T) {
 		t.Errorf("auto grid: %d samples up to %v s", len(r.TimeSec), last)
 	}
 }
+
+func TestConcurrentUse(t *testing.T) {
+	// Values are immutable and functions keep no shared state: the same
+	// system simulated from several goroutines gives identical results
+	// (run with -race).
+	sys, _ := secondOrder(0.3, 2).WithDelay(0.2)
+	want, err := Step(sys, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	done := make(chan []float64)
+	for range 4 {
+		go func() {
+			r, _ := Step(sys, nil)
+			_, _ = StepMetrics(sys, nil)
+			done <- r.Output
+		}()
+	}
+	for range 4 {
+		got := <-done
+		for k := range want.Output {
+			if got[k] != want.Output[k] {
+				t.Fatalf("sample %d differs between goroutines", k)
+			}
+		}
+	}
+}

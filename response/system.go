@@ -44,14 +44,21 @@ func prepare(sys tf.TF, what string) (*system, error) {
 		}
 		s.delaySamp = int(r)
 	}
-	if s.n > 0 {
-		p, err := sys.Poles()
-		if err != nil {
-			return nil, fmt.Errorf("%w: poles of %v: %v", ErrNotFinite, sys, err)
-		}
-		s.poles = p
-	}
 	return s, nil
+}
+
+// findPoles computes the poles, which only the automatic grid and the
+// stability checks need (a simulation on a given grid skips the cost).
+func (s *system) findPoles() error {
+	if s.n == 0 || s.poles != nil {
+		return nil
+	}
+	p, err := s.sys.Poles()
+	if err != nil {
+		return fmt.Errorf("%w: poles of %v: %v", ErrNotFinite, s.sys, err)
+	}
+	s.poles = p
+	return nil
 }
 
 // rate returns the continuous-time decay rate −Re(s) and the modulus |s| of
