@@ -55,20 +55,21 @@ func (lp *loop) gainCrossovers() ([]float64, error) {
 // endpointCrossings returns the phase crossovers at ω = 0 (L(0) finite and
 // negative) and, for discrete loops, at the Nyquist frequency π/T.
 func (lp *loop) endpointCrossings() (low, high *crossing) {
-	x0 := complex(0, 0)
+	x0 := 0.0
 	if lp.discrete() {
 		x0 = 1
 	}
-	if d := lp.den.EvalComplex(x0); d != 0 {
-		if l := real(lp.num.EvalComplex(x0) / d); l < 0 {
+	// A denominator that vanishes within rounding (a discrete integrator
+	// (z − 1)(z − a) expands to coefficients whose sum is 1e-16, not 0) is
+	// a pole: L is infinite there, not a huge negative number.
+	if !lp.den.VanishesAt(x0) {
+		if l := lp.num.Eval(x0) / lp.den.Eval(x0); l < 0 {
 			low = &crossing{w: 0, k: -1 / l, slope: math.NaN()}
 		}
 	}
-	if lp.discrete() {
-		if d := lp.den.EvalComplex(-1); d != 0 {
-			if l := real(lp.num.EvalComplex(-1) / d); l < 0 {
-				high = &crossing{w: lp.nyquist(), k: -1 / l, slope: math.NaN()}
-			}
+	if lp.discrete() && !lp.den.VanishesAt(-1) {
+		if l := lp.num.Eval(-1) / lp.den.Eval(-1); l < 0 {
+			high = &crossing{w: lp.nyquist(), k: -1 / l, slope: math.NaN()}
 		}
 	}
 	return low, high

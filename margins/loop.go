@@ -68,8 +68,8 @@ func newLoop(g tf.TF) (*loop, error) {
 	}
 	if lp.ts > 0 {
 		n := max(lp.num.Degree(), lp.den.Degree())
-		lp.an = bilinear(lp.num, n)
-		lp.ad = bilinear(lp.den, n)
+		lp.an = lp.num.CircleToAxis(n)
+		lp.ad = lp.den.CircleToAxis(n)
 		if lp.ad.IsZero() {
 			return nil, fmt.Errorf("%w: the denominator vanishes on the unit circle identically", ErrDegenerate)
 		}
@@ -126,22 +126,6 @@ func snapToAxis(rs []complex128) {
 			rs[i] = complex(0, imag(r))
 		}
 	}
-}
-
-// bilinear returns (1−w)ⁿ·p((1+w)/(1−w)), exact up to the rounding of the
-// binomial sums.
-func bilinear(p poly.Poly, n int) poly.Poly {
-	one := poly.MustNew(1, 1)    // 1 + w
-	minus := poly.MustNew(-1, 1) // 1 − w
-	out := poly.Poly{}
-	c := p.Ascending()
-	for k, a := range c {
-		if a == 0 {
-			continue
-		}
-		out = out.Add(one.Pow(k).Mul(minus.Pow(n - k)).Scale(a))
-	}
-	return out
 }
 
 // axisParts returns re and im with p(jv) = re(v²) + j·v·im(v²).

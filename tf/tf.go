@@ -208,30 +208,15 @@ func (g TF) StaticGain() (float64, error) {
 	}
 	// Remove common roots at x by synthetic division (the remainder is
 	// rounding noise when both vanish there).
-	for vanishesAt(n, x) && vanishesAt(d, x) && n.Degree() > 0 && d.Degree() > 0 {
+	for n.VanishesAt(x) && d.VanishesAt(x) && n.Degree() > 0 && d.Degree() > 0 {
 		root, _ := poly.New(1, -x)
 		n, _, _ = n.DivMod(root)
 		d, _, _ = d.DivMod(root)
 	}
-	if vanishesAt(d, x) {
+	if d.VanishesAt(x) {
 		return math.Inf(1), fmt.Errorf("%w: the denominator vanishes at %s = %v", ErrInfiniteGain, g.Variable(), x)
 	}
 	return n.Eval(x) / d.Eval(x), nil
-}
-
-// vanishesAt reports whether p(x) is zero within rounding: at x = 0 exactly
-// (p(0) is a coefficient), elsewhere when |p(x)| ≤ 8·(n+1)·ε·‖p‖₁·max(1,|x|)ⁿ,
-// a few ulps per coefficient more than the error of forming the coefficients
-// by expanding products and of Horner's scheme (Higham 2002, §5.1). A pole
-// of a discrete loop at z = 1 written as (z−1)(z−0.368) expands to
-// coefficients whose sum is 1e-16, not 0; this test sees it as a root.
-func vanishesAt(p poly.Poly, x float64) bool {
-	if x == 0 {
-		return p.Eval(0) == 0
-	}
-	n := p.Degree()
-	tol := 8 * float64(n+1) * 0x1p-52 * p.Norm1() * math.Pow(math.Max(1, math.Abs(x)), float64(n))
-	return math.Abs(p.Eval(x)) <= tol
 }
 
 // Eval returns g at the complex point x (s or z), dead time included:
