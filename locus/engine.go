@@ -55,7 +55,8 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 	for i := range n {
 		active[i] = !cmplx.IsInf(s[i])
 		if active[i] {
-			paths[i] = []Point{{Value: k0, S: s[i]}}
+			paths[i] = make([]Point, 1, 64)
+			paths[i][0] = Point{Value: k0, S: s[i]}
 		}
 	}
 	// Puiseux coefficients of the clusters at t = 0: members leave along
@@ -234,8 +235,9 @@ func (t *tracer) tangent(s complex128, km kMap, tt float64) (complex128, bool) {
 func (t *tracer) newton(s complex128, k float64) (complex128, complex128, complex128, bool) {
 	p := t.p
 	tol := 1e-12 * math.Max(cabs(s), 1e-6*t.scale)
+	tol2 := tol * tol
 	kc := complex(k, 0)
-	prev := math.Inf(1)
+	prev2 := math.Inf(1)
 	for it := range 12 {
 		t.stats.NewtonIterations++
 		av, ad := p.a.EvalWithDerivative(s)
@@ -246,19 +248,21 @@ func (t *tracer) newton(s complex128, k float64) (complex128, complex128, comple
 		}
 		d := f / df
 		s -= d
-		if cmplx.IsNaN(s) || cmplx.IsInf(s) {
-			return s, df, bv, false
+		d2 := real(d)*real(d) + imag(d)*imag(d)
+		if !(d2 < math.Inf(1)) {
+			return s, df, bv, false // NaN or Inf
 		}
-		ad2 := cabs(d)
-		if ad2 <= tol {
+		// Quadratic convergence: the next correction is about
+		// |d|²/|d_prev|; stop when it would be below the tolerance.
+		if d2 <= tol2 || (it >= 1 && d2*d2 <= tol2*prev2 && d2 < 0.0625*prev2) {
 			return s, df, bv, true
 		}
-		if it >= 1 && ad2 > 0.5*prev && ad2 <= 1e-6*t.scale {
+		if it >= 1 && d2 > 0.25*prev2 && d2 <= 1e-12*t.scale*t.scale {
 			// Stagnation: accept if the residual is at the rounding level.
 			f, _ := p.eval(s, k)
 			return s, df, bv, cabs(f) <= 1e-11*p.magnitude(s, k)
 		}
-		prev = ad2
+		prev2 = d2
 	}
 	f, df := p.eval(s, k)
 	return s, df, p.b.EvalComplex(s), cabs(f) <= 1e-11*p.magnitude(s, k)
@@ -273,28 +277,37 @@ func (t *tracer) newton(s complex128, k float64) (complex128, complex128, comple
 func (t *tracer) checkStep(s, pred, corr []complex128, active []bool, tan []complex128, tanOK []bool, ntan []complex128, ntanOK []bool, km kMap, tn float64) (float64, bool) {
 	n := len(s)
 	ratio := 0.0
+	// Pairwise separations, each pair once: both corrections must be
+	// small against it.
 	for i := range n {
 		if !active[i] {
 			continue
 		}
-		e := corr[i] - pred[i]
-		e2 := real(e)*real(e) + imag(e)*imag(e)
-		for j := range n {
-			if j == i || !active[j] {
+		ei := corr[i] - pred[i]
+		ei2 := real(ei)*real(ei) + imag(ei)*imag(ei)
+		for j := i + 1; j < n; j++ {
+			if !active[j] {
 				continue
 			}
+			ej := corr[j] - pred[j]
+			ej2 := real(ej)*real(ej) + imag(ej)*imag(ej)
 			d := corr[i] - corr[j]
 			d2 := real(d)*real(d) + imag(d)*imag(d)
-			if d2 == 0 || e2 > 0.0625*d2 {
+			if d2 == 0 || ei2 > 0.0625*d2 || ej2 > 0.0625*d2 {
 				// Unless both roots are within rounding noise of each
 				// other (ill-conditioned cluster, where which is which is
 				// not defined in double precision), reject.
 				ki, _ := km(tn)
 				noise := 10 * (t.rootNoise(corr[i], ki) + t.rootNoise(corr[j], ki))
-				if !(d2 <= noise*noise && e2 <= noise*noise) {
+				if !(d2 <= noise*noise && ei2 <= noise*noise && ej2 <= noise*noise) {
 					return 0, false
 				}
 			}
+		}
+	}
+	for i := range n {
+		if !active[i] {
+			continue
 		}
 		lim := t.chordAbs * math.Max(1, cabs(corr[i]-t.centre)/t.scale)
 		ch := cabs(corr[i] - s[i])
@@ -368,7 +381,7 @@ func (t *tracer) traceHalf(nd node, kEnd float64) ([][]Point, []complex128, erro
 		// double precision the coefficients of a + k·b only determine
 		// these roots to about √ε·cond, and they are distinct there.
 		// Start from the roots the root finder gives at this value.
-		raw, rerr := t.p.charPoly(nd.k).Roots()
+		raw, rerr := fastRoots(t.p.charPoly(nd.k))
 		t.stats.RootSolves++
 		if rerr == nil && len(raw) == len(nd.slots) {
 			perm, _ := matchSets(nd.slots, raw)

@@ -219,7 +219,15 @@ func absEval(q poly.Poly, x float64) float64 {
 	return s
 }
 
-func cabs(z complex128) float64 { return math.Hypot(real(z), imag(z)) }
+// cabs returns |z|, without the scaling of math.Hypot when no overflow or
+// underflow can occur.
+func cabs(z complex128) float64 {
+	x, y := math.Abs(real(z)), math.Abs(imag(z))
+	if x < 1e150 && y < 1e150 && (x > 1e-150 || y > 1e-150) {
+		return math.Sqrt(x*x + y*y)
+	}
+	return math.Hypot(x, y)
+}
 
 func fmtC(z complex128) string {
 	if imag(z) == 0 {

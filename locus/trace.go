@@ -383,16 +383,12 @@ func (t *tracer) fillNode(nd *node) error {
 			if c.IsZero() {
 				return fmt.Errorf("%w: at %s = %v", ErrDegenerate, p.variable, nd.k)
 			}
-			rs, err := rootsMult(c)
+			rs, err := fastRoots(c)
 			t.stats.RootSolves++
 			if err != nil {
 				return fmt.Errorf("locus: roots at %s = %v: %w", p.variable, nd.k, err)
 			}
-			for _, r := range rs {
-				for range r.Multiplicity {
-					nd.slots = append(nd.slots, r.Value)
-				}
-			}
+			nd.slots = append(nd.slots, rs...)
 		}
 	}
 	finite := len(nd.slots)
@@ -560,6 +556,35 @@ func (t *tracer) withinNoise(a, b []complex128, perm []int, k float64) bool {
 // matchSets pairs a with b (same length) greedily by increasing distance
 // and returns perm (a[i] ↔ b[perm[i]]) and the largest distance paired.
 func matchSets(a, b []complex128) ([]int, float64) {
+	// Fast path: when every a[i] has a distinct nearest b[j], that is the
+	// pairing (the sets agree to rounding at the middle of a piece).
+	perm := make([]int, len(a))
+	usedB := make([]bool, len(b))
+	worst := 0.0
+	unique := true
+	for i, x := range a {
+		best, bd := -1, math.Inf(1)
+		for j, y := range b {
+			if d := cabs(x - y); d < bd {
+				best, bd = j, d
+			}
+		}
+		if best < 0 || usedB[best] {
+			unique = false
+			break
+		}
+		usedB[best] = true
+		perm[i] = best
+		worst = math.Max(worst, bd)
+	}
+	if unique {
+		return perm, worst
+	}
+	return matchSetsSorted(a, b)
+}
+
+// matchSetsSorted pairs a with b greedily by increasing distance.
+func matchSetsSorted(a, b []complex128) ([]int, float64) {
 	type pair struct {
 		i, j int
 		d    float64
@@ -595,12 +620,11 @@ func (t *tracer) finish(loc Locus, nodes []node, links []link) Locus {
 		cur := Branch{Index: b}
 		slot := b
 		emit := func(pts []Point) {
-			for _, q := range pts {
-				if n := len(cur.Points); n > 0 && cur.Points[n-1] == q {
-					continue
-				}
-				cur.Points = append(cur.Points, q)
+			// Consecutive pieces share their end point.
+			if n := len(cur.Points); n > 0 && len(pts) > 0 && cur.Points[n-1] == pts[0] {
+				pts = pts[1:]
 			}
+			cur.Points = append(cur.Points, pts...)
 		}
 		if n0 := nodes[0]; !cmplx.IsInf(n0.slots[slot]) && n0.kind != infNode {
 			emit([]Point{{Value: n0.k, S: n0.slots[slot]}})
