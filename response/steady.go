@@ -78,7 +78,7 @@ func SteadyState(loop tf.TF) (SteadyStateErrors, error) {
 		}
 		for _, r := range roots {
 			if (loop.IsDiscrete() && math.Hypot(real(r), imag(r)) >= 1) || (!loop.IsDiscrete() && real(r) >= 0) {
-				return SteadyStateErrors{}, fmt.Errorf("%w: closed loop of %v has the pole %v; steady-state errors need a stable closed loop", ErrUnstable, loop, r)
+				return SteadyStateErrors{}, fmt.Errorf("%w: closed loop of %v has the pole %s; steady-state errors need a stable closed loop", ErrUnstable, loop, formatComplex(r))
 			}
 		}
 	}

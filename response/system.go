@@ -105,7 +105,19 @@ func (s *system) unstableError(what string) error {
 	if s.discrete {
 		where = "|z| ≥ 1"
 	}
-	return fmt.Errorf("%w: %s of %v: pole %v has %s", ErrUnstable, what, s.sys, worst, where)
+	return fmt.Errorf("%w: %s of %v: pole %s has %s", ErrUnstable, what, s.sys, formatComplex(worst), where)
+}
+
+// formatComplex prints a pole as 0.5, −0.5+2i or 2i (no negative zeros).
+func formatComplex(z complex128) string {
+	re, im := real(z)+0, imag(z)+0 // +0 turns −0 into 0
+	switch {
+	case im == 0:
+		return fmt.Sprintf("%.6g", re)
+	case re == 0:
+		return fmt.Sprintf("%.6gi", im)
+	}
+	return fmt.Sprintf("%.6g%+.6gi", re, im)
 }
 
 // Rules for the automatic time grid (continuous time):
