@@ -282,6 +282,15 @@ func TestDiscreteAgainstDifferenceEquation(t *testing.T) {
 	// (package doc). 1e-13 absolute: both are exact recursions.
 	num, den := []float64{0.1, 0.22}, []float64{1, -1.2, 0.52}
 	T := 0.1
+	// A biproper system too: (0.5z² + 0.1z + 0.22)/(z² − 1.2z + 0.52) has
+	// a direct term, which appears in the pulse response's first sample.
+	for _, nm := range [][]float64{num, {0.5, 0.1, 0.22}} {
+		checkDiscrete(t, nm, den, T)
+	}
+}
+
+func checkDiscrete(t *testing.T, num, den []float64, T float64) {
+	t.Helper()
 	for _, lag := range []int{0, 3} {
 		sys, _ := tf.NewDiscrete(num, den, T)
 		if lag > 0 {
@@ -323,7 +332,11 @@ func TestDiscreteAgainstDifferenceEquation(t *testing.T) {
 			}
 		}
 		y := differenceEquation(num, den, u)
-		final := (0.1 + 0.22) / (1 - 1.2 + 0.52)
+		final := 0.0
+		for _, b := range num {
+			final += b
+		}
+		final /= 1 - 1.2 + 0.52
 		firstAt := func(lv float64) float64 {
 			for k, v := range y {
 				if v/final >= lv {
@@ -381,8 +394,12 @@ func TestDiscreteAgainstDifferenceEquation(t *testing.T) {
 			}
 		}
 	}
-	// Discrete initial state: y[0], y[1] of the free sequence.
-	sys, _ := tf.NewDiscrete(num, den, T)
+}
+
+func TestDiscreteInitialState(t *testing.T) {
+	// y[0], y[1] of the free sequence of den = z² − 1.2z + 0.52:
+	// y[k] = 1.2·y[k−1] − 0.52·y[k−2] (the homogeneous difference equation).
+	sys, _ := tf.NewDiscrete([]float64{0.1, 0.22}, []float64{1, -1.2, 0.52}, 0.1)
 	sim, err := Simulate(sys, []float64{0, 0.1, 0.2, 0.3, 0.4}, make([]float64, 5), &SimulateSettings{InitialState: []float64{1, 0.5}})
 	if err != nil {
 		t.Fatal(err)
@@ -578,6 +595,47 @@ func TestConcurrentUse(t *testing.T) {
 			if got[k] != want.Output[k] {
 				t.Fatalf("sample %d differs between goroutines", k)
 			}
+		}
+	}
+}
+
+func TestSimulateLinearSuperposition(t *testing.T) {
+	// A linearly interpolated input is a step of u0 plus ramps at every
+	// change of slope: u(t) = u0·1(t) + Σ (m_j − m_{j−1})·(t − t_j)·1(t − t_j).
+	// For 1/(s + a): step response (1 − e^(−at))/a and ramp response
+	// t/a − (1 − e^(−at))/a² (partial fractions by hand); with the dead time
+	// every term is shifted. Uneven times, dead time off the grid;
+	// 1e-13 absolute.
+	a, delay := 1.7, 0.29
+	sys, _ := tf.MustNew([]float64{1}, []float64{1, a}).WithDelay(delay)
+	times := []float64{0, 0.2, 0.25, 0.9, 1.4, 2.6, 3.0, 4.1}
+	u := []float64{0.5, 1.5, -0.3, 0.2, 0.2, 2, -1, 0}
+	r, err := Simulate(sys, times, u, &SimulateSettings{Interpolation: Linear})
+	if err != nil {
+		t.Fatal(err)
+	}
+	step := func(t float64) float64 {
+		if t <= 0 {
+			return 0
+		}
+		return -math.Expm1(-a*t) / a
+	}
+	ramp := func(t float64) float64 {
+		if t <= 0 {
+			return 0
+		}
+		return t/a + math.Expm1(-a*t)/(a*a)
+	}
+	for k, tk := range times {
+		want := u[0] * step(tk-delay)
+		prev := 0.0
+		for j := 0; j+1 < len(times); j++ {
+			m := (u[j+1] - u[j]) / (times[j+1] - times[j])
+			want += (m - prev) * ramp(tk-times[j]-delay)
+			prev = m
+		}
+		if math.Abs(r.Output[k]-want) > 1e-13 {
+			t.Errorf("y(%v) = %.17g, want %.17g", tk, r.Output[k], want)
 		}
 	}
 }
