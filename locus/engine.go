@@ -131,6 +131,7 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 		}
 		tn := tc + h
 		kn, dkn := km(tn)
+		coef := t.charCoeffs(kn)
 		ok := true
 		for i := range n {
 			if !active[i] {
@@ -149,7 +150,7 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 					pred[i] += complex(h*h/2, 0) * acc[i]
 				}
 			}
-			c, df, bv, good := t.newton(pred[i], kn)
+			c, df, bv, good := t.newtonCoeffs(pred[i], kn, coef)
 			if !good {
 				ok = false
 				break
@@ -226,41 +227,66 @@ func (t *tracer) tangent(s complex128, km kMap, tt float64) (complex128, bool) {
 	return v, true
 }
 
-// newton corrects s to a root of a + k·b by Newton's method. It stops when
+// charCoeffs returns the coefficients of a + k·b, lowest power first, in a
+// buffer reused by the tracer.
+func (t *tracer) charCoeffs(k float64) []float64 {
+	p := t.p
+	n := p.order
+	if cap(t.coef) < n+1 {
+		t.coef = make([]float64, n+1)
+	}
+	c := t.coef[:n+1]
+	for i := range c {
+		c[i] = p.a.Coef(i) + k*p.b.Coef(i)
+	}
+	return c
+}
+
+// hornerD returns q(s) and q′(s) for the coefficients c (lowest power
+// first).
+func hornerD(c []float64, s complex128) (v, d complex128) {
+	for i := len(c) - 1; i >= 0; i-- {
+		d = d*s + v
+		v = v*s + complex(c[i], 0)
+	}
+	return v, d
+}
+
+// newtonCoeffs corrects s to a root of a + k·b by Newton's method, with
+// c the coefficients of a + k·b (charCoeffs). It stops when
 // the correction falls below 1e-12 relative, or when it stagnates at the
 // rounding level (ill-conditioned roots) with a relative residual below
 // 1e-11; it reports failure otherwise. It also returns ∂P/∂s and b at the
 // last iterate, from which the caller forms the tangent without another
 // evaluation.
-func (t *tracer) newton(s complex128, k float64) (complex128, complex128, complex128, bool) {
+func (t *tracer) newtonCoeffs(s complex128, k float64, c []float64) (complex128, complex128, complex128, bool) {
 	p := t.p
 	tol := 1e-12 * math.Max(cabs(s), 1e-6*t.scale)
 	tol2 := tol * tol
-	kc := complex(k, 0)
 	prev2 := math.Inf(1)
+	var df complex128
 	for it := range 12 {
 		t.stats.NewtonIterations++
-		av, ad := p.a.EvalWithDerivative(s)
-		bv, bd := p.b.EvalWithDerivative(s)
-		f, df := av+kc*bv, ad+kc*bd
+		var f complex128
+		f, df = hornerD(c, s)
 		if df == 0 {
-			return s, df, bv, false
+			return s, df, p.b.EvalComplex(s), false
 		}
 		d := f / df
 		s -= d
 		d2 := real(d)*real(d) + imag(d)*imag(d)
 		if !(d2 < math.Inf(1)) {
-			return s, df, bv, false // NaN or Inf
+			return s, df, 0, false // NaN or Inf
 		}
 		// Quadratic convergence: the next correction is about
 		// |d|²/|d_prev|; stop when it would be below the tolerance.
 		if d2 <= tol2 || (it >= 1 && d2*d2 <= tol2*prev2 && d2 < 0.0625*prev2) {
-			return s, df, bv, true
+			return s, df, p.b.EvalComplex(s), true
 		}
 		if it >= 1 && d2 > 0.25*prev2 && d2 <= 1e-12*t.scale*t.scale {
 			// Stagnation: accept if the residual is at the rounding level.
 			f, _ := p.eval(s, k)
-			return s, df, bv, cabs(f) <= 1e-11*p.magnitude(s, k)
+			return s, df, p.b.EvalComplex(s), cabs(f) <= 1e-11*p.magnitude(s, k)
 		}
 		prev2 = d2
 	}

@@ -168,6 +168,7 @@ type tracer struct {
 	stats    TraceStats
 	kTyp     float64
 	notes    []string
+	coef     []float64 // scratch coefficients of a + k·b
 	traced   int
 }
 
