@@ -243,7 +243,9 @@ type point struct {
 func (s *system) discretePoints(final, band float64) ([]point, error) {
 	N := int(math.Round(s.autoHorizon() / s.ts))
 	N = max(N, 2*s.n+4)
+	tried := N
 	for range maxHorizonGrowth {
+		tried = N
 		u := make([]float64, N+1)
 		for i := range u {
 			u[i] = 1
@@ -261,9 +263,12 @@ func (s *system) discretePoints(final, band float64) ([]point, error) {
 		if last < N/2 && math.Abs(pts[N].r-1) < band/100 {
 			return pts, nil
 		}
+		if 4*N > maxSamples {
+			break
+		}
 		N *= 4
 	}
-	return nil, fmt.Errorf("%w: %v within %d samples", ErrNotSettled, s.sys, N/4)
+	return nil, fmt.Errorf("%w: %v within %d samples", ErrNotSettled, s.sys, tried)
 }
 
 // evaluator gives the exact continuous step response from rest between

@@ -19,7 +19,9 @@ type Settings struct {
 	// StepSec is the grid spacing in seconds, ≥ 0. If zero, defaults to
 	// min(HorizonSec/400, 0.1/max|p|) (at least 62 samples per period of
 	// the fastest mode), raised if needed to keep at most 20000 intervals.
-	// Discrete time: must be zero or the sample period.
+	// Discrete time: must be zero or the sample period (the automatic
+	// horizon then covers at most 20000 samples). Any grid has at most
+	// 10 000 000 samples (ErrSettings beyond).
 	StepSec float64
 	// InitialState holds the initial conditions of the denominator's
 	// differential equation: y(0), y'(0), …, y^(n−1)(0) of the free

@@ -129,13 +129,13 @@ func formatComplex(z complex128) string {
 // Without stable poles, σ is replaced by the smallest nonzero |p| (1 s⁻¹ if
 // every pole is at the origin, or there are none). Discrete time uses the
 // sample period as the step, σ = −ln|z|/T, and rounds the horizon up to
-// whole samples.
+// whole samples, at most maxAutoSamples of them.
 const (
 	horizonTimeConstants = 10    // e^(−10) ≈ 4.5e-5 of the slowest mode remains
 	minSamples           = 400   // at least this many intervals over the horizon
 	stepPerFastest       = 0.1   // ≥ 62 samples per period of the fastest mode
 	maxAutoSamples       = 20000 // cap for very stiff systems
-	maxSamples           = 50_000_000
+	maxSamples           = 10_000_000 // any grid, given or automatic (160 MB of output)
 )
 
 // autoHorizon returns the automatic horizon in seconds.
@@ -162,7 +162,7 @@ func (s *system) autoHorizon() float64 {
 	}
 	h := s.delay + horizonTimeConstants/sigma
 	if s.discrete {
-		h = math.Ceil(h/s.ts-1e-9) * s.ts
+		h = math.Min(math.Ceil(h/s.ts-1e-9), maxAutoSamples) * s.ts
 	}
 	return h
 }
