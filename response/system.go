@@ -131,10 +131,10 @@ func formatComplex(z complex128) string {
 // sample period as the step, σ = −ln|z|/T, and rounds the horizon up to
 // whole samples, at most maxAutoSamples of them.
 const (
-	horizonTimeConstants = 10    // e^(−10) ≈ 4.5e-5 of the slowest mode remains
-	minSamples           = 400   // at least this many intervals over the horizon
-	stepPerFastest       = 0.1   // ≥ 62 samples per period of the fastest mode
-	maxAutoSamples       = 20000 // cap for very stiff systems
+	horizonTimeConstants = 10         // e^(−10) ≈ 4.5e-5 of the slowest mode remains
+	minSamples           = 400        // at least this many intervals over the horizon
+	stepPerFastest       = 0.1        // ≥ 62 samples per period of the fastest mode
+	maxAutoSamples       = 20000      // cap for very stiff systems
 	maxSamples           = 10_000_000 // any grid, given or automatic (160 MB of output)
 )
 
