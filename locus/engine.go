@@ -1,12 +1,62 @@
 package locus
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"math"
 	"math/cmplx"
 	"slices"
 )
+
+// waypoint is a crossing inside a piece, at parameter t.
+type waypoint struct {
+	t float64
+	c Crossing
+}
+
+// waypoints returns the crossings whose value lies strictly inside the
+// piece, with their parameter from inv (NaN when outside), ascending.
+func (t *tracer) waypoints(inv func(k float64) float64, tEnd float64) []waypoint {
+	var out []waypoint
+	for _, c := range t.waysAll {
+		if u := inv(c.Value); u > 0 && u < tEnd {
+			out = append(out, waypoint{u, c})
+		}
+	}
+	slices.SortFunc(out, func(x, y waypoint) int { return cmp.Compare(x.t, y.t) })
+	return out
+}
+
+// powerInv inverts powerMap.
+func powerInv(k0, d float64, mu int) func(float64) float64 {
+	return func(k float64) float64 {
+		r := (k - k0) / d
+		if !(r > 0 && r < 1) {
+			return math.NaN()
+		}
+		return math.Pow(r, 1/float64(mu))
+	}
+}
+
+// expInv inverts expMap.
+func expInv(k0, e float64) func(float64) float64 {
+	return func(k float64) float64 {
+		var r float64
+		if math.IsInf(e, 0) {
+			r = k / k0
+			if !(r > 1) {
+				return math.NaN()
+			}
+			return math.Log(r)
+		}
+		r = (k - e) / (k0 - e)
+		if !(r > 0 && r < 1) {
+			return math.NaN()
+		}
+		return -math.Log(r)
+	}
+}
 
 // kMap is a parameterisation k(t) of a piece, with dk/dt.
 type kMap func(t float64) (k, dk float64)
@@ -45,7 +95,7 @@ type stopFunc func(i int, s complex128, k float64) bool
 // the clusters given by clus/mult) from t = 0 to tEnd (or until stop has
 // finished every root) and returns each root's points, from its start
 // point on, and the final positions.
-func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []int, mu int, stop stopFunc) ([][]Point, []complex128, error) {
+func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []int, mu int, stop stopFunc, ways []waypoint) ([][]Point, []complex128, error) {
 	p := t.p
 	n := len(start)
 	s := append([]complex128(nil), start...)
@@ -129,6 +179,12 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 		if tc+h > tEnd {
 			h = tEnd - tc
 		}
+		hitting := false
+		hPlanned := h
+		if len(ways) > 0 && tc+h >= ways[0].t {
+			h = ways[0].t - tc
+			hitting = true
+		}
 		tn := tc + h
 		kn, dkn := km(tn)
 		coef := t.charCoeffs(kn)
@@ -187,6 +243,38 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 			s[i], tan[i], tanOK[i] = corr[i], ntan[i], ntanOK[i]
 			paths[i] = append(paths[i], Point{Value: kn, S: s[i]})
 			t.traced++
+		}
+		for hitting && len(ways) > 0 && ways[0].t <= tn {
+			// A crossing: the value and the boundary point exactly (every
+			// crossing at this parameter).
+			w := ways[0]
+			ways = ways[1:]
+			for _, x := range []complex128{w.c.Point, cmplx.Conj(w.c.Point)} {
+				best, bd := -1, math.Inf(1)
+				for i := range n {
+					if active[i] {
+						if d := cabs(s[i] - x); d < bd {
+							best, bd = i, d
+						}
+					}
+				}
+				if best >= 0 && bd <= 1e-6*t.scale {
+					s[best] = x
+				}
+				if imag(x) == 0 {
+					break
+				}
+			}
+			for i := range n {
+				if active[i] {
+					paths[i][len(paths[i])-1] = Point{Value: w.c.Value, S: s[i]}
+				}
+			}
+		}
+		for i := range n {
+			if !active[i] {
+				continue
+			}
 			if stop != nil && stop(i, s[i], kn) {
 				active[i] = false
 			}
@@ -200,7 +288,11 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 		if ratio > 0 {
 			f = math.Min(2, math.Max(0.5, 0.8/ratio))
 		}
-		h *= f
+		if hitting {
+			h = math.Max(h*f, hPlanned) // a waypoint shortened the step
+		} else {
+			h *= f
+		}
 	}
 	return paths, s, nil
 }
@@ -401,7 +493,7 @@ func lcm(a, b int) int {
 func (t *tracer) traceHalf(nd node, kEnd float64) ([][]Point, []complex128, error) {
 	mu := muOf(nd.mult)
 	km := powerMap(nd.k, kEnd-nd.k, mu)
-	paths, fin, err := t.cont(km, 1, nd.slots, nd.clus, nd.mult, mu, nil)
+	paths, fin, err := t.cont(km, 1, nd.slots, nd.clus, nd.mult, mu, nil, t.waypoints(powerInv(nd.k, kEnd-nd.k, mu), 1))
 	if errors.Is(err, ErrTraceFailed) && mu > 1 {
 		// The local expansion did not lead away from the cluster: in
 		// double precision the coefficients of a + k·b only determine
@@ -415,7 +507,7 @@ func (t *tracer) traceHalf(nd node, kEnd float64) ([][]Point, []complex128, erro
 			for i, j := range perm {
 				start[i] = raw[j]
 			}
-			paths, fin, err = t.cont(powerMap(nd.k, kEnd-nd.k, 1), 1, start, nil, nil, 1, nil)
+			paths, fin, err = t.cont(powerMap(nd.k, kEnd-nd.k, 1), 1, start, nil, nil, 1, nil, t.waypoints(powerInv(nd.k, kEnd-nd.k, 1), 1))
 			if err == nil {
 				t.notes = append(t.notes, fmt.Sprintf("the roots near %s = %.6g are ill-conditioned (clustered roots of a + k·b); the trace leaves them from the computed roots, not from the exact multiple root", t.p.variable, nd.k))
 			}
@@ -479,7 +571,7 @@ func (t *tracer) traceToEnd(nd node, end node) ([][]Point, []int, error) {
 	} else {
 		uMax = math.Log(math.Abs(nd.k-end.k) / (1e-15 * math.Max(1, math.Abs(end.k))))
 	}
-	paths, fin, err := t.cont(km, uMax, nd.slots, nil, nil, 1, stop)
+	paths, fin, err := t.cont(km, uMax, nd.slots, nil, nil, 1, stop, t.waypoints(expInv(nd.k, end.k), uMax))
 	if errors.Is(err, ErrTraceFailed) {
 		// Near a multiple limit point (a multiple zero) the converging
 		// roots are only known to about ε^(1/ν), and the continuation can

@@ -169,6 +169,7 @@ type tracer struct {
 	kTyp     float64
 	notes    []string
 	coef     []float64 // scratch coefficients of a + k·b
+	waysAll  []Crossing
 	traced   int
 }
 
@@ -271,9 +272,9 @@ func (t *tracer) nodes() ([]node, error) {
 			ks = append(ks, b.Value)
 		}
 	}
-	for _, c := range t.an.AxisCrossings {
-		ks = append(ks, c.Value)
-	}
+	// Crossings are waypoints inside the pieces (simple roots, no root
+	// solve needed), not nodes.
+	t.waysAll = t.an.AxisCrossings
 	if hasDrop && in(kd) {
 		ks = append(ks, kd)
 	}
