@@ -185,6 +185,13 @@ func (m Model) blockExp(T float64, extra int) (*mat.Dense, error) {
 	for i := n; i+1 < N; i++ {
 		M.Set(i, i+1, 1)
 	}
+	// mat.Exp does not return on infinite entries (its scaling loop never
+	// ends), so an overflowing A·T is an error before the call.
+	for _, v := range M.RawMatrix().Data {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, fmt.Errorf("%w: A·T overflows at sample period %v s", ErrNotFinite, T)
+		}
+	}
 	var E mat.Dense
 	E.Exp(M)
 	for _, v := range E.RawMatrix().Data {

@@ -291,6 +291,12 @@ func TestBadInput(t *testing.T) {
 			t.Errorf("FOH T=%v: no error", T)
 		}
 	}
+	// A·T that overflows (finite T, huge product) is an error, not a hang
+	// in mat.Exp's scaling loop.
+	fast, _ := FromTransferFunction([]float64{1}, []float64{1, 1e10})
+	if _, _, err := fast.ZeroOrderHold(1e300); !errors.Is(err, ErrNotFinite) {
+		t.Errorf("ZOH with overflowing A·T: %v, want ErrNotFinite", err)
+	}
 	// Leading zeros of the numerator are dropped: (0s + 1)/(s + 1) is proper.
 	if _, err := FromTransferFunction([]float64{0, 0, 1}, []float64{1, 1}); err != nil {
 		t.Errorf("leading zeros: %v", err)
