@@ -179,3 +179,39 @@ func TestCompareBaseline(t *testing.T) {
 		}
 	}
 }
+
+// TestSwapCheckerDetects makes sure the branch-identity check used for
+// the swap counts can fail: two baseline branches exchanged halfway must
+// be reported.
+func TestSwapCheckerDetects(t *testing.T) {
+	loop := familyLoop(8)
+	r, _ := resolve(nil)
+	p, err := newProblem(loop, r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	an, err := p.analyze()
+	if err != nil {
+		t.Fatal(err)
+	}
+	bb, _ := baselineGrid(p.a, p.b, 1e-2, 1e2, 400)
+	const scale = 10
+	if s, _, _ := countSwaps(p, an, bb, scale); s != 0 {
+		t.Fatalf("unmodified baseline: %d swaps", s)
+	}
+	// Exchange the tails of two branches that are far apart at the cut.
+	cut := 200
+	i, j := 0, 1
+	for q := 1; q < len(bb); q++ {
+		if math.Abs(real(bb[q][cut].S)-real(bb[0][cut].S)) > 0.5 {
+			j = q
+			break
+		}
+	}
+	tail := append(tracedBranch(nil), bb[i][cut:]...)
+	copy(bb[i][cut:], bb[j][cut:])
+	copy(bb[j][cut:], tail)
+	if s, _, _ := countSwaps(p, an, bb, scale); s < 2 {
+		t.Errorf("exchanged branches: %d swaps reported, want 2", s)
+	}
+}
