@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
-	"slices"
 
 	"github.com/loopwise/loopwise/tf"
 )
@@ -422,17 +421,4 @@ func (r *Result) setDelayMargin() {
 			r.DelayMarginSec, r.DelayMarginRadPerSec = d, g.FrequencyRadPerSec
 		}
 	}
-}
-
-// crossoverFrequencies returns the frequencies of the listed crossovers.
-func crossoverFrequencies(r *Result) []float64 {
-	var ws []float64
-	for _, g := range r.GainCrossovers {
-		ws = append(ws, g.FrequencyRadPerSec)
-	}
-	for _, p := range r.PhaseCrossovers {
-		ws = append(ws, p.FrequencyRadPerSec)
-	}
-	slices.Sort(ws)
-	return ws
 }

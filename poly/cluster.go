@@ -97,8 +97,7 @@ func findClusters(tc *taylor, z []complex128, tol float64) []candidate {
 	for i := range parent {
 		parent[i] = i
 	}
-	var find func(int) int
-	find = func(i int) int {
+	find := func(i int) int {
 		for parent[i] != i {
 			parent[i] = parent[parent[i]]
 			i = parent[i]

@@ -22,5 +22,3 @@ func threadCPU() time.Duration {
 	}
 	return time.Duration(ts.Nano())
 }
-
-var haveThreadCPU = true

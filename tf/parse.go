@@ -169,7 +169,6 @@ type parser struct {
 	pos  int
 	tok  token
 	prev token // the token before tok
-	err  error // first lexical error
 }
 
 func (p *parser) errf(format string, a ...any) error {
