@@ -90,20 +90,16 @@ func fitAffine(name string, probes [4]float64, loops [4]tf.TF) (Parametric, erro
 		monicChar
 	)
 	char := func(l tf.TF, how normal) (poly.Poly, error) {
-		num, den := l.Num(), l.Den()
 		if delay != 0 {
-			if l.IsDiscrete() {
-				steps := delay / l.SampleTimeSec()
-				m := math.Round(steps)
-				if math.Abs(steps-m) > 1e-9*math.Max(1, steps) {
-					return poly.Poly{}, fmt.Errorf("%w: dead time %v s is not a whole number of samples", ErrUnsupported, delay)
+			var err error
+			if l, err = l.Pade(6); err != nil {
+				if errors.Is(err, tf.ErrFractionalDelay) {
+					return poly.Poly{}, fmt.Errorf("%w: %w", ErrUnsupported, err)
 				}
-				den = den.ShiftUp(int(m))
-			} else {
-				pn, pd := padeDelay(delay, 6)
-				num, den = num.Mul(pn), den.Mul(pd)
+				return poly.Poly{}, err
 			}
 		}
+		num, den := l.Num(), l.Den()
 		if how == monicDen {
 			num, den = num.Scale(1/den.Lead()), den.Scale(1/den.Lead())
 		}

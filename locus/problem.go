@@ -1,6 +1,7 @@
 package locus
 
 import (
+	"errors"
 	"fmt"
 	"math"
 
@@ -41,24 +42,24 @@ func (p *problem) moving() *problem {
 // newProblem turns a loop N/D (dead time replaced by a Padé approximation)
 // into a = D, b = N.
 func newProblem(loop tf.TF, r resolved) (*problem, error) {
-	num, den := loop.Num(), loop.Den()
 	var notes []string
 	if d := loop.DelaySec(); d != 0 {
-		if loop.IsDiscrete() {
-			steps := d / loop.SampleTimeSec()
-			ms := math.Round(steps)
-			if math.Abs(steps-ms) > 1e-9*math.Max(1, steps) {
-				return nil, fmt.Errorf("%w: dead time %v s is not a whole number of sample periods (%v s) in a discrete loop", ErrUnsupported, d, loop.SampleTimeSec())
+		rl, err := loop.Pade(r.padeOrder)
+		if err != nil {
+			if errors.Is(err, tf.ErrFractionalDelay) {
+				return nil, fmt.Errorf("%w: dead time %v s in a discrete loop: %w", ErrUnsupported, d, err)
 			}
-			den = den.ShiftUp(int(ms))
-			notes = append(notes, fmt.Sprintf("dead time of %v s (%d samples) written exactly as z^-%d", d, int(ms), int(ms)))
+			return nil, fmt.Errorf("locus: dead time %v s: %w", d, err)
+		}
+		if loop.IsDiscrete() {
+			k := int(math.Round(d / loop.SampleTimeSec()))
+			notes = append(notes, fmt.Sprintf("dead time of %v s (%d samples) written exactly as z^-%d", d, k, k))
 		} else {
-			pn, pd := padeDelay(d, r.padeOrder)
-			num, den = num.Mul(pn), den.Mul(pd)
 			notes = append(notes, fmt.Sprintf("dead time of %v s replaced by a Padé approximation of order %d", d, r.padeOrder))
 		}
+		loop = rl
 	}
-	return newProblemPolys(den, num, loop.IsDiscrete(), loop.SampleTimeSec(), r, notes)
+	return newProblemPolys(loop.Den(), loop.Num(), loop.IsDiscrete(), loop.SampleTimeSec(), r, notes)
 }
 
 func newProblemPolys(a, b poly.Poly, discrete bool, ts float64, r resolved, notes []string) (*problem, error) {
@@ -166,31 +167,6 @@ func trailingZeros(q poly.Poly) int {
 func dropLow(q poly.Poly, k int) poly.Poly {
 	r, _ := poly.FromAscending(q.Ascending()[k:])
 	return r
-}
-
-// padeDelay returns the numerator and denominator of the diagonal Padé
-// approximation of order n of e^(−sT): Σ c_k (−sT)^k / Σ c_k (sT)^k with
-// c_k = (2n−k)!·n! / ((2n)!·k!·(n−k)!) (Padé 1892; see Golub & Van Loan,
-// Matrix Computations, 4th ed., §9.3.1). The error is O((sT)^(2n+1)).
-func padeDelay(T float64, n int) (num, den poly.Poly) {
-	cn := make([]float64, n+1) // ascending powers
-	cd := make([]float64, n+1)
-	c := 1.0
-	for k := 0; k <= n; k++ {
-		if k > 0 {
-			c *= float64(n-k+1) / (float64(2*n-k+1) * float64(k))
-		}
-		tk := c * math.Pow(T, float64(k))
-		cd[k] = tk
-		if k%2 == 1 {
-			cn[k] = -tk
-		} else {
-			cn[k] = tk
-		}
-	}
-	num, _ = poly.FromAscending(cn)
-	den, _ = poly.FromAscending(cd)
-	return num, den
 }
 
 // eval returns a(x) + k·b(x) and its derivative in x.
