@@ -60,9 +60,9 @@
 // # Methods and accuracy
 //
 // Everything is computed from the polynomials, without a grid. Roots come
-// from package poly (companion eigenvalues refined by Newton's method),
-// with multiple roots recognised by the test of Kahan (1972) and Zeng
-// (2004). Crossings are the real roots of the even polynomial
+// from package poly (companion eigenvalues refined by the Aberth iteration
+// with compensated residuals), with multiple roots recognised by the test
+// of Kahan (1972) and Zeng (2004). Crossings are the real roots of the even polynomial
 // Im(a(jω)·conj b(jω))/ω in ω² (after the bilinear map z = (1+w)/(1−w) in
 // discrete time), polished by Newton's method on the two real equations in
 // (ω, k). Break points are the roots of a′b − ab′ polished by Newton's
@@ -74,13 +74,17 @@
 // to 2e-14 relative; departure angles within the 1e-6 degrees tested.
 //
 // Trace follows every root by predictor–corrector continuation (Allgower &
-// Georg 2003) between consecutive special values (range ends, break
-// points, crossings, the degree drop); break points and multiple poles are
-// left along their Puiseux directions, towards ±∞ the variable is changed
-// to log k; see trace.go for the details. Every traced point satisfies
-// |a(s) + k·b(s)| ≤ 1e-9·(Σ|aᵢ||s|ⁱ + |k|·Σ|bᵢ||s|ⁱ), and no step may land
-// on another branch (each correction must be small against the distance to
-// every other root).
+// Georg 2003) between consecutive special values (range ends, k = 0, break
+// points, the degree drop), with the crossings as exact waypoints inside
+// the pieces; break points and multiple poles are left along their Puiseux
+// directions, towards ±∞ the variable is changed to log k; see trace.go for
+// the details. Every traced point satisfies |a(s) + k·b(s)| ≤
+// 1e-9·(Σ|aᵢ||s|ⁱ + |k|·Σ|bᵢ||s|ⁱ) (a and b with the roots they share
+// divided out; those are returned as constant branches), and no step may
+// land on another branch (each correction must be small against the
+// distance to every other root, unless both lie within the rounding noise
+// of an ill-conditioned cluster, where double precision cannot tell them
+// apart).
 //
 // # Performance
 //

@@ -2,8 +2,8 @@ package locus
 
 // Tracing by predictor–corrector continuation.
 //
-// Between two consecutive special values of k (range ends, break points,
-// crossings, the value where the degree of a + k·b drops) every root of
+// Between two consecutive special values of k (range ends, k = 0, break
+// points, the value where the degree of a + k·b drops) every root of
 // a + k·b is simple, so each root is an analytic function of k there and
 // can be followed by continuation (Allgower & Georg, Introduction to
 // Numerical Continuation Methods, SIAM 2003, ch. 2): an Euler–Hermite
@@ -33,9 +33,11 @@ package locus
 //     it reaches its limit point (which is then appended exactly) or leaves
 //     the disc of radius ExtentRadius.
 //
-// Roots at special values come from poly's root finder at that exact value
-// and are snapped to the exactly known points: break points, crossings,
-// open-loop poles.
+// Roots at special values are the eigenvalues of the companion matrix of
+// a + k·b at that exact value (one solve per special value), snapped to
+// the exactly known points: break points and open-loop poles. Crossings
+// are waypoints inside the pieces: the step is shortened to land on their
+// value and the root is set to the crossing point exactly.
 
 import (
 	"cmp"
