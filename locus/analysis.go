@@ -403,18 +403,6 @@ func (p *problem) atPoleOrZero(s complex128) bool {
 	return false
 }
 
-// nearMultiple reports whether s lies within 1e-6 (relative) of a multiple
-// root in rs: a root of a′b − ab′ there belongs to the multiple pole or
-// zero, moved off it by rounding.
-func nearMultiple(s complex128, rs []poly.Root) bool {
-	for _, r := range rs {
-		if r.Multiplicity > 1 && cabs(s-r.Value) <= 1e-6*math.Max(1, cabs(r.Value)) {
-			return true
-		}
-	}
-	return false
-}
-
 // newtonPoly polishes a simple root of q by Newton's method, keeping the
 // iterate real when real is set, and stopping when the residual stops
 // decreasing.

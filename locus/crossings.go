@@ -34,23 +34,6 @@ func partsOnAxis(q poly.Poly) (re, im poly.Poly) {
 	return re, im
 }
 
-// bilinear returns (1 − w)^N·q((1 + w)/(1 − w)), which maps the unit circle
-// |z| = 1 of q to the imaginary axis of w (z = e^(jθ) ↔ w = j·tan(θ/2)) and
-// the inside of the circle to the left half plane.
-func bilinear(q poly.Poly, N int) poly.Poly {
-	plus := poly.MustNew(1, 1)   // 1 + w
-	minus := poly.MustNew(-1, 1) // 1 − w
-	out := poly.Poly{}
-	for k := 0; k <= q.Degree(); k++ {
-		c := q.Coef(k)
-		if c == 0 {
-			continue
-		}
-		out = out.Add(plus.Pow(k).Mul(minus.Pow(N - k)).Scale(c))
-	}
-	return out
-}
-
 // boundaryCandidates returns the ω > 0 at which A(jω) + k·B(jω) = 0 for a
 // real k: the positive real roots x = ω² of Im(A(jω)·conj B(jω))/ω, an
 // even polynomial in ω. ok is false when that polynomial is identically
@@ -95,7 +78,7 @@ func boundaryCandidates(A, B poly.Poly) (omegas []float64, ok bool) {
 func (p *problem) crossings() ([]Crossing, error) {
 	A, B := p.a, p.b
 	if p.discrete {
-		A, B = bilinear(p.a, p.order), bilinear(p.b, p.order)
+		A, B = p.a.CircleToAxis(p.order), p.b.CircleToAxis(p.order)
 	}
 	cand, ok := boundaryCandidates(A, B)
 	if !ok {
@@ -109,11 +92,13 @@ func (p *problem) crossings() ([]Crossing, error) {
 	}
 	for _, t := range reals {
 		x := p.boundaryPoint(t)
-		av, bv := p.a.EvalComplex(x), p.b.EvalComplex(x)
-		if av == 0 || bv == 0 {
+		// An open-loop pole or zero here (within the rounding of expanded
+		// coefficients, as for a discrete integrator (z − 1)(z − a)) is
+		// not a crossing: k would be 0 or ∞.
+		if p.a.VanishesAt(real(x)) || p.b.VanishesAt(real(x)) {
 			continue
 		}
-		k := real(-av / bv)
+		k := -p.a.Eval(real(x)) / p.b.Eval(real(x))
 		if k != 0 && p.rng.Min < k && k < p.rng.Max {
 			out = append(out, Crossing{FrequencyRadPerSec: p.freq(t), Point: x, Value: k})
 		}
@@ -225,7 +210,7 @@ func (p *problem) stable(k float64) (bool, error) {
 	}
 	h := c
 	if p.discrete {
-		h = bilinear(c, c.Degree())
+		h = c.CircleToAxis(c.Degree())
 		if h.Degree() < c.Degree() {
 			// A root at z = −1 (on the circle): not stable.
 			return false, nil
@@ -300,15 +285,6 @@ func routhStable(q poly.Poly) (stable, ok bool) {
 		r0, r1 = r1, next
 	}
 	return true, true
-}
-
-func isZeroRow(r []float64) bool {
-	for _, v := range r {
-		if v != 0 {
-			return false
-		}
-	}
-	return true
 }
 
 // stableIntervals splits the open range at the critical values — crossing
