@@ -4,6 +4,7 @@ import (
 	"math"
 	"slices"
 
+	"github.com/loopwise/loopwise/internal/rootfind"
 	"github.com/loopwise/loopwise/poly"
 )
 
@@ -115,73 +116,11 @@ func newton(f func(float64) (float64, float64), x, lo, hi float64) (float64, boo
 	return x, true
 }
 
-// brent returns a root of f in [a, b], where f(a) and f(b) have opposite
-// signs (or one is zero), by Brent's method (Brent 1973, Algorithms for
-// Minimization without Derivatives, ch. 4: inverse quadratic
-// interpolation safeguarded by bisection). The bracket shrinks to about
-// 4·eps·|x|; convergence is guaranteed.
+// brent returns a root of f in [a, b] by Brent's method (Brent 1973),
+// f(a) = fa and f(b) = fb of opposite signs; the bracket shrinks to about
+// 4·u·|x| (u = 2⁻⁵³).
 func brent(f func(float64) float64, a, b, fa, fb float64) float64 {
-	if fa == 0 {
-		return a
-	}
-	if fb == 0 {
-		return b
-	}
-	c, fc := a, fa
-	d := b - a
-	e := d
-	for range 200 {
-		if (fb > 0) == (fc > 0) {
-			c, fc = a, fa
-			d = b - a
-			e = d
-		}
-		if math.Abs(fc) < math.Abs(fb) {
-			a, b, c = b, c, b
-			fa, fb, fc = fb, fc, fb
-		}
-		tol := 2*eps*math.Abs(b) + 1e-300
-		m := 0.5 * (c - b)
-		if math.Abs(m) <= tol || fb == 0 {
-			return b
-		}
-		if math.Abs(e) >= tol && math.Abs(fa) > math.Abs(fb) {
-			var p, q float64
-			s := fb / fa
-			if a == c {
-				p = 2 * m * s
-				q = 1 - s
-			} else {
-				qq := fa / fc
-				r := fb / fc
-				p = s * (2*m*qq*(qq-r) - (b-a)*(r-1))
-				q = (qq - 1) * (r - 1) * (s - 1)
-			}
-			if p > 0 {
-				q = -q
-			} else {
-				p = -p
-			}
-			if 2*p < math.Min(3*m*q-math.Abs(tol*q), math.Abs(e*q)) {
-				e = d
-				d = p / q
-			} else {
-				d = m
-				e = m
-			}
-		} else {
-			d = m
-			e = m
-		}
-		a, fa = b, fb
-		if math.Abs(d) > tol {
-			b += d
-		} else {
-			b += math.Copysign(tol, m)
-		}
-		fb = f(b)
-	}
-	return b
+	return rootfind.Brent(f, a, b, fa, fb, 2*eps)
 }
 
 // goldenMax returns the maximiser of f on [a, b] by golden-section search

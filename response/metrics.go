@@ -5,6 +5,7 @@ import (
 	"math"
 	"sort"
 
+	"github.com/loopwise/loopwise/internal/rootfind"
 	"github.com/loopwise/loopwise/tf"
 	"gonum.org/v1/gonum/mat"
 )
@@ -312,70 +313,7 @@ func (ev *evaluator) eval(t float64) (y, dy float64) {
 // sign (or one is zero), by Brent's method (R. P. Brent, Algorithms for
 // Minimization without Derivatives, 1973, ch. 4), to about 4 ulps of t.
 func (ev *evaluator) solve(a, b float64, f func(float64) float64) float64 {
-	fa, fb := f(a), f(b)
-	if fa == 0 {
-		return a
-	}
-	if fb == 0 {
-		return b
-	}
-	c, fc := a, fa
-	d := b - a
-	e := d
-	for iter := 0; iter < 200; iter++ {
-		if (fb > 0) == (fc > 0) {
-			c, fc = a, fa
-			d = b - a
-			e = d
-		}
-		if math.Abs(fc) < math.Abs(fb) {
-			a, b, c = b, c, b
-			fa, fb, fc = fb, fc, fb
-		}
-		tol := 4*0x1p-52*math.Abs(b) + 1e-300
-		mid := (c - b) / 2
-		if math.Abs(mid) <= tol || fb == 0 {
-			return b
-		}
-		if math.Abs(e) >= tol && math.Abs(fa) > math.Abs(fb) {
-			var p, q float64
-			sr := fb / fa
-			if a == c {
-				p = 2 * mid * sr
-				q = 1 - sr
-			} else {
-				qq := fa / fc
-				r := fb / fc
-				p = sr * (2*mid*qq*(qq-r) - (b-a)*(r-1))
-				q = (qq - 1) * (r - 1) * (sr - 1)
-			}
-			if p > 0 {
-				q = -q
-			} else {
-				p = -p
-			}
-			if 2*p < math.Min(3*mid*q-math.Abs(tol*q), math.Abs(e*q)) {
-				e = d
-				d = p / q
-			} else {
-				d = mid
-				e = d
-			}
-		} else {
-			d = mid
-			e = d
-		}
-		a, fa = b, fb
-		if math.Abs(d) > tol {
-			b += d
-		} else if mid > 0 {
-			b += tol
-		} else {
-			b -= tol
-		}
-		fb = f(b)
-	}
-	return b
+	return rootfind.Brent(f, a, b, f(a), f(b), 4*0x1p-52)
 }
 
 // continuousPoints samples the step response from rest (no dead time) on
