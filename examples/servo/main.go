@@ -20,20 +20,12 @@
 package main
 
 import (
-	"flag"
-	"fmt"
 	"io"
-	"os"
+
+	"github.com/loopwise/loopwise/examples/internal/output"
 )
 
-func main() {
-	out := flag.String("out", "servo-output", "folder for the plots (created if missing; empty for no plots)")
-	flag.Parse()
-	if err := run(os.Stdout, *out); err != nil {
-		fmt.Fprintln(os.Stderr, "servo:", err)
-		os.Exit(1)
-	}
-}
+func main() { output.Main("servo", "servo-output", run) }
 
 // run designs the servo, prints the summary to stdout and writes the plots
 // into outDir (no plots when outDir is empty).
@@ -42,20 +34,5 @@ func run(stdout io.Writer, outDir string) error {
 	if err != nil {
 		return err
 	}
-	if err := d.print(stdout); err != nil {
-		return err
-	}
-	if outDir == "" {
-		return nil
-	}
-	files, err := d.plot(outDir)
-	if err != nil {
-		return err
-	}
-	fmt.Fprintln(stdout)
-	fmt.Fprintln(stdout, "Plots written:")
-	for _, f := range files {
-		fmt.Fprintln(stdout, "  "+f)
-	}
-	return nil
+	return output.Report(stdout, outDir, d.print, d.plot)
 }

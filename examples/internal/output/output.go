@@ -3,7 +3,9 @@
 package output
 
 import (
+	"flag"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 
@@ -25,4 +27,37 @@ func Save(fig *chart.Figure, dir, base string) ([]string, error) {
 		paths = append(paths, path)
 	}
 	return paths, nil
+}
+
+// Report prints a study's summary to stdout with print and, when outDir is
+// not empty, writes its plots with plot and lists the files written.
+func Report(stdout io.Writer, outDir string, print func(io.Writer) error, plot func(dir string) ([]string, error)) error {
+	if err := print(stdout); err != nil {
+		return err
+	}
+	if outDir == "" {
+		return nil
+	}
+	files, err := plot(outDir)
+	if err != nil {
+		return err
+	}
+	fmt.Fprintln(stdout)
+	fmt.Fprintln(stdout, "Plots written:")
+	for _, f := range files {
+		fmt.Fprintln(stdout, "  "+f)
+	}
+	return nil
+}
+
+// Main is the main function of an example program: it reads the -out flag
+// (default defaultOut; empty for no plots), calls run with standard output
+// and exits with status 1 and a message naming the program on error.
+func Main(name, defaultOut string, run func(stdout io.Writer, outDir string) error) {
+	out := flag.String("out", defaultOut, "folder for the plots (created if missing; empty for no plots)")
+	flag.Parse()
+	if err := run(os.Stdout, *out); err != nil {
+		fmt.Fprintln(os.Stderr, name+":", err)
+		os.Exit(1)
+	}
 }
