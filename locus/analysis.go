@@ -349,7 +349,7 @@ func (p *problem) breakPoints() []BreakPoint {
 	if B.Degree() < 1 {
 		return nil
 	}
-	rs, err := rootsMult(B)
+	rs, err := B.RootsWithMultiplicity()
 	if err != nil {
 		return nil
 	}
@@ -401,31 +401,4 @@ func (p *problem) atPoleOrZero(s complex128) bool {
 		}
 	}
 	return false
-}
-
-// newtonPoly polishes a simple root of q by Newton's method, keeping the
-// iterate real when real is set, and stopping when the residual stops
-// decreasing.
-func newtonPoly(q, qd poly.Poly, s complex128, keepReal bool) complex128 {
-	f := q.EvalComplex(s)
-	for range 6 {
-		d := qd.EvalComplex(s)
-		if d == 0 {
-			break
-		}
-		step := f / d
-		if cabs(step) > 1e-6*math.Max(1, cabs(s)) {
-			break // not a refinement: the root is ill-conditioned here
-		}
-		n := s - step
-		if keepReal {
-			n = complex(real(n), 0)
-		}
-		fn := q.EvalComplex(n)
-		if cabs(fn) >= cabs(f) {
-			break
-		}
-		s, f = n, fn
-	}
-	return s
 }

@@ -61,8 +61,8 @@
 //
 // Everything is computed from the polynomials, without a grid. Roots come
 // from package poly (companion eigenvalues refined by the Aberth iteration
-// with compensated residuals), with multiple roots recognised by the test
-// of Kahan (1972) and Zeng (2004). Crossings are the real roots of the even polynomial
+// with compensated residuals), with multiple roots recognised there (see
+// poly.RootsWithSettings). Crossings are the real roots of the even polynomial
 // Im(a(jω)·conj b(jω))/ω in ω² (after the bilinear map z = (1+w)/(1−w) in
 // discrete time), polished by Newton's method on the two real equations in
 // (ω, k). Break points are the roots of a′b − ab′ polished by Newton's

@@ -77,10 +77,10 @@ func newProblemPolys(a, b poly.Poly, discrete bool, ts float64, r resolved, note
 		rng: r.rng, discrete: discrete, ts: ts, variable: r.variable, notes: notes}
 	p.order = max(p.n, p.m)
 	var err error
-	if p.poles, err = rootsMult(a); err != nil {
+	if p.poles, err = a.RootsWithMultiplicity(); err != nil {
 		return nil, fmt.Errorf("locus: poles: %w", err)
 	}
-	if p.zeros, err = rootsMult(b); err != nil {
+	if p.zeros, err = b.RootsWithMultiplicity(); err != nil {
 		return nil, fmt.Errorf("locus: zeros: %w", err)
 	}
 	p.findCommon()

@@ -39,7 +39,7 @@ func (p *problem) closedLoop(k float64) ([]complex128, error) {
 	if c.IsZero() {
 		return nil, fmt.Errorf("%w: a + %v·b vanishes for %s = %v", ErrDegenerate, k, p.variable, k)
 	}
-	rs, err := rootsMult(c)
+	rs, err := c.RootsWithMultiplicity()
 	if err != nil {
 		return nil, fmt.Errorf("locus: closed-loop poles at %s = %v: %w", p.variable, k, err)
 	}
@@ -147,7 +147,7 @@ func DampingCrossings(loop tf.TF, zeta float64, set *Settings) ([]DampingPoint, 
 	if im.Degree() < 1 {
 		return nil, nil
 	}
-	rs, err := rootsMult(im)
+	rs, err := im.RootsWithMultiplicity()
 	if err != nil {
 		return nil, err
 	}
@@ -230,7 +230,7 @@ func PoleSensitivities(loop tf.TF, value float64) ([]PoleSensitivity, error) {
 	if c.IsZero() {
 		return nil, fmt.Errorf("%w: a + %v·b vanishes", ErrDegenerate, value)
 	}
-	rs, err := rootsMult(c)
+	rs, err := c.RootsWithMultiplicity()
 	if err != nil {
 		return nil, err
 	}
