@@ -167,9 +167,21 @@ func RootLocus(l locus.Locus, set *LocusSettings) (*Figure, error) {
 	}
 
 	if ps == nil || !ps.HideKey {
-		spec.key = append(spec.key, keyEntry{Text: "open-loop pole", Glyph: ptr(poleGlyph())})
+		// A parameter locus a(s) + p·b(s) = 0 starts at the roots of a
+		// (the closed-loop poles at p = 0) and ends at the roots of b: they
+		// are not open-loop poles and zeros of the physical loop.
+		poleText, zeroText := "open-loop pole", "open-loop zero"
+		if name != "gain" {
+			poleText = fmt.Sprintf("start: closed-loop pole at %s = 0", name)
+			inf := "∞"
+			if a.Range.Max <= 0 && !a.Range.IsZero() {
+				inf = "−∞" // complementary parameter locus
+			}
+			zeroText = fmt.Sprintf("end: where poles go as %s → %s", name, inf)
+		}
+		spec.key = append(spec.key, keyEntry{Text: poleText, Glyph: ptr(poleGlyph())})
 		if len(a.Zeros) > 0 {
-			spec.key = append(spec.key, keyEntry{Text: "open-loop zero", Glyph: ptr(zeroGlyph())})
+			spec.key = append(spec.key, keyEntry{Text: zeroText, Glyph: ptr(zeroGlyph())})
 		}
 		if len(spec.breaks) > 0 {
 			spec.key = append(spec.key, keyEntry{Text: "break point", Glyph: ptr(breakGlyph())})
