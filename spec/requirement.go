@@ -123,6 +123,16 @@ func (r Requirement) Key() string { return quantities[r.q].key }
 // Limit returns the limit in the unit of the requirement's name.
 func (r Requirement) Limit() float64 { return r.limit }
 
+// Unit returns the unit of the limit and of the measured value as written
+// after a number: "°", "dB", "s", "%", or "" for a ratio.
+func (r Requirement) Unit() string {
+	u := quantities[r.q].unit
+	if len(u) > 0 && u[0] == ' ' {
+		return u[1:]
+	}
+	return u
+}
+
 // Name returns the requirement in words: "minimum phase margin".
 func (r Requirement) Name() string {
 	info, ok := quantities[r.q]

@@ -311,3 +311,27 @@ func TestConcurrentChecks(t *testing.T) {
 		}
 	}
 }
+
+// TestUnits: each requirement states the unit of its limit, matching the
+// unit in its constructor's name (Deg, DB, Sec, Pct; ratios have none).
+func TestUnits(t *testing.T) {
+	for _, test := range []struct {
+		req  spec.Requirement
+		want string
+	}{
+		{spec.MinPhaseMarginDeg(45), "°"},
+		{spec.MinGainMarginDB(6), "dB"},
+		{spec.MinDelayMarginSec(0.1), "s"},
+		{spec.MaxPeakSensitivity(1.5), ""},
+		{spec.MinDampingRatio(0.5), ""},
+		{spec.MaxOvershootPct(10), "%"},
+		{spec.MaxRiseTimeSec(1), "s"},
+		{spec.MaxSettlingTimeSec(2), "s"},
+		{spec.MaxSteadyStateError(0.01), ""},
+		{spec.Requirement{}, ""},
+	} {
+		if got := test.req.Unit(); got != test.want {
+			t.Errorf("%s: unit %q, want %q", test.req.Name(), got, test.want)
+		}
+	}
+}

@@ -375,7 +375,7 @@ func (a *analysis) requirementsStage() {
 	}
 	for _, res := range spec.CheckWith(a.m.open, req, set).Results {
 		a.rep.Requirements = append(a.rep.Requirements, requirementResult{
-			Name: res.Name, Limit: number(res.Limit), Value: number(res.Value), Pass: res.Pass, Message: res.Message,
+			Name: res.Name, Limit: number(res.Limit), Value: number(res.Value), Unit: res.Requirement.Unit(), Pass: res.Pass, Message: res.Message,
 		})
 	}
 }

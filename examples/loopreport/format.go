@@ -211,3 +211,15 @@ func factoredText(gain float64, zeros, poles []complex128, v string, delaySec fl
 	}
 	return s
 }
+
+// withUnit appends a unit to a formatted number ("50°", "10 dB", "0.1 s");
+// words ("none", "infinite") and unitless ratios stay as they are.
+func withUnit(s, unit string) string {
+	if unit == "" || s == "none" || strings.HasSuffix(s, "infinite") {
+		return s
+	}
+	if unit == "°" {
+		return s + unit
+	}
+	return s + " " + unit
+}

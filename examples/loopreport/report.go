@@ -182,6 +182,7 @@ type requirementResult struct {
 	Name    string `json:"name"`
 	Limit   number `json:"limit"`
 	Value   number `json:"value"`
+	Unit    string `json:"unit"`
 	Pass    bool   `json:"pass"`
 	Message string `json:"message"`
 }
