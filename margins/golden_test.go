@@ -51,6 +51,19 @@ func loadGolden(tb testing.TB) []goldenLoop {
 	return f.Loops
 }
 
+// goldenTF returns the transfer function of the first golden loop that
+// match accepts; the test fails when there is none.
+func goldenTF(tb testing.TB, match func(goldenLoop) bool) tf.TF {
+	tb.Helper()
+	for _, l := range loadGolden(tb) {
+		if match(l) {
+			return l.tf(tb)
+		}
+	}
+	tb.Fatal("no golden loop matches")
+	return tf.TF{}
+}
+
 func (g goldenLoop) tf(tb testing.TB) tf.TF {
 	tb.Helper()
 	l, err := tf.New(g.Num, g.Den)

@@ -503,12 +503,7 @@ func TestBadInput(t *testing.T) {
 // frequency, so −2160° + the integrator: no 360° jumps), and the discrete
 // range.
 func TestFrequencyResponse(t *testing.T) {
-	var g tf.TF
-	for _, l := range loadGolden(t) {
-		if l.Order == 24 {
-			g = l.tf(t)
-		}
-	}
+	g := goldenTF(t, func(l goldenLoop) bool { return l.Order == 24 })
 	r, err := FrequencyResponse(g, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -546,12 +541,7 @@ func TestFrequencyResponse(t *testing.T) {
 // many more points between 15 and 25 rad/s than the 20-per-decade starting
 // grid, and ends with the exact crossovers inserted.
 func TestAutoGridDenserAtResonance(t *testing.T) {
-	var g tf.TF
-	for _, l := range loadGolden(t) {
-		if l.Name == "resonance" {
-			g = l.tf(t)
-		}
-	}
+	g := goldenTF(t, func(l goldenLoop) bool { return l.Name == "resonance" })
 	grid, err := AutoGrid(g, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -610,12 +600,7 @@ func TestNyquistCurve(t *testing.T) {
 // closed-loop pole on the axis, so L·e^(−jωτ) = −1 at the crossover that
 // sets it.
 func TestDelayMarginDefinition(t *testing.T) {
-	var g tf.TF
-	for _, l := range loadGolden(t) {
-		if l.Name == "resonance" {
-			g = l.tf(t)
-		}
-	}
+	g := goldenTF(t, func(l goldenLoop) bool { return l.Name == "resonance" })
 	res, err := Compute(g, nil)
 	if err != nil {
 		t.Fatal(err)
