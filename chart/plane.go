@@ -240,30 +240,8 @@ func (s *planeSpec) figure() (*Figure, error) {
 
 	// Break points, crossings, marked closed-loop poles, poles and zeros.
 	var notes []note
-	if len(s.breaks) > 0 {
-		xs, ys := splitValued(s.breaks)
-		m, _ := NewMarks(xs, ys)
-		m.GlyphStyle = breakGlyph()
-		p.Add(m)
-		for _, b := range s.breaks {
-			if b.Label != "" {
-				notes = append(notes, note{X: real(b.At), Y: imag(b.At), Text: b.Label})
-			}
-			avoid.addPoint(real(b.At), imag(b.At))
-		}
-	}
-	if len(s.crossings) > 0 {
-		xs, ys := splitValued(s.crossings)
-		m, _ := NewMarks(xs, ys)
-		m.GlyphStyle = crossingGlyph()
-		p.Add(m)
-		for _, c := range s.crossings {
-			if c.Label != "" {
-				notes = append(notes, note{X: real(c.At), Y: imag(c.At), Text: c.Label})
-			}
-			avoid.addPoint(real(c.At), imag(c.At))
-		}
-	}
+	notes = addValuedMarks(p, s.breaks, breakGlyph(), avoid, notes)
+	notes = addValuedMarks(p, s.crossings, crossingGlyph(), avoid, notes)
 	if len(s.marked) > 0 {
 		xs, ys := splitComplex(s.marked)
 		m, _ := NewMarks(xs, ys)
@@ -309,6 +287,25 @@ func (s *planeSpec) figure() (*Figure, error) {
 	f := newFigure(p, s.size, th)
 	f.square[0] = true
 	return f, nil
+}
+
+// addValuedMarks draws the points of vs with glyph, registers them as
+// obstacles for label placement, and appends their labels to notes.
+func addValuedMarks(p *plot.Plot, vs []valuedPoint, glyph draw.GlyphStyle, avoid *obstacles, notes []note) []note {
+	if len(vs) == 0 {
+		return notes
+	}
+	xs, ys := splitValued(vs)
+	m, _ := NewMarks(xs, ys)
+	m.GlyphStyle = glyph
+	p.Add(m)
+	for _, v := range vs {
+		if v.Label != "" {
+			notes = append(notes, note{X: real(v.At), Y: imag(v.At), Text: v.Label})
+		}
+		avoid.addPoint(real(v.At), imag(v.At))
+	}
+	return notes
 }
 
 func breakGlyph() draw.GlyphStyle {
