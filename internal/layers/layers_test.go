@@ -21,6 +21,14 @@ var allowed = map[string][]string{
 	"response": {"internal/", "poly", "tf"},
 	"spec":     {"internal/", "poly", "tf", "locus", "margins", "response"},
 	"chart":    {"internal/", "poly", "tf", "locus", "margins", "response"},
+	// The design layer: each uses the analysis packages; siblings of spec
+	// may use spec's requirement kinds but not one another.
+	"design":     {"internal/", "poly", "tf", "locus", "margins", "response", "spec"},
+	"closedloop": {"internal/", "poly", "tf", "locus", "margins", "response", "spec"},
+	"robust":     {"internal/", "poly", "tf", "locus", "margins", "response", "spec"},
+	// report runs every analysis into one report value and may draw it.
+	"report": {"internal/", "poly", "tf", "locus", "margins", "response", "spec",
+		"design", "closedloop", "robust", "chart"},
 }
 
 type pkg struct {
