@@ -19,16 +19,18 @@ var allowed = map[string][]string{
 	"locus":    {"internal/", "poly", "tf"},
 	"margins":  {"internal/", "poly", "tf"},
 	"response": {"internal/", "poly", "tf"},
-	"spec":     {"internal/", "poly", "tf", "locus", "margins", "response"},
+	"spec":     {"internal/", "poly", "tf", "locus", "margins", "response", "closedloop"},
 	// chart sits above the design layer (see ../shared/DESIGN.md) and may
 	// draw its results; nothing below chart imports it.
 	"chart": {"internal/", "poly", "tf", "locus", "margins", "response", "spec",
 		"design", "closedloop", "robust"},
-	// The design layer: each uses the analysis packages; siblings of spec
-	// may use spec's requirement kinds but not one another.
-	"design":     {"internal/", "poly", "tf", "locus", "margins", "response", "spec"},
-	"closedloop": {"internal/", "poly", "tf", "locus", "margins", "response", "spec"},
-	"robust":     {"internal/", "poly", "tf", "locus", "margins", "response", "spec"},
+	// closedloop gathers the standard loop's closed-loop functions and
+	// their metrics from the analysis packages; spec checks them.
+	"closedloop": {"internal/", "poly", "tf", "locus", "margins", "response"},
+	// The design layer: each uses the analysis packages and spec's
+	// requirement kinds, but not one another.
+	"design": {"internal/", "poly", "tf", "locus", "margins", "response", "closedloop", "spec"},
+	"robust": {"internal/", "poly", "tf", "locus", "margins", "response", "closedloop", "spec"},
 	// report runs every analysis into one report value and may draw it.
 	"report": {"internal/", "poly", "tf", "locus", "margins", "response", "spec",
 		"design", "closedloop", "robust", "chart"},
