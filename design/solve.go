@@ -31,7 +31,7 @@ type Settings struct {
 	// stability boundaries) at which a requirement without an exact
 	// boundary construction (step metrics, kinds unknown to this package)
 	// is evaluated to bracket its boundaries, 4 to 1000. If zero,
-	// defaults to 12.
+	// defaults to 10.
 	Samples int
 }
 
@@ -135,6 +135,10 @@ type problem struct {
 	stable   []Interval
 	stabC    []candidate
 	cache    map[cacheKey]spec.Report
+	// The requirements with an exact construction and the others, with
+	// their indices in the caller's list.
+	exact, generic       spec.Requirements
+	exactIdx, genericIdx []int
 }
 
 type cacheKey struct {
@@ -146,7 +150,7 @@ func newProblem(v Variable, set *Settings) (*problem, error) {
 	if v.num0.IsZero() && v.num1.IsZero() {
 		return nil, fmt.Errorf("%w: the zero Variable; make it with Gain, Parameter or ParameterText", ErrInvalidInput)
 	}
-	p := &problem{v: v, rng: Range{0, math.Inf(1)}, pade: 6, samples: 12, cache: map[cacheKey]spec.Report{}}
+	p := &problem{v: v, rng: Range{0, math.Inf(1)}, pade: 6, samples: 10, cache: map[cacheKey]spec.Report{}}
 	if set != nil {
 		if set.Range != (Range{}) {
 			p.rng = set.Range
@@ -289,6 +293,38 @@ func (p *problem) eval(x float64, group string, req spec.Requirements) spec.Repo
 	return rep
 }
 
+// evalAll returns the verdicts on every requirement at x, in the caller's
+// order, from the two cached groups.
+func (p *problem) evalAll(x float64, n int) []spec.Result {
+	out := make([]spec.Result, n)
+	if len(p.exact) > 0 {
+		for i, r := range p.eval(x, "exact", p.exact).Results {
+			out[p.exactIdx[i]] = r
+		}
+	}
+	if len(p.generic) > 0 {
+		for i, r := range p.eval(x, "generic", p.generic).Results {
+			out[p.genericIdx[i]] = r
+		}
+	}
+	return out
+}
+
+// evaluated returns the values in (lo, hi) already evaluated for both
+// groups, ascending.
+func (p *problem) evaluated(lo, hi float64) []float64 {
+	var out []float64
+	for k := range p.cache {
+		if k.x > lo && k.x < hi && (len(p.exact) == 0 || k.group == "exact") {
+			if _, ok := p.cache[cacheKey{k.x, "generic"}]; ok || len(p.generic) == 0 {
+				out = append(out, k.x)
+			}
+		}
+	}
+	slices.Sort(out)
+	return slices.Compact(out)
+}
+
 // midpoint returns a representative inner value of (lo, hi).
 func midpoint(lo, hi float64) float64 {
 	switch {
@@ -360,30 +396,28 @@ func Solve(v Variable, req spec.Requirements, set *Settings) (Result, error) {
 	}
 	res := Result{Variable: v.name, Range: p.rng, Stable: p.stable, Suggested: math.NaN(), SuggestedSlack: math.NaN(), Compromise: math.NaN()}
 	res.Requirements = make([]RequirementSet, len(req))
-	var exact, generic spec.Requirements
-	var exactIdx, genericIdx []int
 	own := make([][]candidate, len(req))
 	var all []candidate
 	for i, r := range req {
 		res.Requirements[i] = RequirementSet{Requirement: r, Key: r.Key(), Name: r.Name()}
 		c, ok := p.exactCandidates(r)
 		if ok {
-			exact = append(exact, r)
-			exactIdx = append(exactIdx, i)
+			p.exact = append(p.exact, r)
+			p.exactIdx = append(p.exactIdx, i)
 			own[i] = c
 			all = append(all, c...)
 			res.Requirements[i].Method = "exact"
 		} else {
-			generic = append(generic, r)
-			genericIdx = append(genericIdx, i)
+			p.generic = append(p.generic, r)
+			p.genericIdx = append(p.genericIdx, i)
 			res.Requirements[i].Method = "bracketing"
 		}
 	}
-	if len(exact) > 0 {
-		p.solveExact(exact, exactIdx, own, all, &res)
+	if len(p.exact) > 0 {
+		p.solveExact(p.exact, p.exactIdx, own, all, &res)
 	}
-	if len(generic) > 0 {
-		p.solveGeneric(generic, genericIdx, &res)
+	if len(p.generic) > 0 {
+		p.solveGeneric(p.generic, p.genericIdx, &res)
 	}
 	p.intersect(&res)
 	p.suggest(req, &res)
@@ -450,8 +484,19 @@ func (p *problem) runs(xs []float64, pass []bool, own []candidate) []Interval {
 // samples refined by Brent's method on the slack to 1e-12 relative.
 func (p *problem) solveGeneric(req spec.Requirements, idx []int, res *Result) {
 	xs := p.breakpoints(nil)
+	// Step metrics need a stable loop: their unstable pieces are not
+	// sampled (spec fails them there) unless another kind is bracketed.
+	stepOnly := true
+	for _, r := range req {
+		if k := r.Key(); k != keyOvershoot && k != keyRiseTime && k != keySettling {
+			stepOnly = false
+		}
+	}
 	var samples []float64
 	for j := 0; j+1 < len(xs); j++ {
+		if stepOnly && !p.isStable(midpoint(xs[j], xs[j+1])) {
+			continue
+		}
 		samples = append(samples, samplesIn(xs[j], xs[j+1], p.samples)...)
 	}
 	for i := range req {
@@ -498,6 +543,16 @@ func (p *problem) solveGeneric(req spec.Requirements, idx []int, res *Result) {
 	}
 }
 
+// isStable reports whether x lies in a stable interval.
+func (p *problem) isStable(x float64) bool {
+	for _, s := range p.stable {
+		if x > s.Lo && x < s.Hi {
+			return true
+		}
+	}
+	return false
+}
+
 // breakBetween returns a breakpoint strictly between a and b.
 func breakBetween(xs []float64, a, b float64) (float64, bool) {
 	for _, x := range xs {
@@ -542,11 +597,33 @@ func mergeTouching(ivs []Interval) []Interval {
 	return out
 }
 
-// refine returns the point between a and b where the slack changes sign,
-// by Brent's method to 1e-12 relative (a jump of the quantity is located
-// as well: Brent's bracket shrinks onto it).
+// refine returns the point between a and b where the slack f changes sign.
+// Brent's method (Brent 1973) first locates it to 1e-5 relative; where the
+// slack at both ends of its last bracket is small (|f| ≤ 1e-3, the quantity
+// is continuous) a second Brent run on that bracket polishes it to 1e-11
+// relative. Where it
+// is not, the quantity jumps past its limit there (the settling time when
+// the last exit from the band moves to another extremum) and the jump is
+// located to 1e-5 relative.
 func (p *problem) refine(f func(float64) float64, a, b, fa, fb float64) float64 {
-	return rootfind.Brent(f, a, b, fa, fb, 1e-12)
+	// Record the evaluations to recover the final bracket of the first run.
+	lo, hi, flo, fhi := a, b, fa, fb
+	rec := func(x float64) float64 {
+		v := f(x)
+		if (v < 0) == (flo < 0) {
+			if math.Abs(x-hi) < math.Abs(lo-hi) {
+				lo, flo = x, v
+			}
+		} else if math.Abs(x-lo) < math.Abs(hi-lo) {
+			hi, fhi = x, v
+		}
+		return v
+	}
+	x := rootfind.Brent(rec, a, b, fa, fb, 1e-5)
+	if math.Abs(flo) > 1e-3 || math.Abs(fhi) > 1e-3 {
+		return x
+	}
+	return rootfind.Brent(f, lo, hi, flo, fhi, 1e-11)
 }
 
 func brent(f func(float64) float64, a, b, fa, fb float64) float64 {
@@ -614,9 +691,8 @@ func (p *problem) suggest(req spec.Requirements, res *Result) {
 		return
 	}
 	minSlack := func(x float64) (float64, string) {
-		rep := p.eval(x, "all", req)
 		best, which := math.Inf(1), ""
-		for _, r := range rep.Results {
+		for _, r := range p.evalAll(x, len(req)) {
 			if s := Slack(r); s < best || which == "" {
 				best, which = s, r.Name
 			}
@@ -626,12 +702,11 @@ func (p *problem) suggest(req spec.Requirements, res *Result) {
 	search := func(ivs []Interval) (float64, float64) {
 		bx, bs := math.NaN(), math.Inf(-1)
 		for _, iv := range ivs {
-			xs := samplesIn(iv.Lo, iv.Hi, 9)
-			if len(xs) > 2 && !math.IsInf(iv.Lo, 0) {
-				xs = xs[1:]
-			}
-			if len(xs) > 2 && !math.IsInf(iv.Hi, 0) {
-				xs = xs[:len(xs)-1]
+			// Values already evaluated inside, else a few samples.
+			xs := p.evaluated(iv.Lo, iv.Hi)
+			if len(xs) < 3 {
+				xs = append(xs, samplesIn(iv.Lo, iv.Hi, 5)...)
+				slices.Sort(xs)
 			}
 			vals := make([]float64, len(xs))
 			for j, x := range xs {
@@ -650,7 +725,7 @@ func (p *problem) suggest(req spec.Requirements, res *Result) {
 			}
 			x, s := xs[j], vals[j]
 			if !math.IsInf(lo, 0) && !math.IsInf(hi, 0) {
-				x, s = golden(func(x float64) float64 { v, _ := minSlack(x); return v }, lo, hi, xs[j], vals[j], 14)
+				x, s = golden(func(x float64) float64 { v, _ := minSlack(x); return v }, lo, hi, xs[j], vals[j], 5)
 			}
 			bx, bs = x, s
 		}
@@ -683,7 +758,7 @@ func (p *problem) suggest(req spec.Requirements, res *Result) {
 	x, _ := search(where)
 	res.Compromise = x
 	if !math.IsNaN(x) {
-		for _, r := range p.eval(x, "all", req).Results {
+		for _, r := range p.evalAll(x, len(req)) {
 			if !r.Pass {
 				res.CompromiseFailures = append(res.CompromiseFailures, r.Requirement.String())
 			}

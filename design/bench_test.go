@@ -1,0 +1,60 @@
+package design
+
+import (
+	"testing"
+
+	"github.com/loopwise/loopwise/margins"
+	"github.com/loopwise/loopwise/response"
+	"github.com/loopwise/loopwise/tf"
+)
+
+// benchLoop is an order-10 loop: an integrator, a lightly damped pair and
+// seven real lags, with two zeros.
+const benchLoop = "2e5*(s+0.5)*(s+2)/(s*(s^2+4*s+16)*(s+1)*(s+3)*(s+5)*(s+8)*(s+12)*(s+20)*(s+30))"
+
+var benchReq = allNine(40, 6, 1.7, 0.3, 0.05, 30, 5, 20, 0.1)
+
+// BenchmarkSolveNine is the one-variable design with all nine requirement
+// kinds; BenchmarkBaselineOneCheck is one margins.Compute and one
+// response.StepMetrics of the same loop at the gain 30 (inside the set
+// where all nine hold; the cost of StepMetrics varies with the gain), the unit the issue
+// measures it in (target: under 50×).
+func BenchmarkSolveNine(b *testing.B) {
+	v, err := Gain(tf.MustParse(benchLoop))
+	if err != nil {
+		b.Fatal(err)
+	}
+	for b.Loop() {
+		if _, err := Solve(v, benchReq, nil); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkBaselineOneCheck(b *testing.B) {
+	l, _ := tf.MustParse(benchLoop).Scale(30)
+	for b.Loop() {
+		if _, err := margins.Compute(l, nil); err != nil {
+			b.Fatal(err)
+		}
+		cl, _ := l.ClosedLoop()
+		if _, err := response.StepMetrics(cl, nil); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkPlanePI is the stability plane of PI control of an order-7
+// plant (a PI loop of order 8), default settings (target: under 100 ms).
+func BenchmarkPlanePI(b *testing.B) {
+	pl, err := NewPlane("Kp", "Ki", "(Kp*s + Ki)/s", tf.MustParse("1/((s+1)^3*(s^2+0.6*s+4)*(s+5)*(s+10))"))
+	if err != nil {
+		b.Fatal(err)
+	}
+	for b.Loop() {
+		if _, err := Partition(pl, &PlaneSettings{XRange: Range{-5, 60}, YRange: Range{-5, 60}}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
