@@ -57,4 +57,3 @@ func BenchmarkPlanePI(b *testing.B) {
 		}
 	}
 }
-
