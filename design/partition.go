@@ -30,7 +30,7 @@ type PlaneSettings struct {
 	Requirements spec.Requirements
 	// RequirementScanlines is the number of scanlines of the requirement
 	// regions (each runs Solve on the line), 3 to 10000. If zero, defaults
-	// to 41.
+	// to 81.
 	RequirementScanlines int
 	// PadeOrder is the Padé order for dead time, 1 to 20; 6 if zero.
 	PadeOrder int
@@ -133,7 +133,7 @@ func Partition(pl Plane, set *PlaneSettings) (PlanePartition, error) {
 		s.Scanlines = 121
 	}
 	if s.RequirementScanlines == 0 {
-		s.RequirementScanlines = 41
+		s.RequirementScanlines = 81
 	}
 	if s.PadeOrder == 0 {
 		s.PadeOrder = 6
