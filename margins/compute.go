@@ -221,11 +221,6 @@ func Compute(loop tf.TF, set *Settings) (Result, error) {
 		if err := lp.ensureRoots(); err != nil {
 			return Result{}, err
 		}
-		for _, z := range lp.zeros {
-			if real(z) == 0 {
-				return Result{}, fmt.Errorf("%w: dead time with a zero of L on the imaginary axis at s = %v", ErrUnsupported, z)
-			}
-		}
 	}
 	if err := lp.countOpenLoop(); err != nil {
 		return Result{}, err
