@@ -205,6 +205,7 @@ func checkSettings(set *Settings) (Settings, error) {
 //	no gain crossover: PhaseMarginDeg = NaN, DelayMarginSec = +Inf
 //	closed loop unstable: DelayMarginSec = NaN
 //	pole of L on the imaginary axis: handled by indentation (L = ∞ there)
+//	zero of L on the imaginary axis: L = 0 there, no crossover; allowed with dead time
 func Compute(loop tf.TF, set *Settings) (Result, error) {
 	s, err := checkSettings(set)
 	if err != nil {
