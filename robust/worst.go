@@ -41,6 +41,9 @@ func (q Quantity) String() string {
 	return quantityInfo[q].name
 }
 
+// Unit returns the quantity's unit ("deg", "dB", "s", or "" for a ratio).
+func (q Quantity) Unit() string { return quantityInfo[q].unit }
+
 // Key returns the quantity's key with its unit ("phase_margin_deg").
 func (q Quantity) Key() string { return quantityInfo[q].key }
 
