@@ -20,6 +20,8 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
+
+	"github.com/loopwise/loopwise/report"
 )
 
 //go:embed demo.json
@@ -141,20 +143,19 @@ func run(args []string, stdout, stderr io.Writer) int {
 			return 2
 		}
 	}
-	lf, err := readLoopFile(name, data)
+	lf, err := report.ReadLoop(name, data)
 	if err != nil {
 		fmt.Fprintf(stderr, "loopreport: %v\n", err)
 		return 2
 	}
-	m, err := build(lf)
+	prog := newProgress(stderr, *quiet)
+	rep, err := report.Analyze(lf, &report.Settings{Plots: writeReport, Progress: prog.show})
 	if err != nil {
 		fmt.Fprintf(stderr, "loopreport: %s: %v\n", name, err)
 		return 2
 	}
-	prog := newProgress(stderr, *quiet)
-	rep, figs := analyze(m, prog, writeReport)
 	if *asJSON {
-		b, err := marshalReport(rep)
+		b, err := rep.JSON()
 		if err != nil {
 			prog.done()
 			fmt.Fprintf(stderr, "loopreport: cannot encode the report: %v\n", err)
@@ -165,7 +166,7 @@ func run(args []string, stdout, stderr io.Writer) int {
 	var index string
 	if writeReport {
 		prog.step("writing the report")
-		index, err = writeFolder(*outDir, rep, figs)
+		index, err = rep.WriteFolder(*outDir)
 		if err != nil {
 			prog.done()
 			fmt.Fprintf(stderr, "loopreport: cannot write the report: %v\n", err)
@@ -174,7 +175,7 @@ func run(args []string, stdout, stderr io.Writer) int {
 	}
 	prog.done()
 	if !*asJSON {
-		printSummary(stdout, rep)
+		rep.WriteSummary(stdout)
 		if index != "" {
 			fmt.Fprintf(stdout, "\nReport written to %s (open it in a browser).\n", index)
 		}

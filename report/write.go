@@ -1,4 +1,4 @@
-package main
+package report
 
 import (
 	"bytes"
@@ -10,25 +10,27 @@ import (
 	"time"
 )
 
-// figure is one rendered plot of the report.
-type figure struct {
-	// file is the base name of the files written, without extension.
-	file string
-	// title is the heading in the summaries.
-	title string
-	// caption says in words what the plot shows.
-	caption string
-	svg     []byte
-	png     []byte
+// Figure is one plot of the report, drawn by package chart.
+type Figure struct {
+	// File is the base name of the files written, without extension:
+	// "root-locus".
+	File string
+	// Title is the heading in the summaries.
+	Title string
+	// Caption says in words what the plot shows.
+	Caption string
+	// SVG and PNG are the rendered plot.
+	SVG, PNG []byte
 }
 
 // plotFiles are the base names of every plot the report can hold.
 var plotFiles = []string{"root-locus", "frequency-response", "nyquist", "step-response", "pole-zero-map"}
 
-// writeFolder writes the report into dir: every plot as SVG and PNG,
+// WriteFolder writes the report into dir: every plot as SVG and PNG,
 // summary.md, report.json and index.html. It returns the path of
 // index.html.
-func writeFolder(dir string, r *report, figs []figure) (string, error) {
+func (r *Report) WriteFolder(dir string) (string, error) {
+	figs := r.Figures
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return "", err
 	}
@@ -36,7 +38,7 @@ func writeFolder(dir string, r *report, figs []figure) (string, error) {
 	// folder never mixes two analyses.
 	drawn := map[string]bool{}
 	for _, f := range figs {
-		drawn[f.file] = true
+		drawn[f.File] = true
 	}
 	for _, name := range plotFiles {
 		if !drawn[name] {
@@ -48,24 +50,24 @@ func writeFolder(dir string, r *report, figs []figure) (string, error) {
 		}
 	}
 	for _, f := range figs {
-		if err := os.WriteFile(filepath.Join(dir, f.file+".svg"), f.svg, 0o644); err != nil {
+		if err := os.WriteFile(filepath.Join(dir, f.File+".svg"), f.SVG, 0o644); err != nil {
 			return "", err
 		}
-		if err := os.WriteFile(filepath.Join(dir, f.file+".png"), f.png, 0o644); err != nil {
+		if err := os.WriteFile(filepath.Join(dir, f.File+".png"), f.PNG, 0o644); err != nil {
 			return "", err
 		}
 	}
-	js, err := marshalReport(r)
+	js, err := r.JSON()
 	if err != nil {
 		return "", err
 	}
 	if err := os.WriteFile(filepath.Join(dir, "report.json"), js, 0o644); err != nil {
 		return "", err
 	}
-	if err := os.WriteFile(filepath.Join(dir, "summary.md"), markdown(r, figs), 0o644); err != nil {
+	if err := os.WriteFile(filepath.Join(dir, "summary.md"), r.Markdown(), 0o644); err != nil {
 		return "", err
 	}
-	page, err := htmlPage(r, figs)
+	page, err := r.HTML()
 	if err != nil {
 		return "", err
 	}
@@ -82,9 +84,11 @@ func mdEscape(s string) string {
 	return strings.ReplaceAll(s, "*", `\*`)
 }
 
-// markdown returns the Markdown summary: the same tables as the text
-// summary, the requirement verdicts, links to the plots and the caution.
-func markdown(r *report, figs []figure) []byte {
+// Markdown returns the Markdown summary (summary.md): the same tables as
+// the text summary, the requirement verdicts, links to the plots and the
+// caution.
+func (r *Report) Markdown() []byte {
+	figs := r.Figures
 	var b bytes.Buffer
 	fmt.Fprintf(&b, "# %s\n\n", mdEscape(r.Name))
 	if r.Description != "" {
@@ -106,7 +110,7 @@ func markdown(r *report, figs []figure) []byte {
 		}
 		b.WriteString("\n")
 	}
-	for _, s := range sections(r) {
+	for _, s := range tables(r) {
 		fmt.Fprintf(&b, "## %s\n\n| quantity | value |\n|---|---|\n", mdEscape(s.title))
 		for _, rw := range s.rows {
 			fmt.Fprintf(&b, "| %s | %s |\n", mdEscape(rw.label), mdEscape(rw.value))
@@ -116,7 +120,7 @@ func markdown(r *report, figs []figure) []byte {
 	if len(figs) > 0 {
 		b.WriteString("## Plots\n\n")
 		for _, f := range figs {
-			fmt.Fprintf(&b, "### %s\n\n![%s](%s.svg)\n\n%s (also as [PNG](%s.png))\n\n", f.title, f.title, f.file, mdEscape(f.caption), f.file)
+			fmt.Fprintf(&b, "### %s\n\n![%s](%s.svg)\n\n%s (also as [PNG](%s.png))\n\n", f.Title, f.Title, f.File, mdEscape(f.Caption), f.File)
 		}
 	}
 	if len(r.Warnings) > 0 {
@@ -148,7 +152,7 @@ type htmlFigure struct {
 type htmlData struct {
 	Name, Description string
 	Generated         string
-	Requirements      []requirementResult
+	Requirements      []RequirementResult
 	Pass, Total       int
 	Sections          []htmlSection
 	Figures           []htmlFigure
@@ -219,10 +223,11 @@ nav a { margin-right: 1rem; }
 </html>
 `))
 
-// htmlPage returns the self-contained index.html: plots inlined as SVG,
+// HTML returns the self-contained index.html: plots inlined as SVG,
 // tables of the results, requirement verdicts and the safety caution. It
 // refers to no external file, script, style sheet or font.
-func htmlPage(r *report, figs []figure) ([]byte, error) {
+func (r *Report) HTML() ([]byte, error) {
+	figs := r.Figures
 	pass, total := verdictCounts(r)
 	d := htmlData{
 		Name: r.Name, Description: r.Description,
@@ -230,7 +235,7 @@ func htmlPage(r *report, figs []figure) ([]byte, error) {
 		Requirements: r.Requirements, Pass: pass, Total: total,
 		Warnings: r.Warnings, Caution: safetyCaution,
 	}
-	for _, s := range sections(r) {
+	for _, s := range tables(r) {
 		hs := htmlSection{Title: s.title}
 		for _, rw := range s.rows {
 			hs.Rows = append(hs.Rows, htmlRow{rw.label, rw.value})
@@ -238,7 +243,7 @@ func htmlPage(r *report, figs []figure) ([]byte, error) {
 		d.Sections = append(d.Sections, hs)
 	}
 	for _, f := range figs {
-		d.Figures = append(d.Figures, htmlFigure{Title: f.title, Caption: f.caption, File: f.file, SVG: inlineSVG(f.svg)})
+		d.Figures = append(d.Figures, htmlFigure{Title: f.Title, Caption: f.Caption, File: f.File, SVG: inlineSVG(f.SVG)})
 	}
 	var b bytes.Buffer
 	if err := pageTemplate.Execute(&b, d); err != nil {

@@ -1,4 +1,4 @@
-package main
+package report
 
 import (
 	"cmp"
@@ -12,7 +12,7 @@ import (
 
 // g formats x with 4 significant digits; infinite and missing values are
 // words.
-func g(x number) string {
+func g(x Number) string {
 	v := float64(x)
 	switch {
 	case math.IsNaN(v):
@@ -44,7 +44,7 @@ func g(x number) string {
 }
 
 // gUnit formats x followed by a unit, or a word for a missing value.
-func gUnit(x number, unit string) string {
+func gUnit(x Number, unit string) string {
 	if !finite(float64(x)) {
 		return g(x)
 	}
@@ -55,7 +55,7 @@ func gUnit(x number, unit string) string {
 }
 
 // cplx formats a complex number, "−1.5 ± 2j" style when paired is true.
-func cplx(c complexNumber, paired bool) string {
+func cplx(c Complex, paired bool) string {
 	re, im := float64(c.Re), float64(c.Im)
 	if im == 0 {
 		return g(c.Re)
@@ -70,15 +70,15 @@ func cplx(c complexNumber, paired bool) string {
 	}
 	if re == 0 {
 		if paired {
-			return "±" + g(number(im)) + "j"
+			return "±" + g(Number(im)) + "j"
 		}
-		return strings.TrimPrefix(sign, "+") + g(number(im)) + "j"
+		return strings.TrimPrefix(sign, "+") + g(Number(im)) + "j"
 	}
-	return fmt.Sprintf("%s %s %sj", g(c.Re), sign, g(number(im)))
+	return fmt.Sprintf("%s %s %sj", g(c.Re), sign, g(Number(im)))
 }
 
 // rootList formats a list of roots, writing each conjugate pair once.
-func rootList(cs []complexNumber) string {
+func rootList(cs []Complex) string {
 	if len(cs) == 0 {
 		return "none"
 	}
@@ -105,7 +105,7 @@ func rootList(cs []complexNumber) string {
 }
 
 // intervalText formats (lo, hi) with words for unbounded ends.
-func intervalText(iv interval) string {
+func intervalText(iv Interval) string {
 	lo, hi := "−∞", "∞"
 	if finite(float64(iv[0])) {
 		lo = g(iv[0])
@@ -116,7 +116,7 @@ func intervalText(iv interval) string {
 	return "(" + lo + ", " + hi + ")"
 }
 
-func intervalList(ivs []interval) string {
+func intervalList(ivs []Interval) string {
 	if len(ivs) == 0 {
 		return "none"
 	}
@@ -159,9 +159,9 @@ func factorText(roots []complex128, v string) string {
 			case real(r) == 0:
 				parts = append(parts, v)
 			case real(r) < 0:
-				parts = append(parts, fmt.Sprintf("(%s + %s)", v, g(number(-real(r)))))
+				parts = append(parts, fmt.Sprintf("(%s + %s)", v, g(Number(-real(r)))))
 			default:
-				parts = append(parts, fmt.Sprintf("(%s − %s)", v, g(number(real(r)))))
+				parts = append(parts, fmt.Sprintf("(%s − %s)", v, g(Number(real(r)))))
 			}
 			continue
 		}
@@ -176,11 +176,11 @@ func factorText(roots []complex128, v string) string {
 		mid := ""
 		switch {
 		case b > 0:
-			mid = fmt.Sprintf(" + %s%s", g(number(b)), v)
+			mid = fmt.Sprintf(" + %s%s", g(Number(b)), v)
 		case b < 0:
-			mid = fmt.Sprintf(" − %s%s", g(number(-b)), v)
+			mid = fmt.Sprintf(" − %s%s", g(Number(-b)), v)
 		}
-		parts = append(parts, fmt.Sprintf("(%s^2%s + %s)", v, mid, g(number(c))))
+		parts = append(parts, fmt.Sprintf("(%s^2%s + %s)", v, mid, g(Number(c))))
 	}
 	if len(parts) == 0 {
 		return "1"
@@ -191,7 +191,7 @@ func factorText(roots []complex128, v string) string {
 // factoredText writes k·∏(v − zᵢ)/∏(v − pⱼ) with the dead time, in the
 // form an engineer writes on paper.
 func factoredText(gain float64, zeros, poles []complex128, v string, delaySec float64, discrete bool) string {
-	s := g(number(gain))
+	s := g(Number(gain))
 	if len(zeros) > 0 {
 		s += "·" + factorText(zeros, v)
 	}
@@ -204,9 +204,9 @@ func factoredText(gain float64, zeros, poles []complex128, v string, delaySec fl
 	}
 	if delaySec > 0 {
 		if discrete {
-			s += fmt.Sprintf(" with %s s of dead time", g(number(delaySec)))
+			s += fmt.Sprintf(" with %s s of dead time", g(Number(delaySec)))
 		} else {
-			s += fmt.Sprintf("·e^(−%ss)", g(number(delaySec)))
+			s += fmt.Sprintf("·e^(−%ss)", g(Number(delaySec)))
 		}
 	}
 	return s

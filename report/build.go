@@ -1,4 +1,4 @@
-package main
+package report
 
 import (
 	"errors"
@@ -12,7 +12,7 @@ import (
 
 // loopModel is a loop file turned into transfer functions.
 type loopModel struct {
-	file *loopFile
+	file *Loop
 	// gain is the nominal loop gain k.
 	gain float64
 	// controller, plant and sensor are the parsed expressions at the
@@ -34,12 +34,12 @@ type loopModel struct {
 	// discretization) at the parameter value p; nil without a parameter.
 	loopAt func(p float64) (tf.TF, error)
 	// discrete describes the conversion to z; nil without "discretize".
-	discrete *discreteLoopSection
+	discrete *DiscreteLoopResult
 }
 
 // parseExpr reads the expression text of key, naming the key and the
 // position in the file on error.
-func (lf *loopFile) parseExpr(key, text string, params map[string]float64) (tf.TF, error) {
+func (lf *Loop) parseExpr(key, text string, params map[string]float64) (tf.TF, error) {
 	g, err := tf.ParseWith(text, &tf.ParseSettings{SampleTimeSec: lf.SampleTimeSec, Params: params})
 	if err == nil {
 		return g, nil
@@ -65,7 +65,7 @@ func verbatim(data []byte, off int, text string) bool {
 
 // buildAt parses controller, plant and sensor with the parameter (if any)
 // set to p and returns them.
-func (lf *loopFile) buildAt(p float64) (c, g, h tf.TF, err error) {
+func (lf *Loop) buildAt(p float64) (c, g, h tf.TF, err error) {
 	var params map[string]float64
 	if lf.Parameter != nil {
 		params = map[string]float64{lf.Parameter.Name: p}
@@ -81,7 +81,7 @@ func (lf *loopFile) buildAt(p float64) (c, g, h tf.TF, err error) {
 }
 
 // product returns k·c·g·h with the file's extra dead time added.
-func (lf *loopFile) product(k float64, parts ...tf.TF) (tf.TF, error) {
+func (lf *Loop) product(k float64, parts ...tf.TF) (tf.TF, error) {
 	out := parts[0]
 	for _, p := range parts[1:] {
 		var err error
@@ -103,7 +103,7 @@ func (lf *loopFile) product(k float64, parts ...tf.TF) (tf.TF, error) {
 
 // build turns the loop file into transfer functions and checks that the
 // loop can be analysed.
-func build(lf *loopFile) (*loopModel, error) {
+func build(lf *Loop) (*loopModel, error) {
 	if lf.Parameter != nil && !validName(lf.Parameter.Name) {
 		return nil, badInput("key \"parameter.name\"%s: %q is not a usable name; use letters, digits and '_', starting with a letter, and not s, z or exp", lf.where("parameter.name"), lf.Parameter.Name)
 	}
@@ -159,7 +159,7 @@ func build(lf *loopFile) (*loopModel, error) {
 		for i := range num {
 			num[i] /= lead
 		}
-		m.discrete = &discreteLoopSection{Method: d.Method, SampleTimeSec: number(d.SampleTimeSec), Num: numbers(num), Den: numbers(mo.Coeffs())}
+		m.discrete = &DiscreteLoopResult{Method: d.Method, SampleTimeSec: Number(d.SampleTimeSec), Num: numbers(num), Den: numbers(mo.Coeffs())}
 	}
 	if lf.Parameter != nil {
 		k := lf.Gain
@@ -189,10 +189,10 @@ func build(lf *loopFile) (*loopModel, error) {
 	return m, nil
 }
 
-func numbers(v []float64) []number {
-	out := make([]number, len(v))
+func numbers(v []float64) []Number {
+	out := make([]Number, len(v))
 	for i, x := range v {
-		out[i] = number(x)
+		out[i] = Number(x)
 	}
 	return out
 }
