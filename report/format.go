@@ -79,6 +79,9 @@ func cplx(c Complex, paired bool) string {
 
 // rootList formats a list of roots, writing each conjugate pair once.
 func rootList(cs []Complex) string {
+	if cs == nil {
+		return notComputed
+	}
 	if len(cs) == 0 {
 		return "none"
 	}
@@ -104,6 +107,10 @@ func rootList(cs []Complex) string {
 	return strings.Join(parts, ", ")
 }
 
+// notComputed stands for a result that could not be computed (its JSON
+// value is null).
+const notComputed = "not computed (see the warnings)"
+
 // intervalText formats (lo, hi) with words for unbounded ends.
 func intervalText(iv Interval) string {
 	lo, hi := "−∞", "∞"
@@ -117,6 +124,9 @@ func intervalText(iv Interval) string {
 }
 
 func intervalList(ivs []Interval) string {
+	if ivs == nil {
+		return notComputed
+	}
 	if len(ivs) == 0 {
 		return "none"
 	}
@@ -185,7 +195,21 @@ func factorText(roots []complex128, v string) string {
 	if len(parts) == 0 {
 		return "1"
 	}
-	return strings.Join(parts, "·")
+	// Repeated factors as powers: s^2·(s + 1)^3, not s·s·(s + 1)·…
+	var grouped []string
+	for i := 0; i < len(parts); {
+		j := i
+		for j < len(parts) && parts[j] == parts[i] {
+			j++
+		}
+		if j-i > 1 {
+			grouped = append(grouped, fmt.Sprintf("%s^%d", parts[i], j-i))
+		} else {
+			grouped = append(grouped, parts[i])
+		}
+		i = j
+	}
+	return strings.Join(grouped, "·")
 }
 
 // factoredText writes k·∏(v − zᵢ)/∏(v − pⱼ) with the dead time, in the

@@ -1,6 +1,8 @@
 package report
 
 import (
+	"strings"
+
 	"github.com/loopwise/loopwise/spec"
 )
 
@@ -39,7 +41,11 @@ var requirementsKey = loopKey{name: "requirements", decode: func(v keyValue, lf 
 		if err := g.number(&limit); err != nil {
 			return err
 		}
-		lf.Requirements = append(lf.Requirements, Requirement{Key: g.f.key[len("requirements."):], Limit: limit})
+		key := g.f.key[len("requirements."):]
+		if _, err := spec.ByKey(key, limit); err != nil {
+			return badInput("key %q %s: %s", g.f.key, at(g.data, g.f.valOff), strings.TrimPrefix(err.Error(), spec.ErrInvalidRequirement.Error()+": "))
+		}
+		lf.Requirements = append(lf.Requirements, Requirement{Key: key, Limit: limit})
 	}
 	return nil
 }}

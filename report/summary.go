@@ -71,6 +71,9 @@ func isInf(x Number) bool { return float64(x) > 1e308 }
 
 // intervalListClosed formats real-axis segments [lo, hi].
 func intervalListClosed(ivs []Interval) string {
+	if ivs == nil {
+		return notComputed
+	}
 	if len(ivs) == 0 {
 		return "none"
 	}

@@ -126,7 +126,10 @@ func run(args []string, stdout, stderr io.Writer) int {
 		return 2
 	}
 	if *printDemo {
-		stdout.Write(demoLoop)
+		if _, err := stdout.Write(demoLoop); err != nil {
+			fmt.Fprintf(stderr, "loopreport: cannot write the demonstration loop: %v\n", err)
+			return 1
+		}
 		return 0
 	}
 	outGiven := false
@@ -137,7 +140,7 @@ func run(args []string, stdout, stderr io.Writer) int {
 	if *loopPath != "" {
 		var err error
 		name = *loopPath
-		data, err = os.ReadFile(*loopPath)
+		data, err = readCapped(*loopPath, report.MaxLoopFileBytes)
 		if err != nil {
 			fmt.Fprintf(stderr, "loopreport: cannot read the loop file: %s\n", describeFileError(*loopPath, err))
 			return 2
@@ -161,7 +164,11 @@ func run(args []string, stdout, stderr io.Writer) int {
 			fmt.Fprintf(stderr, "loopreport: cannot encode the report: %v\n", err)
 			return 1
 		}
-		stdout.Write(b)
+		if _, err := stdout.Write(b); err != nil {
+			prog.done()
+			fmt.Fprintf(stderr, "loopreport: cannot write the JSON output: %v\n", err)
+			return 1
+		}
 	}
 	var index string
 	if writeReport {
@@ -175,12 +182,28 @@ func run(args []string, stdout, stderr io.Writer) int {
 	}
 	prog.done()
 	if !*asJSON {
-		rep.WriteSummary(stdout)
-		if index != "" {
-			fmt.Fprintf(stdout, "\nReport written to %s (open it in a browser).\n", index)
+		err := rep.WriteSummary(stdout)
+		if err == nil && index != "" {
+			_, err = fmt.Fprintf(stdout, "\nReport written to %s (open it in a browser).\n", index)
+		}
+		if err != nil {
+			fmt.Fprintf(stderr, "loopreport: cannot write the summary: %v\n", err)
+			return 1
 		}
 	}
 	return 0
+}
+
+// readCapped reads the file at path, at most limit+1 bytes: enough for
+// ReadLoop to refuse a file over the limit, and a device that never ends
+// (/dev/zero) is read only that far.
+func readCapped(path string, limit int) ([]byte, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	return io.ReadAll(io.LimitReader(f, int64(limit)+1))
 }
 
 // describeFileError says why a file could not be read, in words.
