@@ -120,7 +120,6 @@ func (a *analysis) feedbackWithSensor() (tf.TF, error) {
 	return tf.Feedback(fwd, h)
 }
 
-
 // unitRootTol is the relative tolerance, to the 1-norm of the
 // coefficients, below which D(1) counts as zero for a discrete loop (the
 // value package response uses for the same decision).
