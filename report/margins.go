@@ -118,7 +118,7 @@ func stableMarginRows(mg MarginsResult) []row {
 		rows = append(rows, row{"peak complementary sensitivity", fmt.Sprintf("%s %s", g(mg.PeakComplementarySensitivity), atFrequency(mg.PeakComplementarySensitivityRadPerS))})
 	}
 	if finite(float64(mg.BandwidthRadPerSec)) {
-		rows = append(rows, row{"bandwidth of L/(1 + L) (−3 dB)", gUnit(mg.BandwidthRadPerSec, "rad/s")})
+		rows = append(rows, row{"bandwidth of L/(1 + L) (−3" + nbsp + "dB)", gUnit(mg.BandwidthRadPerSec, "rad/s")})
 	}
 	rows = append(rows, row{"closed loop", "stable"})
 	for _, c := range mg.GainCrossovers {

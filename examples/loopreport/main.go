@@ -20,6 +20,7 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
+	"time"
 
 	"github.com/loopwise/loopwise/report"
 )
@@ -36,7 +37,7 @@ const usageHead = `loopreport analyses a linear feedback loop L = kÂ·controllerÂ
 writes a report folder with plots, a Markdown summary and index.html.
 
 Usage:
-  loopreport [-loop FILE] [-json] [-out DIR] [-quiet]
+  loopreport [-loop FILE] [-json] [-out DIR] [-quiet] [-timestamp]
 
 Without -loop the built-in demonstration loop is analysed (print it with
 -print-demo to start a loop file of your own).
@@ -110,6 +111,7 @@ func run(args []string, stdout, stderr io.Writer) int {
 	outDir := fs.String("out", "loopreport-out", "write the report (plots, summary.md, index.html) into `DIR`; an empty DIR writes no report")
 	quiet := fs.Bool("quiet", false, "do not show the progress line on stderr")
 	printDemo := fs.Bool("print-demo", false, "print the demonstration loop file and exit")
+	stamp := fs.Bool("timestamp", false, "write the time of the run into index.html; without it two runs on the same loop file write identical files")
 	fs.Usage = func() {
 		fmt.Fprint(fs.Output(), usageHead)
 		fs.PrintDefaults()
@@ -173,7 +175,11 @@ func run(args []string, stdout, stderr io.Writer) int {
 	var index string
 	if writeReport {
 		prog.step("writing the report")
-		index, err = rep.WriteFolder(*outDir)
+		var set report.WriteSettings
+		if *stamp {
+			set.Timestamp = time.Now()
+		}
+		index, err = rep.WriteFolder(*outDir, &set)
 		if err != nil {
 			prog.done()
 			fmt.Fprintf(stderr, "loopreport: cannot write the report: %v\n", err)
