@@ -334,3 +334,25 @@ func TestHTMLNumberFormat(t *testing.T) {
 		t.Errorf("%d of %d tables share the two-column layout, want all but the requirements", kv, n)
 	}
 }
+
+// TestSectionPanicBecomesWarning checks that a defect that panics inside
+// one section leaves a warning and the other sections' results.
+func TestSectionPanicBecomesWarning(t *testing.T) {
+	lf, err := ReadLoop("p.json", []byte(`{"plant": "1/(s+1)"}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	m, err := build(lf)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a := &analysis{m: m, rep: emptyReport()}
+	a.runSection(section{stage: "broken", run: func(*analysis) { panic("boom") }})
+	a.runSection(loopsSection)
+	if !strings.Contains(joined(a.rep.Warnings), "broken: internal error (boom)") {
+		t.Errorf("warnings %q", a.rep.Warnings)
+	}
+	if a.rep.ClosedLoop.Stable == nil || !*a.rep.ClosedLoop.Stable {
+		t.Errorf("the next section did not run")
+	}
+}
