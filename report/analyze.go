@@ -52,12 +52,15 @@ type analysis struct {
 	locusFor tf.TF // the loop whose locus was analysed (base or parametric)
 	margins  *margins.Result
 	step     *response.Metrics
+	// verdict is the loop's one stability verdict (see stability.go),
+	// final once the margins section has run.
+	verdict verdict
 }
 
 // warn adds a warning to the report: a sentence that says what could not
 // be computed and why.
 func (a *analysis) warn(format string, args ...any) {
-	a.rep.Warnings = append(a.rep.Warnings, fmt.Sprintf(format, args...))
+	a.rep.Warnings = append(a.rep.Warnings, shorten(fmt.Sprintf(format, args...)))
 }
 
 // stage announces the start of the next stage.

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"regexp"
 	"slices"
 	"strconv"
 	"strings"
@@ -48,10 +49,7 @@ func gUnit(x Number, unit string) string {
 	if !finite(float64(x)) {
 		return g(x)
 	}
-	if unit == "°" || unit == "%" {
-		return g(x) + unit
-	}
-	return g(x) + " " + unit
+	return withUnit(g(x), unit)
 }
 
 // cplx formats a complex number, "−1.5 ± 2j" style when paired is true.
@@ -79,6 +77,9 @@ func cplx(c Complex, paired bool) string {
 
 // rootList formats a list of roots, writing each conjugate pair once.
 func rootList(cs []Complex) string {
+	if cs == nil {
+		return notComputed
+	}
 	if len(cs) == 0 {
 		return "none"
 	}
@@ -104,6 +105,10 @@ func rootList(cs []Complex) string {
 	return strings.Join(parts, ", ")
 }
 
+// notComputed stands for a result that could not be computed (its JSON
+// value is null).
+const notComputed = "not computed (see the warnings)"
+
 // intervalText formats (lo, hi) with words for unbounded ends.
 func intervalText(iv Interval) string {
 	lo, hi := "−∞", "∞"
@@ -117,6 +122,9 @@ func intervalText(iv Interval) string {
 }
 
 func intervalList(ivs []Interval) string {
+	if ivs == nil {
+		return notComputed
+	}
 	if len(ivs) == 0 {
 		return "none"
 	}
@@ -185,7 +193,21 @@ func factorText(roots []complex128, v string) string {
 	if len(parts) == 0 {
 		return "1"
 	}
-	return strings.Join(parts, "·")
+	// Repeated factors as powers: s^2·(s + 1)^3, not s·s·(s + 1)·…
+	var grouped []string
+	for i := 0; i < len(parts); {
+		j := i
+		for j < len(parts) && parts[j] == parts[i] {
+			j++
+		}
+		if j-i > 1 {
+			grouped = append(grouped, fmt.Sprintf("%s^%d", parts[i], j-i))
+		} else {
+			grouped = append(grouped, parts[i])
+		}
+		i = j
+	}
+	return strings.Join(grouped, "·")
 }
 
 // factoredText writes k·∏(v − zᵢ)/∏(v − pⱼ) with the dead time, in the
@@ -221,5 +243,40 @@ func withUnit(s, unit string) string {
 	if unit == "°" {
 		return s + unit
 	}
-	return s + " " + unit
+	return s + nbsp + unit
+}
+
+// nbsp joins a number to its unit ("10 dB", "0.92 %") so that a line is
+// never broken between them: the one number format of every output.
+const nbsp = "\u00a0"
+
+var (
+	// signedNumber finds an ASCII hyphen-minus used as the sign of a
+	// number: at the start, or after a space, a bracket, "=", "," or ":".
+	signedNumber = regexp.MustCompile(`(^|[\s(\[=,:;/^])-([0-9]|\.[0-9])`)
+	// exponent finds the exponent of a number written by strconv or fmt:
+	// 1e+308, 1.5e-07.
+	exponent = regexp.MustCompile(`([0-9])e([+-])0*([0-9]+)`)
+	// numberUnit finds a number followed by a space and a unit.
+	numberUnit = regexp.MustCompile(`([0-9]) (%|dB|rad/s|s\b)`)
+)
+
+// typeset brings a sentence written by another package (a requirement
+// message, a warning) to the number format of the report: the minus sign
+// U+2212, exponents without "+" and leading zeros (1e308, 1.5e−7), and a
+// no-break space between a number and its unit. Expressions echoed from
+// the loop file are not passed through it, so they stay valid input.
+func typeset(s string) string {
+	s = exponent.ReplaceAllStringFunc(s, func(m string) string {
+		sub := exponent.FindStringSubmatch(m)
+		sign := ""
+		if sub[2] == "-" {
+			sign = "−"
+		}
+		return sub[1] + "e" + sign + sub[3]
+	})
+	for range 2 { // a second pass for adjacent matches such as "(-1,-2"
+		s = signedNumber.ReplaceAllString(s, "${1}−${2}")
+	}
+	return numberUnit.ReplaceAllString(s, "${1}"+nbsp+"${2}")
 }

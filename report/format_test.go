@@ -25,3 +25,24 @@ func TestFormatting(t *testing.T) {
 		}
 	}
 }
+
+// TestTypeset checks the one number format of the outputs (issue 11, item
+// 19): the minus sign U+2212, exponents as 1e308, a no-break space before
+// a unit.
+func TestTypeset(t *testing.T) {
+	for _, test := range []struct{ in, want string }{
+		{"pole -2.802 ± 10.96j", "pole −2.802 ± 10.96j"},
+		{"the phase margin is -13° at 1.8 rad/s", "the phase margin is −13° at 1.8\u00a0rad/s"},
+		{"limit -1e+308; (-1,-2)", "limit −1e308; (−1,−2)"},
+		{"1.5e-07 s", "1.5e−7\u00a0s"},
+		{"0.9202 % and 10 dB", "0.9202\u00a0% and 10\u00a0dB"},
+		{"step-response, degree-500, s - 1, z^-1, 3 samples", "step-response, degree-500, s - 1, z^−1, 3 samples"},
+	} {
+		if got := typeset(test.in); got != test.want {
+			t.Errorf("typeset(%q) = %q, want %q", test.in, got, test.want)
+		}
+	}
+	if got := gUnit(Number(0.92), "%"); got != "0.92\u00a0%" {
+		t.Errorf("gUnit(0.92, %%) = %q", got)
+	}
+}

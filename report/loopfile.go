@@ -86,6 +86,11 @@ type Discretize struct {
 	PrewarpRadPerSec float64
 }
 
+// MaxLoopFileBytes is the largest loop file ReadLoop accepts: 1 MiB, far
+// above any real loop description (a few hundred bytes), so that a wrong
+// file (a device, an image, a log) is refused at once.
+const MaxLoopFileBytes = 1 << 20
+
 // coreKeys are the top-level loop-file keys read in this file; sections
 // add their own (section.keys).
 var coreKeys = []string{"name", "description", "plant", "controller", "sensor", "gain", "gain_range", "parameter", "delay_sec", "sample_time_sec", "discretize"}
@@ -190,7 +195,7 @@ func (e *inputError) Error() string        { return e.msg }
 func (e *inputError) Is(target error) bool { return target == ErrBadInput }
 
 func badInput(format string, a ...any) error {
-	return &inputError{msg: fmt.Sprintf(format, a...)}
+	return &inputError{msg: shorten(fmt.Sprintf(format, a...))}
 }
 
 // position is a place in the loop file, 1-based.
@@ -312,8 +317,15 @@ func syntaxError(data []byte, base int, err error) error {
 // given twice, values of the wrong type and non-finite numbers are
 // rejected. name is the file name used in messages and in the default
 // title. Every error wraps ErrBadInput and names the key and its line and
-// column.
+// column. A leading UTF-8 byte-order mark is ignored; a file larger than
+// MaxLoopFileBytes is refused.
 func ReadLoop(name string, data []byte) (*Loop, error) {
+	if len(data) > MaxLoopFileBytes {
+		return nil, badInput("%s: the file is larger than %d bytes (1 MiB); a loop file is a short JSON object such as {\"plant\": \"1/(s*(s+1))\"}", name, MaxLoopFileBytes)
+	}
+	// A UTF-8 byte-order mark, which some editors write, is not part of
+	// the text.
+	data = bytes.TrimPrefix(data, []byte("\ufeff"))
 	if !utf8.Valid(data) {
 		return nil, badInput("%s: the file is not UTF-8 text", name)
 	}
@@ -464,6 +476,13 @@ func (lf *Loop) validate() error {
 		}
 		if d.PrewarpRadPerSec < 0 {
 			return badInput("key \"discretize.prewarp_rad_per_sec\"%s: the prewarp frequency must be positive, got %g", lf.where("discretize.prewarp_rad_per_sec"), d.PrewarpRadPerSec)
+		}
+		if w, nyq := d.PrewarpRadPerSec, math.Pi/d.SampleTimeSec; w > 0 && w >= nyq*(1-0x1p-26) {
+			// tf.Discretize refuses it too; say it in the file's words.
+			return badInput("key \"discretize.prewarp_rad_per_sec\"%s: the prewarp frequency %s rad/s must lie below π/T = %s rad/s (half the sampling frequency of \"sample_time_sec\" %s s) by more than a relative 1.5e-8: there the Tustin conversion degenerates", lf.where("discretize.prewarp_rad_per_sec"), g(Number(w)), g(Number(nyq)), g(Number(d.SampleTimeSec)))
+		}
+		if d.PrewarpRadPerSec > 0 && d.Method != "tustin" {
+			return badInput("key \"discretize.prewarp_rad_per_sec\"%s: a prewarp frequency applies to the method \"tustin\" only, not %q", lf.where("discretize.prewarp_rad_per_sec"), d.Method)
 		}
 	}
 	return nil

@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"math/cmplx"
 
 	"github.com/loopwise/loopwise/tf"
 )
@@ -12,17 +11,11 @@ import (
 // loops fills open_loop and closed_loop.
 func (a *analysis) loops() {
 	m, rep := a.m, a.rep
-	a.rational = m.open
-	if m.open.DelaySec() > 0 {
-		r, err := m.open.Pade(padeOrder)
-		if err != nil {
-			a.warn("the dead time cannot be replaced for the closed-loop poles: %s", short(err))
-		} else {
-			a.rational = r
-			if !m.open.IsDiscrete() {
-				a.warn("dead time approximated by a %s-order Padé approximation for the closed-loop poles and the step response (the approximation adds poles and right-half-plane zeros of its own; a small undershoot at the start of the step can come from them)", ordinal(padeOrder))
-			}
-		}
+	a.rational = m.rational
+	if m.padeErr != nil {
+		a.warn("the dead time cannot be replaced for the closed-loop poles: %s", short(m.padeErr))
+	} else if m.open.DelaySec() > 0 && !m.open.IsDiscrete() {
+		a.warn("dead time approximated by a %s-order Padé approximation for the closed-loop poles and the step response (the approximation adds poles and right-half-plane zeros of its own; a small undershoot at the start of the step can come from them)", ordinal(padeOrder))
 	}
 	// Open-loop poles: those of the rational part; in discrete time the
 	// dead time's poles at z = 0 are exact and listed too.
@@ -75,17 +68,34 @@ func (a *analysis) loops() {
 			a.warn("closed loop: %s", short(err))
 		}
 	}
-	if p, err := a.rational.CharacteristicPolynomial().Roots(); err == nil && a.rational.DelaySec() == 0 {
-		rep.ClosedLoop.Poles = complexList(p)
-		stable := true
-		for _, z := range p {
-			if (m.open.IsDiscrete() && cmplx.Abs(z) >= 1) || (!m.open.IsDiscrete() && real(z) >= 0) {
-				stable = false
-			}
+	switch {
+	case m.closedErr != nil:
+		a.warn("closed-loop poles: %s", short(m.closedErr))
+	case a.rational.DelaySec() == 0:
+		rep.ClosedLoop.Poles = complexList(m.closedPoles)
+	}
+	a.verdict = m.verdict
+	rep.ClosedLoop.Stable = a.verdict.ptr()
+	a.verdictWarnings()
+}
+
+// verdictWarnings says why the verdict is what it is when poles sit on the
+// stability boundary or too close to it to tell.
+func (a *analysis) verdictWarnings() {
+	v, discrete := a.verdict, a.m.open.IsDiscrete()
+	if len(v.boundary) > 0 {
+		where := "on the imaginary axis"
+		if discrete {
+			where = "on the unit circle"
 		}
-		rep.ClosedLoop.Stable = &stable
-	} else if err != nil {
-		a.warn("closed-loop poles: %s", short(err))
+		a.warn("the closed loop has %d pole(s) %s to within rounding (e.g. %s): it is not asymptotically stable, and the report counts it as unstable", len(v.boundary), where, cplx(newComplex(v.boundary[0]), false))
+	}
+	if len(v.undecided) > 0 {
+		verdict := "the stability of the closed loop is not determined"
+		if v.known {
+			verdict = "other poles make the closed loop unstable"
+		}
+		a.warn("%s: %s", verdict, v.undecidedText(discrete))
 	}
 }
 
@@ -109,8 +119,6 @@ func (a *analysis) feedbackWithSensor() (tf.TF, error) {
 	}
 	return tf.Feedback(fwd, h)
 }
-
-// rootLocus fills the locus section: in the gain k, or in the parameter.
 
 // unitRootTol is the relative tolerance, to the 1-norm of the
 // coefficients, below which D(1) counts as zero for a discrete loop (the

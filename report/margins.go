@@ -1,7 +1,9 @@
 package report
 
 import (
+	"errors"
 	"fmt"
+	"math"
 
 	"github.com/loopwise/loopwise/margins"
 )
@@ -10,11 +12,18 @@ import (
 func (a *analysis) marginsStage() {
 	res, err := margins.Compute(a.m.open, nil)
 	if err != nil {
+		if errors.Is(err, margins.ErrBadSettings) && a.m.open.DelaySec() > 0 {
+			// The settings are the package's defaults; what is too large
+			// is the dead time, in the loop file's words.
+			a.warn("margins: the dead time of %s s (delay_sec and the dead time in the expressions) is so long against the loop's dynamics that the phase of L passes −180° more than 100000 times where |L| still matters; the margins are not computed and the margin keys are null", g(Number(a.m.open.DelaySec())))
+			return
+		}
 		a.warn("margins: %s; the margin keys are null", short(err))
 		return
 	}
 	a.margins = &res
 	mg := &a.rep.Margins
+	mg.GainCrossovers, mg.PhaseCrossovers = []Crossover{}, []Crossover{}
 	mg.GainMargin = Number(res.GainMargin)
 	mg.GainMarginDB = Number(res.GainMarginDB)
 	mg.PhaseCrossoverRadPerSec = Number(res.PhaseCrossoverRadPerSec)
@@ -28,8 +37,6 @@ func (a *analysis) marginsStage() {
 	mg.PeakComplementarySensitivity = Number(res.PeakComplementarySensitivity)
 	mg.PeakComplementarySensitivityRadPerS = Number(res.PeakComplementarySensitivityRadPerSec)
 	mg.BandwidthRadPerSec = Number(res.BandwidthRadPerSec)
-	stable := res.ClosedLoopStable
-	mg.ClosedLoopStable = &stable
 	for _, c := range res.GainCrossovers {
 		mg.GainCrossovers = append(mg.GainCrossovers, Crossover{FrequencyRadPerSec: Number(c.FrequencyRadPerSec), Margin: Number(c.PhaseMarginDeg)})
 	}
@@ -37,59 +44,116 @@ func (a *analysis) marginsStage() {
 		db := Number(c.GainFactorDB)
 		mg.PhaseCrossovers = append(mg.PhaseCrossovers, Crossover{FrequencyRadPerSec: Number(c.FrequencyRadPerSec), Margin: Number(c.GainFactor), MarginDB: &db})
 	}
-	// The Nyquist verdict is exact with dead time; the closed-loop poles
-	// above are then those of the Padé approximation.
-	cl := a.rep.ClosedLoop.Stable
-	if cl != nil && *cl != stable {
-		a.warn("the closed-loop poles of the Padé approximation say %s, the Nyquist criterion on the exact loop says %s; the report follows the Nyquist criterion", stableWord(cl), stableWord(&stable))
-	}
-	a.rep.ClosedLoop.Stable = &stable
-	if !stable {
+	a.settleVerdict(&res)
+	mg.ClosedLoopStable = a.verdict.ptr()
+	a.rep.ClosedLoop.Stable = a.verdict.ptr()
+	if a.verdict.known && !a.verdict.stable {
 		a.warn("the closed loop is unstable at %s: the margins describe an unstable loop", a.rep.Loop.at)
 	}
 }
 
-// marginsTables shows the margins.
+// settleVerdict makes the loop's verdict final. With dead time in s the
+// Nyquist criterion of package margins on the exact loop decides (the
+// closed-loop poles are then those of the Padé approximation); otherwise
+// the verdict of the closed-loop poles stands, and a different count by
+// package margins is reported.
+func (a *analysis) settleVerdict(res *margins.Result) {
+	nyquist := verdict{known: true, stable: res.ClosedLoopStable, method: "the Nyquist criterion"}
+	if a.m.open.DelaySec() > 0 && !a.m.open.IsDiscrete() {
+		if old := a.verdict; old.known && old.stable != nyquist.stable {
+			a.warn("the closed-loop poles of the Padé approximation say %s, the Nyquist criterion on the exact loop says %s; the report follows the Nyquist criterion", old.words(), nyquist.words())
+		}
+		a.verdict = nyquist
+		return
+	}
+	if v := a.verdict; v.known && v.stable != nyquist.stable {
+		a.warn("package margins counts the closed loop as %s, the closed-loop poles judged against their rounding uncertainty say %s; the report follows the closed-loop poles", nyquist.words(), v.words())
+	}
+}
+
+// marginsTables shows the margins. A margin measures how far a stable
+// closed loop is from instability; for an unstable loop the rows say in
+// words what the crossovers mean instead, and the margins are left out.
 func marginsTables(r *Report) []table {
-	var out []table
 	mg := r.Margins
 	ms := table{title: "Margins at " + r.Loop.at}
-	gm := g(mg.GainMargin)
+	switch {
+	case mg.GainCrossovers == nil:
+		ms.rows = append(ms.rows, row{"not available", "see the warnings"})
+	case mg.ClosedLoopStable == nil:
+		ms.rows = append(ms.rows, row{"not available", "the stability of the closed loop is not determined (see the warnings)"})
+	case !*mg.ClosedLoopStable:
+		ms.rows = unstableMarginRows(r)
+	default:
+		ms.rows = stableMarginRows(mg)
+	}
+	return []table{ms}
+}
+
+// stableMarginRows describes the margins of a stable closed loop.
+func stableMarginRows(mg MarginsResult) []row {
+	var rows []row
+	gm := "none"
 	if finite(float64(mg.GainMargin)) {
 		gm = fmt.Sprintf("%s (gain factor %s) at %s", gUnit(mg.GainMarginDB, "dB"), g(mg.GainMargin), gUnit(mg.PhaseCrossoverRadPerSec, "rad/s"))
 	} else if isInf(mg.GainMargin) {
 		gm = "infinite (the gain can rise without limit)"
 	}
-	ms.rows = append(ms.rows, row{"gain margin", gm})
+	rows = append(rows, row{"gain margin", gm})
 	if finite(float64(mg.LowerGainMargin)) {
-		ms.rows = append(ms.rows, row{"lower gain margin", fmt.Sprintf("%s (gain factor %s): the gain may fall only this far", gUnit(mg.LowerGainMarginDB, "dB"), g(mg.LowerGainMargin))})
+		rows = append(rows, row{"lower gain margin", fmt.Sprintf("%s (gain factor %s): the gain may fall only this far", gUnit(mg.LowerGainMarginDB, "dB"), g(mg.LowerGainMargin))})
 	}
 	pm := "none (no gain crossover)"
 	if finite(float64(mg.PhaseMarginDeg)) {
 		pm = fmt.Sprintf("%s at %s", gUnit(mg.PhaseMarginDeg, "°"), gUnit(mg.GainCrossoverRadPerSec, "rad/s"))
 	}
-	ms.rows = append(ms.rows, row{"phase margin", pm})
-	ms.rows = append(ms.rows, row{"delay margin", gUnit(mg.DelayMarginSec, "s")})
+	rows = append(rows, row{"phase margin", pm})
+	rows = append(rows, row{"delay margin", gUnit(mg.DelayMarginSec, "s")})
 	ps := g(mg.PeakSensitivity)
 	if finite(float64(mg.PeakSensitivity)) {
 		ps = fmt.Sprintf("%s %s", g(mg.PeakSensitivity), atFrequency(mg.PeakSensitivityRadPerSec))
 	}
-	ms.rows = append(ms.rows, row{"peak sensitivity", ps})
+	rows = append(rows, row{"peak sensitivity", ps})
 	if finite(float64(mg.PeakComplementarySensitivity)) {
-		ms.rows = append(ms.rows, row{"peak complementary sensitivity", fmt.Sprintf("%s %s", g(mg.PeakComplementarySensitivity), atFrequency(mg.PeakComplementarySensitivityRadPerS))})
+		rows = append(rows, row{"peak complementary sensitivity", fmt.Sprintf("%s %s", g(mg.PeakComplementarySensitivity), atFrequency(mg.PeakComplementarySensitivityRadPerS))})
 	}
 	if finite(float64(mg.BandwidthRadPerSec)) {
-		ms.rows = append(ms.rows, row{"bandwidth of L/(1 + L) (−3 dB)", gUnit(mg.BandwidthRadPerSec, "rad/s")})
+		rows = append(rows, row{"bandwidth of L/(1 + L) (−3" + nbsp + "dB)", gUnit(mg.BandwidthRadPerSec, "rad/s")})
 	}
-	ms.rows = append(ms.rows, row{"closed loop (Nyquist)", stableWord(mg.ClosedLoopStable)})
+	rows = append(rows, row{"closed loop", "stable"})
 	for _, c := range mg.GainCrossovers {
-		ms.rows = append(ms.rows, row{"gain crossover at " + gUnit(c.FrequencyRadPerSec, "rad/s"), "phase margin " + gUnit(c.Margin, "°")})
+		rows = append(rows, row{"gain crossover at " + gUnit(c.FrequencyRadPerSec, "rad/s"), "phase margin " + gUnit(c.Margin, "°")})
 	}
 	for _, c := range mg.PhaseCrossovers {
-		ms.rows = append(ms.rows, row{"phase crossover at " + gUnit(c.FrequencyRadPerSec, "rad/s"), "gain factor " + g(c.Margin)})
+		rows = append(rows, row{"phase crossover at " + gUnit(c.FrequencyRadPerSec, "rad/s"), "gain factor " + g(c.Margin)})
 	}
-	out = append(out, ms)
-	return out
+	return rows
+}
+
+// unstableMarginRows describes the crossovers of L for an unstable closed
+// loop: there is no margin; a phase crossover is where the Nyquist curve
+// passes through −1 when the gain is multiplied by its factor (the number
+// of unstable closed-loop poles changes there), and the gain that
+// stabilises the loop is read from the locus.
+func unstableMarginRows(r *Report) []row {
+	mg := r.Margins
+	rows := []row{{"closed loop", "unstable: no gain, phase or delay margin (a margin measures the distance from instability of a stable loop)"}}
+	if lo := r.Locus; lo.Variable == "gain" && lo.StableIntervals != nil {
+		stab := "no gain in the range of the locus makes it stable"
+		if len(lo.StableIntervals) > 0 {
+			stab = "stable for k in " + intervalList(lo.StableIntervals) + " (root locus)"
+		}
+		rows = append(rows, row{"gain that stabilises it", stab})
+	}
+	for _, c := range mg.PhaseCrossovers {
+		rows = append(rows, row{"phase crossover at " + gUnit(c.FrequencyRadPerSec, "rad/s"),
+			fmt.Sprintf("multiplying the gain by %s (%s) puts −1 on the Nyquist curve: the number of unstable closed-loop poles changes there", g(c.Margin), gUnit(Number(20*math.Log10(float64(c.Margin))), "dB"))})
+	}
+	for _, c := range mg.GainCrossovers {
+		rows = append(rows, row{"gain crossover at " + gUnit(c.FrequencyRadPerSec, "rad/s"),
+			fmt.Sprintf("|L| = 1 with the phase of L at %s", gUnit(Number(float64(c.Margin)-180), "°"))})
+	}
+	return rows
 }
 
 // marginsSection computes margins, and the stability verdict of the

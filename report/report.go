@@ -114,23 +114,22 @@ type DiscreteLoopResult struct {
 // nan is the value of a quantity that was not computed.
 var nan = Number(math.NaN())
 
-// emptyReport returns a report whose every quantity is null and every list
-// empty (not null), so that the JSON always carries every documented key.
+// emptyReport returns a report whose every quantity and list is null (not
+// computed), except requirements and warnings, which are empty lists, so
+// that the JSON always carries every documented key. A section that
+// computes a list sets it, empty when there is nothing: [] means
+// "computed: there is none", null "not computed" (the warnings say why).
 func emptyReport() *Report {
 	return &Report{
-		OpenLoop:   OpenLoopResult{Poles: []Complex{}, Zeros: []Complex{}, StaticGain: nan},
-		ClosedLoop: ClosedLoopResult{Poles: []Complex{}},
+		OpenLoop: OpenLoopResult{StaticGain: nan},
 		Locus: LocusResult{
-			Range: Interval{nan, nan}, Centroid: nan, AsymptoteAnglesDeg: []Number{},
-			RealAxisSegments: []Interval{}, DepartureAngles: []AngleAt{}, ArrivalAngles: []AngleAt{},
-			BreakPoints: []BreakPoint{}, AxisCrossings: []AxisCrossing{}, StableIntervals: []Interval{},
+			Range: Interval{nan, nan}, Centroid: nan,
 		},
 		Margins: MarginsResult{
 			GainMargin: nan, GainMarginDB: nan, PhaseCrossoverRadPerSec: nan, LowerGainMargin: nan,
 			LowerGainMarginDB: nan, PhaseMarginDeg: nan, GainCrossoverRadPerSec: nan, DelayMarginSec: nan,
 			PeakSensitivity: nan, PeakSensitivityRadPerSec: nan, PeakComplementarySensitivity: nan,
 			PeakComplementarySensitivityRadPerS: nan, BandwidthRadPerSec: nan,
-			GainCrossovers: []Crossover{}, PhaseCrossovers: []Crossover{},
 		},
 		Step: StepResult{RiseTimeSec: nan, SettlingTimeSec: nan, OvershootPct: nan, UndershootPct: nan,
 			Peak: nan, PeakTimeSec: nan, FinalValue: nan},

@@ -1,6 +1,10 @@
 package report
 
 import (
+	"fmt"
+	"slices"
+	"strings"
+
 	"github.com/loopwise/loopwise/spec"
 )
 
@@ -39,7 +43,11 @@ var requirementsKey = loopKey{name: "requirements", decode: func(v keyValue, lf 
 		if err := g.number(&limit); err != nil {
 			return err
 		}
-		lf.Requirements = append(lf.Requirements, Requirement{Key: g.f.key[len("requirements."):], Limit: limit})
+		key := g.f.key[len("requirements."):]
+		if _, err := spec.ByKey(key, limit); err != nil {
+			return badInput("key %q %s: %s", g.f.key, at(g.data, g.f.valOff), strings.TrimPrefix(err.Error(), spec.ErrInvalidRequirement.Error()+": "))
+		}
+		lf.Requirements = append(lf.Requirements, Requirement{Key: key, Limit: limit})
 	}
 	return nil
 }}
@@ -64,9 +72,38 @@ func (a *analysis) requirementsStage() {
 		set.ReferenceToOutput = a.refOut
 	}
 	for _, res := range spec.CheckWith(a.m.open, req, set).Results {
-		a.rep.Requirements = append(a.rep.Requirements, RequirementResult{
+		q := RequirementResult{
 			Name: res.Name, Limit: Number(res.Limit), Value: Number(res.Value), Unit: res.Requirement.Unit(), Pass: res.Pass, Message: res.Message,
-		})
+		}
+		a.applyVerdict(&q, res.Requirement)
+		a.rep.Requirements = append(a.rep.Requirements, q)
+	}
+}
+
+// marginKeys are the requirements on a margin: quantities that exist only
+// for a stable closed loop.
+var marginKeys = []string{"min_phase_margin_deg", "min_gain_margin_db", "min_delay_margin_sec", "max_peak_sensitivity"}
+
+// applyVerdict makes a requirement's verdict agree with the loop's one
+// stability verdict: no requirement is met by a loop that is unstable or
+// whose stability is not determined, and a margin of an unstable loop is
+// left out (null) rather than quoted.
+func (a *analysis) applyVerdict(q *RequirementResult, r spec.Requirement) {
+	v := a.verdict
+	if v.known && v.stable {
+		return
+	}
+	if slices.Contains(marginKeys, r.Key()) {
+		q.Value = nan
+	}
+	if !v.known {
+		q.Pass = false
+		q.Message = fmt.Sprintf("The stability of the closed loop is not determined (see the warnings), so the requirement (%s) is not met.", r)
+		return
+	}
+	if q.Pass {
+		q.Pass = false
+		q.Message = fmt.Sprintf("The closed loop is unstable (judged from %s), so the requirement (%s) is not met.", v.method, r)
 	}
 }
 

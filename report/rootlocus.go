@@ -13,10 +13,13 @@ func (a *analysis) rootLocus() {
 	set := &locus.Settings{PadeOrder: padeOrder}
 	loop := m.base
 	if p := lf.Parameter; p != nil {
+		// The variable and its range are the loop file's, known even when
+		// the locus cannot be formed.
+		rep.Locus.Variable = p.Name
+		rep.Locus.Range = Interval{Number(p.Range[0]), Number(p.Range[1])}
 		par, err := locus.FromParameter(p.Name, m.loopAt)
 		if err != nil {
-			a.warn("the locus in the parameter %s cannot be formed: %s", p.Name, short(err))
-			rep.Locus.Variable = p.Name
+			a.warn("the locus in the parameter %s cannot be formed: %s; the locus keys are null", p.Name, short(err))
 			return
 		}
 		loop = par.Loop
@@ -36,11 +39,14 @@ func (a *analysis) rootLocus() {
 	a.locusFor = loop
 	an, err := locus.Analyze(loop, set)
 	if err != nil {
-		a.warn("root locus: %s", short(err))
+		a.warn("root locus: %s; the locus keys are null", short(err))
 		return
 	}
 	a.locus = &an
 	l := &rep.Locus
+	l.AsymptoteAnglesDeg, l.RealAxisSegments = []Number{}, []Interval{}
+	l.DepartureAngles, l.ArrivalAngles = []AngleAt{}, []AngleAt{}
+	l.BreakPoints, l.AxisCrossings, l.StableIntervals = []BreakPoint{}, []AxisCrossing{}, []Interval{}
 	if an.HasAsymptotes {
 		l.Centroid = Number(an.CentroidReal)
 	}
@@ -79,6 +85,10 @@ func locusTables(r *Report) []table {
 	lo := r.Locus
 	ls := table{title: "Root locus in " + variableWords(lo.Variable)}
 	ls.rows = append(ls.rows, row{"range of " + lo.Variable, intervalText(lo.Range)})
+	if lo.StableIntervals == nil {
+		ls.rows = append(ls.rows, row{"locus", notComputed})
+		return append(out, ls)
+	}
 	if len(lo.AsymptoteAnglesDeg) > 0 {
 		angles := make([]string, len(lo.AsymptoteAnglesDeg))
 		for i, a := range lo.AsymptoteAnglesDeg {

@@ -10,9 +10,13 @@ import (
 // steadyStage fills the steady-state errors of L.
 func (a *analysis) steadyStage() {
 	l := a.m.open
+	if reason := a.unsettled(); reason != "" {
+		a.warn("steady-state errors: %s, so there is no steady state; the steady-state keys are null", reason)
+		return
+	}
 	if l.DelaySec() > 0 && !l.IsDiscrete() {
-		if a.margins == nil || !a.margins.ClosedLoopStable {
-			a.warn("steady-state errors: the closed loop with dead time is not known to be stable; the steady-state keys are null")
+		if a.margins == nil {
+			a.warn("steady-state errors: the closed loop with dead time is not known to be stable (the Nyquist criterion could not be applied); the steady-state keys are null")
 			return
 		}
 		// Dead time does not change the limits; stability comes from the
@@ -23,7 +27,7 @@ func (a *analysis) steadyStage() {
 	if err != nil {
 		reason := short(err)
 		if errors.Is(err, response.ErrUnstable) {
-			reason = "the closed loop is unstable, so there is no steady state"
+			reason = "package response finds a closed-loop pole on or beyond the stability boundary where the loop's verdict is stable (" + reason + "), so there is no steady state"
 		}
 		a.warn("steady-state errors: %s; the steady-state keys are null", reason)
 		return

@@ -14,6 +14,10 @@ func (a *analysis) stepStage() {
 		a.warn("step response: the closed loop from reference to output could not be formed")
 		return
 	}
+	if reason := a.unsettled(); reason != "" {
+		a.warn("step response: %s, so the step response has no metrics; the step keys are null", reason)
+		return
+	}
 	mt, err := response.StepMetrics(a.refOut, nil)
 	if err != nil {
 		a.warn("step response: %s; the step keys are null", stepReason(err))
@@ -33,11 +37,26 @@ func (a *analysis) stepStage() {
 func stepReason(err error) string {
 	switch {
 	case errors.Is(err, response.ErrUnstable):
-		return "the closed loop is unstable, so the step response has no metrics"
+		// The loop's verdict is "stable" (see unsettled); package
+		// response judged a pole near the boundary differently.
+		return "the response could not be computed, because package response finds a closed-loop pole on or beyond the stability boundary (" + short(err) + ") where the loop's verdict is stable"
 	case errors.Is(err, response.ErrZeroFinalValue):
 		return "the closed loop's static gain is zero, so the step response has no level to reach"
 	}
 	return short(err)
+}
+
+// unsettled says why the closed loop has no settled response by the
+// loop's one verdict: "the closed loop is unstable", or "" when it is
+// stable.
+func (a *analysis) unsettled() string {
+	switch {
+	case !a.verdict.known:
+		return "the stability of the closed loop is not determined"
+	case !a.verdict.stable:
+		return "the closed loop is unstable"
+	}
+	return ""
 }
 
 // stepTables shows the step response.

@@ -22,8 +22,18 @@ type table struct {
 func tables(r *Report) []table {
 	out := []table{loopTable(r)}
 	for _, s := range pipeline {
-		if s.tables != nil {
-			out = append(out, s.tables(r)...)
+		if s.tables == nil {
+			continue
+		}
+		for _, t := range s.tables(r) {
+			// Notes and reasons from other packages, in the report's
+			// number format (the loop table echoes the loop file's own
+			// text and is left as written).
+			for i := range t.rows {
+				t.rows[i].label = typeset(t.rows[i].label)
+				t.rows[i].value = typeset(t.rows[i].value)
+			}
+			out = append(out, t)
 		}
 	}
 	return out
@@ -71,6 +81,9 @@ func isInf(x Number) bool { return float64(x) > 1e308 }
 
 // intervalListClosed formats real-axis segments [lo, hi].
 func intervalListClosed(ivs []Interval) string {
+	if ivs == nil {
+		return notComputed
+	}
 	if len(ivs) == 0 {
 		return "none"
 	}
@@ -141,13 +154,13 @@ func (r *Report) WriteSummary(w io.Writer) error {
 			if !q.Pass {
 				verdict = "FAIL"
 			}
-			fmt.Fprintf(&b, "  %s  %s\n", verdict, q.Message)
+			fmt.Fprintf(&b, "  %s  %s\n", verdict, typeset(q.Message))
 		}
 	}
 	if len(r.Warnings) > 0 {
 		fmt.Fprintln(&b, "\nWarnings")
 		for _, s := range r.Warnings {
-			fmt.Fprintf(&b, "  - %s\n", s)
+			fmt.Fprintf(&b, "  - %s\n", typeset(s))
 		}
 	}
 	fmt.Fprintf(&b, "\nCaution: %s\n", safetyCaution)

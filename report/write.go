@@ -26,10 +26,21 @@ type Figure struct {
 // plotFiles are the base names of every plot the report can hold.
 var plotFiles = []string{"root-locus", "frequency-response", "nyquist", "step-response", "pole-zero-map"}
 
+// WriteSettings controls the files of the report. A nil *WriteSettings
+// means the defaults.
+type WriteSettings struct {
+	// Timestamp, if not zero, is written into index.html as the time the
+	// report was made (in UTC, to the minute). If zero (the default), the
+	// report carries no time, so that two runs on the same loop give
+	// byte-identical files.
+	Timestamp time.Time
+}
+
 // WriteFolder writes the report into dir: every plot as SVG and PNG,
 // summary.md, report.json and index.html. It returns the path of
-// index.html.
-func (r *Report) WriteFolder(dir string) (string, error) {
+// index.html. Plots of an earlier run that this run did not draw are
+// removed, so the folder never mixes two analyses.
+func (r *Report) WriteFolder(dir string, set *WriteSettings) (string, error) {
 	figs := r.Figures
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return "", err
@@ -67,7 +78,7 @@ func (r *Report) WriteFolder(dir string) (string, error) {
 	if err := os.WriteFile(filepath.Join(dir, "summary.md"), r.Markdown(), 0o644); err != nil {
 		return "", err
 	}
-	page, err := r.HTML()
+	page, err := r.HTML(set)
 	if err != nil {
 		return "", err
 	}
@@ -106,7 +117,7 @@ func (r *Report) Markdown() []byte {
 		}
 		b.WriteString("\n")
 		for _, q := range r.Requirements {
-			fmt.Fprintf(&b, "- %s\n", mdEscape(q.Message))
+			fmt.Fprintf(&b, "- %s\n", mdEscape(typeset(q.Message)))
 		}
 		b.WriteString("\n")
 	}
@@ -120,13 +131,13 @@ func (r *Report) Markdown() []byte {
 	if len(figs) > 0 {
 		b.WriteString("## Plots\n\n")
 		for _, f := range figs {
-			fmt.Fprintf(&b, "### %s\n\n![%s](%s.svg)\n\n%s (also as [PNG](%s.png))\n\n", f.Title, f.Title, f.File, mdEscape(f.Caption), f.File)
+			fmt.Fprintf(&b, "### %s\n\n![%s](%s.svg)\n\n%s (also as [PNG](%s.png))\n\n", f.Title, f.Title, f.File, mdEscape(typeset(f.Caption)), f.File)
 		}
 	}
 	if len(r.Warnings) > 0 {
 		b.WriteString("## Warnings\n\n")
 		for _, w := range r.Warnings {
-			fmt.Fprintf(&b, "- %s\n", mdEscape(w))
+			fmt.Fprintf(&b, "- %s\n", mdEscape(typeset(w)))
 		}
 		b.WriteString("\n")
 	}
@@ -151,7 +162,7 @@ type htmlFigure struct {
 
 type htmlData struct {
 	Name, Description string
-	Generated         string
+	Generated         string // empty for no time
 	Requirements      []RequirementResult
 	Pass, Total       int
 	Sections          []htmlSection
@@ -167,7 +178,7 @@ type htmlSection struct {
 
 type htmlRow struct{ Label, Value string }
 
-var pageTemplate = template.Must(template.New("page").Funcs(template.FuncMap{"g": g, "unit": withUnit}).Parse(`<!DOCTYPE html>
+var pageTemplate = template.Must(template.New("page").Funcs(template.FuncMap{"g": g, "unit": withUnit, "typeset": typeset}).Parse(`<!DOCTYPE html>
 <html lang="en">
 <head>
 <meta charset="utf-8">
@@ -180,13 +191,16 @@ h2 { font-size: 1.25rem; margin-top: 2rem; border-bottom: 1px solid #ccc; paddin
 table { border-collapse: collapse; margin: 0.5rem 0; width: 100%; }
 th, td { text-align: left; padding: 0.3rem 0.6rem; border-bottom: 1px solid #e4e4e4; vertical-align: top; }
 th { background: #f3f3f3; }
-td.num { font-variant-numeric: tabular-nums; }
+td.num { font-variant-numeric: tabular-nums; text-align: right; white-space: nowrap; }
+table.kv { table-layout: fixed; }
+table.kv td:first-child { width: 40%; }
+table.kv td + td { font-variant-numeric: tabular-nums; }
 .pass { color: #00704a; font-weight: 600; }
 .fail { color: #b00020; font-weight: 700; }
 .caution { border-left: 4px solid #e69f00; background: #fff8e6; padding: 0.7rem 1rem; margin: 1.2rem 0; }
 .warnings li { margin: 0.2rem 0; }
 figure { margin: 1.2rem 0; }
-figure svg { width: 100%; height: auto; max-width: 48rem; display: block; }
+figure svg { width: 100%; height: auto; display: block; }
 figcaption { color: #444; font-size: 0.95rem; }
 .muted { color: #666; font-size: 0.9rem; }
 nav a { margin-right: 1rem; }
@@ -195,18 +209,18 @@ nav a { margin-right: 1rem; }
 <body>
 <h1>{{.Name}}</h1>
 {{if .Description}}<p>{{.Description}}</p>{{end}}
-<p class="muted">Loop report generated {{.Generated}} by loopreport (loopwise).</p>
+<p class="muted">Loop report{{if .Generated}} generated {{.Generated}}{{end}} by loopreport (loopwise).</p>
 <nav><a href="#requirements">Requirements</a><a href="#results">Results</a><a href="#plots">Plots</a>{{if .Warnings}}<a href="#warnings">Warnings</a>{{end}}</nav>
 <div class="caution"><strong>Caution.</strong> {{.Caution}}</div>
 <h2 id="requirements">Requirements{{if .Total}}: {{.Pass}} of {{.Total}} met{{end}}</h2>
 {{if .Requirements}}<table>
 <tr><th>requirement</th><th>limit</th><th>measured</th><th>verdict</th><th>in words</th></tr>
-{{range .Requirements}}<tr><td>{{.Name}}</td><td class="num">{{unit (g .Limit) .Unit}}</td><td class="num">{{unit (g .Value) .Unit}}</td><td>{{if .Pass}}<span class="pass">pass</span>{{else}}<span class="fail">fail</span>{{end}}</td><td>{{.Message}}</td></tr>
+{{range .Requirements}}<tr><td>{{.Name}}</td><td class="num">{{unit (g .Limit) .Unit}}</td><td class="num">{{unit (g .Value) .Unit}}</td><td>{{if .Pass}}<span class="pass">pass</span>{{else}}<span class="fail">fail</span>{{end}}</td><td>{{typeset .Message}}</td></tr>
 {{end}}</table>{{else}}<p>The loop file states no requirements.</p>{{end}}
 <div id="results">
 {{range .Sections}}<h2>{{.Title}}</h2>
-<table>
-{{range .Rows}}<tr><td>{{.Label}}</td><td class="num">{{.Value}}</td></tr>
+<table class="kv">
+{{range .Rows}}<tr><td>{{.Label}}</td><td>{{.Value}}</td></tr>
 {{end}}</table>
 {{end}}</div>
 <h2 id="plots">Plots</h2>
@@ -218,7 +232,7 @@ nav a { margin-right: 1rem; }
 </figure>
 {{end}}
 {{if .Warnings}}<h2 id="warnings">Warnings</h2>
-<ul class="warnings">{{range .Warnings}}<li>{{.}}</li>{{end}}</ul>{{end}}
+<ul class="warnings">{{range .Warnings}}<li>{{typeset .}}</li>{{end}}</ul>{{end}}
 </body>
 </html>
 `))
@@ -226,12 +240,16 @@ nav a { margin-right: 1rem; }
 // HTML returns the self-contained index.html: plots inlined as SVG,
 // tables of the results, requirement verdicts and the safety caution. It
 // refers to no external file, script, style sheet or font.
-func (r *Report) HTML() ([]byte, error) {
+func (r *Report) HTML(set *WriteSettings) ([]byte, error) {
 	figs := r.Figures
 	pass, total := verdictCounts(r)
+	generated := ""
+	if set != nil && !set.Timestamp.IsZero() {
+		generated = set.Timestamp.UTC().Format("2006-01-02 15:04 UTC")
+	}
 	d := htmlData{
 		Name: r.Name, Description: r.Description,
-		Generated:    time.Now().UTC().Format("2006-01-02 15:04 UTC"),
+		Generated:    generated,
 		Requirements: r.Requirements, Pass: pass, Total: total,
 		Warnings: r.Warnings, Caution: safetyCaution,
 	}
@@ -243,7 +261,7 @@ func (r *Report) HTML() ([]byte, error) {
 		d.Sections = append(d.Sections, hs)
 	}
 	for _, f := range figs {
-		d.Figures = append(d.Figures, htmlFigure{Title: f.Title, Caption: f.Caption, File: f.File, SVG: inlineSVG(f.SVG)})
+		d.Figures = append(d.Figures, htmlFigure{Title: f.Title, Caption: typeset(f.Caption), File: f.File, SVG: inlineSVG(f.SVG)})
 	}
 	var b bytes.Buffer
 	if err := pageTemplate.Execute(&b, d); err != nil {
