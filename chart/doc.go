@@ -53,7 +53,10 @@
 // approximation of dead time, say) are left out of the view and counted
 // in the key, unless the first crossing of the stability boundary lies
 // among them. PlaneSettings.Detail adds a zoomed panel for a small group
-// of points near the origin; PlaneSettings.Window fixes the view.
+// of points near the origin, and one is added unasked where marks crowd
+// (PlaneSettings.Detail says when); PlaneSettings.Window fixes the view.
+// The key of a complex plane stands right of the panels, outside the data,
+// so that it hides no branch, mark or label.
 //
 // # Invariants
 //

@@ -167,18 +167,12 @@ func RootLocus(l locus.Locus, set *LocusSettings) (*Figure, error) {
 	}
 
 	if ps == nil || !ps.HideKey {
-		// A parameter locus a(s) + p·b(s) = 0 starts at the roots of a
-		// (the closed-loop poles at p = 0) and ends at the roots of b: they
-		// are not open-loop poles and zeros of the physical loop.
-		poleText, zeroText := "open-loop pole", "open-loop zero"
-		if name != "gain" {
-			poleText = fmt.Sprintf("start: closed-loop pole at %s = 0", name)
-			inf := "∞"
-			if a.Range.Max <= 0 && !a.Range.IsZero() {
-				inf = "−∞" // complementary parameter locus
-			}
-			zeroText = fmt.Sprintf("end: where poles go as %s → %s", name, inf)
-		}
+		// Every locus a(s) + p·b(s) = 0 starts at the roots of a (the
+		// closed-loop poles at p = 0) and ends at the roots of b. For the
+		// gain these are the open-loop poles and zeros; for a parameter
+		// they are not, so one wording names both alike, by what they are
+		// on the locus.
+		poleText, zeroText := startEndWords(name, a.Range)
 		spec.key = append(spec.key, keyEntry{Text: poleText, Glyph: ptr(poleGlyph())})
 		if len(a.Zeros) > 0 {
 			spec.key = append(spec.key, keyEntry{Text: zeroText, Glyph: ptr(zeroGlyph())})
@@ -209,6 +203,19 @@ func RootLocus(l locus.Locus, set *LocusSettings) (*Figure, error) {
 	// Approximations and special situations recorded by the analysis.
 	f.Notes = append(f.Notes, a.Notes...)
 	return f, nil
+}
+
+// startEndWords names the × and ○ of a locus over the variable name: the
+// closed-loop poles at name = 0, where every branch starts, and the points
+// the branches end at as name grows without bound (−∞ for a complementary
+// locus, whose range is negative).
+func startEndWords(name string, rg locus.Range) (start, end string) {
+	inf := "∞"
+	if rg.Max <= 0 && !rg.IsZero() {
+		inf = "−∞"
+	}
+	return fmt.Sprintf("start: closed-loop pole at %s = 0", name),
+		fmt.Sprintf("end: where poles go as %s → %s", name, inf)
 }
 
 // stableWords states the stable values of the variable in words.

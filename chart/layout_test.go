@@ -1,0 +1,152 @@
+package chart_test
+
+import (
+	"bytes"
+	"strings"
+	"testing"
+
+	"github.com/loopwise/loopwise/chart"
+	"github.com/loopwise/loopwise/locus"
+	"github.com/loopwise/loopwise/tf"
+	"gonum.org/v1/plot/vg"
+)
+
+// crowdedDigitalLoop is a fast-sampled servo (T = 5 ms): the zero-order-
+// hold plant 200/(s(s+10)) with the Tustin equivalent of the lead
+// 4(s+10)/(s+40). Its poles, zeros and break points crowd near z = 1
+// (z = e^(sT) with |s|·T small).
+func crowdedDigitalLoop(t *testing.T) tf.TF {
+	t.Helper()
+	g := must(tf.MustParse("200/(s(s+10))").Discretize(0.005, tf.ZeroOrderHold, nil))
+	c := must(tf.MustParse("4(s+10)/(s+40)").Discretize(0.005, tf.Tustin, nil))
+	return must(c.Series(g))
+}
+
+// layoutCases are the complex-plane figures whose layout is checked: every
+// plane case of the figure tests and the crowded digital locus.
+func layoutCases() []figureCase {
+	var out []figureCase
+	for _, c := range allCases() {
+		if strings.HasPrefix(c.name, "locus") || strings.HasPrefix(c.name, "polezero") {
+			out = append(out, c)
+		}
+	}
+	out = append(out, figureCase{name: "locus_crowded", build: func(t *testing.T) *chart.Figure {
+		return must(chart.RootLocus(traceLocus(t, crowdedDigitalLoop(t), nil), &chart.LocusSettings{
+			PlaneSettings: chart.PlaneSettings{DampingRatios: []float64{0.3, 0.7}},
+			Mark:          &chart.LocusMark{Value: 1}}))
+	}})
+	return out
+}
+
+func drawn(t *testing.T, f *chart.Figure) chart.DrawnLayout {
+	t.Helper()
+	if err := f.Render(&bytes.Buffer{}, chart.FormatPNG); err != nil {
+		t.Fatal(err)
+	}
+	return chart.Layout(f)
+}
+
+func overlap(a, b vg.Rectangle) bool {
+	return a.Min.X < b.Max.X && b.Min.X < a.Max.X && a.Min.Y < b.Max.Y && b.Min.Y < a.Max.Y
+}
+
+func contains(r vg.Rectangle, p vg.Point) bool {
+	return p.X >= r.Min.X && p.X <= r.Max.X && p.Y >= r.Min.Y && p.Y <= r.Max.Y
+}
+
+// TestKeyCoversNothing is the regression test of issue 11 item 16: the box
+// that explains the symbols of a root locus or pole–zero map covers no
+// drawn point (of a branch, a guide curve or a mark) and no label, and it
+// lies outside every data area.
+func TestKeyCoversNothing(t *testing.T) {
+	for _, c := range layoutCases() {
+		t.Run(c.name, func(t *testing.T) {
+			d := drawn(t, c.build(t))
+			if len(d.Keys) == 0 {
+				t.Fatal("no key drawn")
+			}
+			for _, k := range d.Keys {
+				for _, p := range d.Points {
+					if contains(k, p) {
+						t.Errorf("key %v covers the drawn point %v", k, p)
+						break
+					}
+				}
+				for _, l := range d.Labels {
+					if overlap(k, l) {
+						t.Errorf("key %v covers the label at %v", k, l)
+					}
+				}
+				for _, a := range d.Areas {
+					if overlap(k, a) {
+						t.Errorf("key %v lies in the data area %v", k, a)
+					}
+				}
+			}
+		})
+	}
+}
+
+// TestCrowdedPointsGetDetail is the regression test of the second part of
+// item 16: when key points crowd (the fast-sampled locus near z = 1) a
+// zoomed panel is added without being asked for, the labels of the
+// crowded points are written there, and no two labels of any plane figure
+// overlap.
+func TestCrowdedPointsGetDetail(t *testing.T) {
+	for _, c := range layoutCases() {
+		t.Run(c.name, func(t *testing.T) {
+			f := c.build(t)
+			d := drawn(t, f)
+			for i, a := range d.Labels {
+				for _, b := range d.Labels[i+1:] {
+					if overlap(a, b) {
+						t.Errorf("labels at %v and %v overlap", a, b)
+					}
+				}
+			}
+			if c.name == "locus_crowded" {
+				if len(f.Panels) != 2 {
+					t.Fatalf("%d panels, want the whole view and a detail", len(f.Panels))
+				}
+				// The detail is around z = 1, at least four times smaller.
+				w, dt := f.Panels[0], f.Panels[1]
+				if !(dt.X.Min < 1 && dt.X.Max > 0.9) || 4*(dt.X.Max-dt.X.Min) > w.X.Max-w.X.Min {
+					t.Errorf("detail spans [%g, %g] of [%g, %g]", dt.X.Min, dt.X.Max, w.X.Min, w.X.Max)
+				}
+			}
+		})
+	}
+}
+
+// TestStartEndWordsAlike is the regression test of item 17's first part:
+// a gain locus and a parameter locus name their × and ○ alike (the start
+// at the value 0 and the end as the value grows), so the same mark never
+// means an open-loop pole in one figure and a closed-loop pole in another.
+func TestStartEndWordsAlike(t *testing.T) {
+	gain := svgText(t, must(chart.RootLocus(traceLocus(t, servoLoop(), nil), nil)))
+	pm := must(locus.FromText("Td", "4(1+Td*s)", tf.MustParse("1/(s(s+1)(s+3))")))
+	param := svgText(t, must(chart.RootLocus(traceLocus(t, pm.Loop, &locus.Settings{Variable: pm.Name}), nil)))
+	for _, w := range []string{"start: closed-loop pole at gain = 0", "end: where poles go as gain → ∞"} {
+		if !strings.Contains(gain, w) {
+			t.Errorf("gain locus key lacks %q", w)
+		}
+	}
+	for _, w := range []string{"start: closed-loop pole at Td = 0", "end: where poles go as Td → ∞"} {
+		if !strings.Contains(param, w) {
+			t.Errorf("parameter locus key lacks %q", w)
+		}
+	}
+	if strings.Contains(gain, "open-loop pole") || strings.Contains(gain, "open-loop zero") {
+		t.Errorf("gain locus key still names open-loop poles and zeros")
+	}
+}
+
+func svgText(t *testing.T, f *chart.Figure) string {
+	t.Helper()
+	var buf bytes.Buffer
+	if err := f.Render(&buf, chart.FormatSVG); err != nil {
+		t.Fatal(err)
+	}
+	return buf.String()
+}
