@@ -72,7 +72,56 @@
 //     and the loop-file keys in the -h text of examples/loopreport/main.go
 //     (tests check that every key is documented in both).
 //
-// The file requirements.go is a complete small section to copy.
+// In code, the skeleton of disturbances.go:
+//
+//	// DisturbanceSpec is the loop file's "disturbances" key.
+//	type DisturbanceSpec struct{ StepAtInput float64 }
+//
+//	var disturbancesKey = loopKey{name: "disturbances", decode: func(v keyValue, lf *Loop) error {
+//		fields, err := v.fields([]string{"step_at_input"})
+//		if err != nil {
+//			return err
+//		}
+//		lf.Disturbances = &DisturbanceSpec{}
+//		for _, f := range fields {
+//			if err := f.number(&lf.Disturbances.StepAtInput); err != nil {
+//				return err
+//			}
+//		}
+//		return nil
+//	}}
+//
+//	// DisturbancesResult is the "disturbances" section of the report.
+//	type DisturbancesResult struct {
+//		PeakOutput Number `json:"peak_output"`
+//	}
+//
+//	func (a *analysis) disturbances() {
+//		if a.m.file.Disturbances == nil {
+//			return // the key is absent: the section stays null
+//		}
+//		if why := a.unsettled(); why != "" {
+//			a.warn("disturbances: %s; the disturbances keys are null", why)
+//			return
+//		}
+//		a.rep.Disturbances = &DisturbancesResult{PeakOutput: ...}
+//	}
+//
+//	func disturbancesTables(r *Report) []table {
+//		if r.Disturbances == nil {
+//			return nil
+//		}
+//		return []table{{title: "Disturbances", rows: []row{
+//			{"peak output", g(r.Disturbances.PeakOutput)}}}}
+//	}
+//
+//	var disturbancesSection = section{stage: "disturbances",
+//		keys: []loopKey{disturbancesKey}, run: (*analysis).disturbances,
+//		tables: disturbancesTables}
+//
+// The file requirements.go is a complete small section to copy, and
+// section_test.go adds a worked example section to the pipeline and checks
+// that its key, its run function and its table take part.
 //
 // # Invariants
 //
