@@ -28,9 +28,15 @@ import (
 //	ρ(r) = min over k ≥ 1 of (η·S(r)/|cₖ|)^(1/k),
 //
 // the smallest displacement h at which some term cₖhᵏ of P(r + h) can be
-// cancelled by the perturbation. η is 8·(n+1) units of rounding (the size
-// used by poly.VanishesAt for coefficients formed by expanding products),
-// or the root's own backward error |P(r)|/S(r) when that is larger.
+// cancelled by the perturbation. η is 8·(n+1) units of rounding u = 2⁻⁵³,
+// or the root's own backward error |P(r)|/S(r) when that is larger: the
+// tolerance poly.VanishesAt uses to decide that a polynomial has a root at
+// a point (tf.StaticGain, package response), so that the verdict never
+// calls a loop stable whose closed loop the rest of the library treats as
+// having a pole on the boundary. Where the coefficients have lost the loop
+// (a 100 s and a 30 s lag under PI control converted by Tustin at 0.1 ms:
+// P(1) rounds to exactly 0 although the true value is about 1e-18), ρ is
+// far larger than the distance and the verdict is refused.
 //
 // A root with |d| ≤ ρ sits on the boundary as far as the arithmetic can
 // tell. When ρ is itself at the level of rounding (below boundaryRelTol of
