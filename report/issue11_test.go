@@ -169,7 +169,7 @@ func TestBoundaryPoleIsUnstable(t *testing.T) {
 	if mg := r.Margins.ClosedLoopStable; mg != nil && *mg {
 		t.Errorf("margins.closed_loop_stable = true for poles ±j")
 	}
-	if !strings.Contains(joined(r.Warnings), "imaginary axis to within rounding") {
+	if !strings.Contains(joined(r.Warnings), "on the imaginary axis to within the rounding") {
 		t.Errorf("warnings do not name the boundary poles:\n%s", joined(r.Warnings))
 	}
 }
@@ -420,5 +420,22 @@ func TestVerdictAgreesWithLocus(t *testing.T) {
 	t.Logf("%d of 120 loops checked", checked)
 	if checked < 100 {
 		t.Errorf("only %d of 120 loops checked", checked)
+	}
+}
+
+// TestRootRadiusScales checks that the radius is computed without
+// overflow for roots near 1e154 of a polynomial with a coefficient of
+// 1e308 (s² + s + 1e308: roots −0.5 ± 1e154j), and that it scales with the
+// root: ρ of p(x/σ) at σr is σ·ρ of p at r for σ a power of two.
+func TestRootRadiusScales(t *testing.T) {
+	p := mustPoly(t, 1, 1, 1e308)
+	r := complex(-0.5, 1e154)
+	if rho := rootRadius(p, r); math.IsInf(rho, 0) || math.IsNaN(rho) || rho <= 0 {
+		t.Errorf("ρ = %g for a root near 1e154", rho)
+	}
+	q := mustPoly(t, 1, -3, 2) // roots 1 and 2
+	qs := mustPoly(t, 1, -3*1024, 2*1024*1024)
+	if a, b := rootRadius(q, 1), rootRadius(qs, 1024); math.Abs(b/(1024*a)-1) > 1e-12 {
+		t.Errorf("ρ = %g at 1, %g at 1024 for the scaled polynomial; want a ratio of 1024", a, b)
 	}
 }
