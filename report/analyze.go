@@ -79,7 +79,11 @@ func (a *analysis) fraction(name string, f float64) {
 // short removes the package prefix of an error message.
 func short(err error) string {
 	s := err.Error()
-	for _, p := range []string{"locus: ", "margins: ", "response: ", "tf: ", "poly: ", "chart: ", "spec: "} {
+	for _, p := range []string{"locus: ", "margins: ", "response: ", "tf: ", "poly: ", "chart: ", "spec: ", "statespace: "} {
+		s = strings.ReplaceAll(s, p, "")
+	}
+	// Sentinel phrases that add nothing to the reason that follows them.
+	for _, p := range []string{"value is NaN or infinite: ", "numerical method failed: "} {
 		s = strings.ReplaceAll(s, p, "")
 	}
 	return s

@@ -36,9 +36,11 @@ type loopModel struct {
 	loopAt func(p float64) (tf.TF, error)
 	// discrete describes the conversion to z; nil without "discretize".
 	discrete *DiscreteLoopResult
-	// delayIgnored reports that the dead time is negligible for the
-	// closed-loop poles and the step response (negligibleDelay).
+	// delayIgnored reports that the dead time is negligible
+	// (negligibleDelay); analysed is then open without it, otherwise open
+	// itself: the loop of the margins, the requirements and the plots.
 	delayIgnored bool
+	analysed     tf.TF
 	// rational is open with dead time replaced: by its Padé approximation
 	// in s, by exact poles at z = 0 in z; open itself when padeErr is set.
 	rational tf.TF
@@ -244,13 +246,14 @@ func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 // stability verdict (see stability.go). It refuses a loop converted to z
 // whose verdict double precision cannot give.
 func (m *loopModel) judge() error {
-	m.rational = m.open
+	m.rational, m.analysed = m.open, m.open
 	if tau := m.open.DelaySec(); tau > 0 && !m.open.IsDiscrete() && negligibleDelay(m.open) {
 		// e^(−sτ) = 1 − sτ + … differs from 1 by less than 1e-8 up to
 		// the fastest pole or zero, while its Padé approximation would
 		// put poles at about 1/τ that the root finder cannot reach.
 		m.rational = m.open.WithoutDelay()
 		m.delayIgnored = true
+		m.analysed = m.rational
 	} else if tau > 0 {
 		if r, err := m.open.Pade(padeOrder); err != nil {
 			m.padeErr = err
@@ -308,8 +311,9 @@ func (lf *Loop) checkDelaySamples(delaySec float64) error {
 
 // negligibleDelay reports whether the dead time τ of the continuous loop l
 // changes e^(−sτ) by less than 1e-8 at the loop's fastest pole or zero
-// (|sτ| < 1e-8): the rational loop without it is then exact to that
-// level where the loop's dynamics are.
+// (|sτ| < 1e-8) and |L| is small where it does matter (ω near 1/τ): the
+// rational loop without it is then exact to that level for the closed-loop
+// poles, the locus, the margins and the responses.
 func negligibleDelay(l tf.TF) bool {
 	r := l.WithoutDelay()
 	p, err1 := r.Poles()
@@ -321,5 +325,11 @@ func negligibleDelay(l tf.TF) bool {
 	for _, x := range append(p, z...) {
 		fastest = math.Max(fastest, cmplx.Abs(x))
 	}
-	return fastest > 0 && l.DelaySec()*fastest < 1e-8
+	if !(fastest > 0 && l.DelaySec()*fastest < 1e-8) {
+		return false
+	}
+	// At frequencies near 1/τ the dead time turns L(jω) through whole
+	// turns; that is harmless only where |L| has fallen well below 1:
+	// a strictly proper loop, or a biproper one with |L(∞)| < 1/2.
+	return r.RelativeDegree() > 0 || math.Abs(r.GainFactor()) < 0.5
 }

@@ -1,6 +1,8 @@
 package report
 
 import (
+	"errors"
+	"fmt"
 	"strings"
 
 	"github.com/loopwise/loopwise/tf"
@@ -18,7 +20,13 @@ func discretize(l tf.TF, d *Discretize) (tf.TF, error) {
 	}
 	out, err := l.Discretize(d.SampleTimeSec, method, set)
 	if err != nil {
-		return tf.TF{}, badInput("key \"discretize\": the loop cannot be converted to z: %s", strings.TrimPrefix(err.Error(), "tf: "))
+		msg := short(err)
+		if errors.Is(err, tf.ErrNotFinite) || strings.Contains(msg, "NaN") || strings.Contains(msg, "Inf") {
+			// The details name intermediate values (a state matrix, a
+			// mapped root of +Inf); the cause is the sample time.
+			msg = fmt.Sprintf("the conversion overflows double precision: the sample time %s s is too long for the loop's poles (e^(pT) overflows); use a shorter sample time", g(Number(d.SampleTimeSec)))
+		}
+		return tf.TF{}, badInput("key \"discretize\": the loop cannot be converted to z: %s", msg)
 	}
 	return out, nil
 }

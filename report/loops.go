@@ -15,7 +15,7 @@ func (a *analysis) loops() {
 	if m.padeErr != nil {
 		a.warn("the dead time cannot be replaced for the closed-loop poles: %s", short(m.padeErr))
 	} else if m.delayIgnored {
-		a.warn("the dead time of %s s is negligible against the loop's fastest pole or zero (e^(−sτ) differs from 1 by less than 1e-8 there): the closed-loop poles, the locus and the step response leave it out; the margins keep it exactly", g(Number(m.open.DelaySec())))
+		a.warn("the dead time of %s s is negligible against the loop's fastest pole or zero (e^(−sτ) differs from 1 by less than 1e-8 there): every analysis leaves it out", g(Number(m.open.DelaySec())))
 	} else if m.open.DelaySec() > 0 && !m.open.IsDiscrete() {
 		a.warn("dead time approximated by a %s-order Padé approximation for the closed-loop poles and the step response (the approximation adds poles and right-half-plane zeros of its own; a small undershoot at the start of the step can come from them)", ordinal(padeOrder))
 	}

@@ -10,7 +10,7 @@ import (
 
 // marginsStage fills the margins of L at the nominal gain.
 func (a *analysis) marginsStage() {
-	res, err := margins.Compute(a.m.open, nil)
+	res, err := margins.Compute(a.m.analysed, nil)
 	if err != nil {
 		if errors.Is(err, margins.ErrBadSettings) && a.m.open.DelaySec() > 0 {
 			// The settings are the package's defaults; what is too large

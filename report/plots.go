@@ -74,11 +74,11 @@ func (a *analysis) plots() []Figure {
 	add("Frequency response", "frequency-response",
 		fmt.Sprintf("Magnitude and phase of the open loop L at k = %s, with the gain and phase crossovers and the margins.", g(Number(m.gain))),
 		func() (*chart.Figure, error) {
-			grid, err := margins.AutoGrid(m.open, nil)
+			grid, err := margins.AutoGrid(m.analysed, nil)
 			if err != nil {
 				return nil, err
 			}
-			resp, err := margins.FrequencyResponse(m.open, grid)
+			resp, err := margins.FrequencyResponse(m.analysed, grid)
 			if err != nil {
 				return nil, err
 			}
@@ -88,7 +88,7 @@ func (a *analysis) plots() []Figure {
 	add("Nyquist curve", "nyquist",
 		"The open loop L along the Nyquist contour, the critical point −1, the unit circle and the circle of radius 1/Ms around −1 that the curve touches at the peak sensitivity.",
 		func() (*chart.Figure, error) {
-			n, err := margins.NyquistCurve(m.open, nil)
+			n, err := margins.NyquistCurve(m.analysed, nil)
 			if err != nil {
 				return nil, err
 			}

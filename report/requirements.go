@@ -71,7 +71,7 @@ func (a *analysis) requirementsStage() {
 	if !a.m.unitySensor && a.refOut.Den().Degree() > 0 {
 		set.ReferenceToOutput = a.refOut
 	}
-	for _, res := range spec.CheckWith(a.m.open, req, set).Results {
+	for _, res := range spec.CheckWith(a.m.analysed, req, set).Results {
 		q := RequirementResult{
 			Name: res.Name, Limit: Number(res.Limit), Value: Number(res.Value), Unit: res.Requirement.Unit(), Pass: res.Pass, Message: res.Message,
 		}
