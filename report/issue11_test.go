@@ -439,3 +439,26 @@ func TestRootRadiusScales(t *testing.T) {
 		t.Errorf("ρ = %g at 1, %g at 1024 for the scaled polynomial; want a ratio of 1024", a, b)
 	}
 }
+
+// TestNegligibleDeadTime checks the treatment of a dead time far below the
+// loop's time scales. 1/(s+1)^30 with 1e-300 s: e^(−sτ) differs from 1 by
+// 3e-300 at the poles, so the loop is the rational one (before: the Padé
+// approximation failed, and the margins ran out of memory scanning up to
+// 4π/τ). 2(s+1)/(s+2) with the same dead time: |L(j∞)| = 2 > 1, so the
+// dead time makes the closed loop unstable however short it is (the
+// characteristic equation is of neutral type; its difference part
+// 1 + 2e^(−sτ) has roots with Re s = ln 2/τ > 0; hand derivation): the
+// dead time is not left out.
+func TestNegligibleDeadTime(t *testing.T) {
+	r := analyzeText(t, `{"plant": "1/(s+1)^30", "delay_sec": 1e-300}`)
+	if cl := r.ClosedLoop.Stable; cl == nil || !*cl {
+		t.Errorf("1/(s+1)^30 with 1e-300 s: closed loop stable = %v, want true (K = 1 < 1/cos(π/30)^30 ≈ 1.18, the critical gain of 1/(s+1)^n)", cl)
+	}
+	if !strings.Contains(joined(r.Warnings), "negligible") {
+		t.Errorf("no warning that the dead time is left out:\n%s", joined(r.Warnings))
+	}
+	r = analyzeText(t, `{"plant": "2*(s+1)/(s+2)", "delay_sec": 1e-300}`)
+	if cl := r.ClosedLoop.Stable; cl == nil || *cl {
+		t.Errorf("2(s+1)/(s+2)·e^(−1e-300 s): closed loop stable = %v, want false", cl)
+	}
+}
