@@ -18,7 +18,7 @@ func (failingWriter) Write([]byte) (int, error) { return 0, errors.New("no space
 // TestUnwritableOutputExitsOne checks issue 11, item 10: the README
 // promises exit status 1 when the output cannot be written.
 func TestUnwritableOutputExitsOne(t *testing.T) {
-	for _, args := range [][]string{{"-json", "-out", ""}, {"-out", ""}, {"-print-demo"}} {
+	for _, args := range [][]string{{"-json", "-out", ""}, {"-out", ""}, {"-print-demo"}, {"-h"}} {
 		var errb bytes.Buffer
 		if code := run(args, failingWriter{}, &errb); code != 1 || !strings.Contains(errb.String(), "cannot write") {
 			t.Errorf("%v to a failing writer: exit %d, stderr %q; want 1 and a message", args, code, errb.String())

@@ -12,6 +12,7 @@
 package main
 
 import (
+	"bytes"
 	_ "embed"
 	"errors"
 	"flag"
@@ -98,12 +99,13 @@ and interlocks in place.
 func run(args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet("loopreport", flag.ContinueOnError)
 	fs.SetOutput(stderr)
+	var help bytes.Buffer
 	for _, a := range args {
 		if a == "--" {
 			break
 		}
 		if a == "-h" || a == "-help" || a == "--h" || a == "--help" {
-			fs.SetOutput(stdout) // asked for: the documentation is the output
+			fs.SetOutput(&help) // asked for: the documentation is the output
 		}
 	}
 	loopPath := fs.String("loop", "", "read the loop from `FILE` (JSON, format below) instead of using the demonstration loop")
@@ -119,6 +121,10 @@ func run(args []string, stdout, stderr io.Writer) int {
 	}
 	if err := fs.Parse(args); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
+			if _, err := stdout.Write(help.Bytes()); err != nil {
+				fmt.Fprintf(stderr, "loopreport: cannot write the help text: %v\n", err)
+				return 1
+			}
 			return 0
 		}
 		return 2
