@@ -7,6 +7,7 @@ import (
 
 	"github.com/loopwise/loopwise/chart"
 	"github.com/loopwise/loopwise/locus"
+	"github.com/loopwise/loopwise/margins"
 	"github.com/loopwise/loopwise/tf"
 	"gonum.org/v1/plot/vg"
 )
@@ -149,4 +150,61 @@ func svgText(t *testing.T, f *chart.Figure) string {
 		t.Fatal(err)
 	}
 	return buf.String()
+}
+
+// TestMagnitudeStaysInPanel is the regression test of item 17's magnitude
+// clause: a loop rolling off 160 dB per decade (eight poles at 1 rad/s)
+// falls far below the 160 dB the magnitude panel shows; the frequency
+// axis must end where the curve reaches the panel's floor instead of the
+// curve leaving the panel before the axis ends.
+func TestMagnitudeStaysInPanel(t *testing.T) {
+	loop := tf.MustParse("1e4/(s+1)^8")
+	r := must(margins.FrequencyResponse(loop, nil))
+	m := must(margins.Compute(loop, nil))
+	f := must(chart.FrequencyResponse(r, &m, nil))
+	mag, ph := f.Panels[0], f.Panels[1]
+	if mag.X.Max != ph.X.Max || mag.X.Min != ph.X.Min {
+		t.Errorf("panels disagree on the frequency axis: [%g, %g] and [%g, %g]", mag.X.Min, mag.X.Max, ph.X.Min, ph.X.Max)
+	}
+	shown := 0
+	for i, w := range r.FrequencyRadPerSec {
+		if w < mag.X.Min || w > mag.X.Max {
+			continue
+		}
+		shown++
+		if v := r.MagnitudeDB[i]; v < mag.Y.Min || v > mag.Y.Max {
+			t.Fatalf("at %g rad/s the magnitude %g dB leaves the panel [%g, %g] before the axis ends at %g rad/s",
+				w, v, mag.Y.Min, mag.Y.Max, mag.X.Max)
+		}
+	}
+	if shown < len(r.FrequencyRadPerSec)/3 {
+		t.Errorf("only %d of %d samples shown", shown, len(r.FrequencyRadPerSec))
+	}
+}
+
+// TestOneStyle is the regression test of item 17's unit and title
+// clauses: every figure writes angles with ° (never "deg" or "degrees")
+// and has one title, centred across the top of the figure (Figure.Title),
+// with no panel title of its own unless it has several panels.
+func TestOneStyle(t *testing.T) {
+	for _, c := range allCases() {
+		t.Run(c.name, func(t *testing.T) {
+			f := c.build(t)
+			s := svgText(t, f)
+			for _, bad := range []string{"degrees", " deg ", "(deg)"} {
+				if strings.Contains(s, bad) {
+					t.Errorf("figure writes %q", bad)
+				}
+			}
+			if strings.HasPrefix(c.name, "frequency") && !strings.Contains(s, "phase (°)") {
+				t.Errorf("phase axis not labelled \"phase (°)\"")
+			}
+			if f.Title == "" {
+				t.Errorf("no figure title")
+			}
+			if len(f.Panels) == 1 && f.Panels[0].Title.Text != "" {
+				t.Errorf("panel title %q besides the figure title", f.Panels[0].Title.Text)
+			}
+		})
+	}
 }

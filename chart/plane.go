@@ -262,8 +262,7 @@ func (s *planeSpec) figureWithDetail(set *PlaneSettings) (*Figure, error) {
 	if err != nil {
 		return nil, err
 	}
-	f.Panels[0].Title.Text = "Whole view"
-	df.Panels[0].Title.Text = d.title
+	f.panelTitles = []string{"Whole view", d.title}
 	f.Panels[0].Add(&outline{W: win, Style: draw.LineStyle{Color: s.th.Axis, Width: vg.Points(0.7), Dashes: []vg.Length{vg.Points(2), vg.Points(2)}}})
 	f.Panels = append(f.Panels, df.Panels[0])
 	f.layers = append(f.layers, df.layers...)
