@@ -44,9 +44,10 @@ func (s *FrequencySettings) check() error {
 // same loop) it marks every gain crossover (on the 0 dB line, with the
 // phase margin drawn as a distance above the −180° line) and every phase
 // crossover (on the −180° line, with the gain margin drawn as a distance
-// below 0 dB), and writes the margins in words in a box on each panel:
-// gain margin and peak sensitivity above, phase and delay margin and the
-// closed-loop verdict below. With m nil it draws the curves alone.
+// below 0 dB), and writes the margins in words under the panels, in the
+// same two lines as under a Nyquist curve: gain margin and peak
+// sensitivity, then phase and delay margin and the closed-loop verdict.
+// With m nil it draws the curves alone.
 //
 // Frequencies that are not positive cannot go on the logarithmic axis and
 // give ErrFrequency; samples with an infinite magnitude (a pole on the
@@ -198,8 +199,6 @@ func FrequencyResponse(resp margins.Response, m *margins.Result, set *FrequencyS
 			phNotes = append(phNotes, note{X: wc, Y: (ref + phase) / 2, Text: "phase margin " + formatNumber(gc.PhaseMarginDeg, 3) + "°", Color: okBluishGreen})
 			plo, phi = math.Min(plo, ref), math.Max(phi, ref)
 		}
-		magKey = append(magKey, gainMarginWords(m)...)
-		phKey = append(phKey, phaseMarginWords(m)...)
 	}
 	// Odd multiples of 180° in view are the phase references.
 	if plo > -180 && plo < -180+60 {
@@ -256,6 +255,10 @@ func FrequencyResponse(resp margins.Response, m *margins.Result, set *FrequencyS
 	f := newFigure(mag, size, th)
 	f.Panels = append(f.Panels, ph)
 	f.Title = title
+	if m != nil {
+		// The margins in words under the panels, as under a Nyquist curve.
+		f.Notes = marginNotes(m)
+	}
 	return f, nil
 }
 

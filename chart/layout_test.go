@@ -208,3 +208,22 @@ func TestOneStyle(t *testing.T) {
 		})
 	}
 }
+
+// TestMarginWordsAlike is the regression test of item 17's margin clause:
+// the frequency response and the Nyquist curve of one loop write its
+// margins in the same words at the same place (the notes under the
+// panels), and mark the crossovers alike.
+func TestMarginWordsAlike(t *testing.T) {
+	loop := servoLoop()
+	m := must(margins.Compute(loop, nil))
+	bode := must(chart.FrequencyResponse(must(margins.FrequencyResponse(loop, nil)), &m, nil))
+	nyq := must(chart.Nyquist(must(margins.NyquistCurve(loop, nil)), &m, nil))
+	if len(bode.Notes) == 0 || strings.Join(bode.Notes, "\n") != strings.Join(nyq.Notes, "\n") {
+		t.Errorf("margins in words differ:\nfrequency response %q\nNyquist curve      %q", bode.Notes, nyq.Notes)
+	}
+	for _, w := range []string{"gain margin", "phase margin"} {
+		if !strings.Contains(svgText(t, bode), w) || !strings.Contains(svgText(t, nyq), w) {
+			t.Errorf("%q is not marked in both figures", w)
+		}
+	}
+}
