@@ -2,6 +2,8 @@ package chart_test
 
 import (
 	"bytes"
+	"errors"
+	"math"
 	"strings"
 	"testing"
 
@@ -225,5 +227,25 @@ func TestMarginWordsAlike(t *testing.T) {
 		if !strings.Contains(svgText(t, bode), w) || !strings.Contains(svgText(t, nyq), w) {
 			t.Errorf("%q is not marked in both figures", w)
 		}
+	}
+}
+
+// TestAlsoMarks checks LocusSettings.Also, which lets a design compare
+// candidates with the same mark (dots: closed-loop poles at a value)
+// instead of borrowing a mark that means something else (the squares of
+// the boundary crossings, as the parameter-sweep example did): each value
+// is named in the key, and a NaN value is refused.
+func TestAlsoMarks(t *testing.T) {
+	l := traceLocus(t, servoLoop(), nil)
+	f := must(chart.RootLocus(l, &chart.LocusSettings{Mark: &chart.LocusMark{Value: 2}, Also: []chart.LocusMark{{Value: 10}}}))
+	s := svgText(t, f)
+	for _, w := range []string{"closed-loop poles at gain = 2", "closed-loop poles at gain = 10"} {
+		if !strings.Contains(s, w) {
+			t.Errorf("key lacks %q", w)
+		}
+	}
+	_, err := chart.RootLocus(l, &chart.LocusSettings{Also: []chart.LocusMark{{Value: math.NaN()}}})
+	if !errors.Is(err, chart.ErrNotFinite) || !strings.Contains(err.Error(), "Also[0]") {
+		t.Errorf("NaN in Also: %v, want ErrNotFinite naming Also[0]", err)
 	}
 }
