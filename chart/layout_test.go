@@ -25,12 +25,13 @@ func crowdedDigitalLoop(t *testing.T) tf.TF {
 	return must(c.Series(g))
 }
 
-// layoutCases are the complex-plane figures whose layout is checked: every
-// plane case of the figure tests and the crowded digital locus.
+// layoutCases are the figures with a key whose layout is checked: every
+// locus, pole–zero, Nyquist and step case of the figure tests and the
+// crowded digital locus.
 func layoutCases() []figureCase {
 	var out []figureCase
 	for _, c := range allCases() {
-		if strings.HasPrefix(c.name, "locus") || strings.HasPrefix(c.name, "polezero") {
+		if !strings.HasPrefix(c.name, "frequency") {
 			out = append(out, c)
 		}
 	}
@@ -59,7 +60,8 @@ func contains(r vg.Rectangle, p vg.Point) bool {
 }
 
 // TestKeyCoversNothing is the regression test of issue 11 item 16: the box
-// that explains the symbols of a root locus or pole–zero map covers no
+// that explains the symbols of a root locus, pole–zero map, Nyquist curve
+// or step response covers no
 // drawn point (of a branch, a guide curve or a mark) and no label, and it
 // lies outside every data area.
 func TestKeyCoversNothing(t *testing.T) {

@@ -286,12 +286,9 @@ func StepResponse(r response.Response, m *response.Metrics, set *StepSettings) (
 			key = append(key[:1], append([]keyEntry{{Text: "output between the samples", Line: &draw.LineStyle{Color: okBlue, Width: th.LineWidth * 0.7}}}, key[1:]...)...)
 		}
 	}
-	if len(key) > 0 {
-		layer.Boxes = append(layer.Boxes, &cornerBox{Entries: key, Style: noteStyle,
-			Border: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.4)}, Avoid: avoid})
-	}
 	layer.Notes = append(layer.Notes, &annotations{Notes: notes, Style: noteStyle,
 		Leader: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.5)}, Avoid: avoid})
+	layer.Avoid = avoid
 	p.Add(layer)
 
 	pad := 0.08 * (ymax - ymin)
@@ -300,7 +297,14 @@ func StepResponse(r response.Response, m *response.Metrics, set *StepSettings) (
 	}
 	p.X.Min, p.X.Max = 0, xmax
 	p.Y.Min, p.Y.Max = ymin-pad, ymax+pad
-	return newFigure(p, size, th), nil
+	f := newFigure(p, size, th)
+	f.layers = append(f.layers, layer)
+	if len(key) > 0 {
+		// Outside the data, right of the panel, as in every figure.
+		f.setSideKey(&cornerBox{Entries: key, Style: noteStyle,
+			Border: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.4)}}, size.WidthCm == 0)
+	}
+	return f, nil
 }
 
 // maxStems is the largest number of samples in view drawn with stems;
