@@ -1,4 +1,4 @@
-package main
+package report
 
 import (
 	"strings"
@@ -7,7 +7,7 @@ import (
 )
 
 // discretize converts the continuous loop l as the "discretize" key asks.
-func discretize(l tf.TF, d *discretizeSpec) (tf.TF, error) {
+func discretize(l tf.TF, d *Discretize) (tf.TF, error) {
 	method, err := tf.ParseDiscretizeMethod(d.Method)
 	if err != nil {
 		return tf.TF{}, badInput("key \"discretize.method\": %v", strings.TrimPrefix(err.Error(), "tf: "))
