@@ -176,8 +176,7 @@ func (s *planeSpec) crowdWindow(xmin, xmax, ymin, ymax float64) (w Window, ok bo
 	for i := range parent {
 		parent[i] = i
 	}
-	var root func(int) int
-	root = func(i int) int {
+	root := func(i int) int {
 		for parent[i] != i {
 			parent[i] = parent[parent[i]]
 			i = parent[i]
