@@ -10,6 +10,7 @@ import (
 	"github.com/loopwise/loopwise/chart"
 	"github.com/loopwise/loopwise/locus"
 	"github.com/loopwise/loopwise/margins"
+	"github.com/loopwise/loopwise/response"
 	"github.com/loopwise/loopwise/tf"
 	"gonum.org/v1/plot/vg"
 )
@@ -249,5 +250,49 @@ func TestAlsoMarks(t *testing.T) {
 	_, err := chart.RootLocus(l, &chart.LocusSettings{Also: []chart.LocusMark{{Value: math.NaN()}}})
 	if !errors.Is(err, chart.ErrNotFinite) || !strings.Contains(err.Error(), "Also[0]") {
 		t.Errorf("NaN in Also: %v, want ErrNotFinite naming Also[0]", err)
+	}
+}
+
+// TestSampledResponseDrawnAsSamples is the regression test of item 18: a
+// sampled response is drawn as samples (named in the key with their
+// period), not as a held staircase, and StepSettings.Between draws the
+// continuous plant's output through them. The scenario: the plant
+// 1/(s(s+1)) under a zero-order hold with T = 0.2 s and unit feedback;
+// the output between samples is the plant driven by the held error.
+func TestSampledResponseDrawnAsSamples(t *testing.T) {
+	const T, sub = 0.2, 10
+	plant := tf.MustParse("1/(s(s+1))")
+	gd := must(plant.Discretize(T, tf.ZeroOrderHold, nil))
+	closed := must(gd.ClosedLoop())
+	one := must(tf.NewDiscrete([]float64{1}, []float64{1}, T))
+	er := must(must(one.Parallel(gd)).Inverse()) // E/R = 1/(1 + G(z))
+	y := must(response.Step(closed, &response.Settings{HorizonSec: 8}))
+	e := must(response.Step(er, &response.Settings{HorizonSec: 8}))
+	var ts, us []float64
+	for k := 0; k+1 < len(e.Output); k++ {
+		for j := 0; j < sub; j++ {
+			ts = append(ts, (float64(k)+float64(j)/sub)*T)
+			us = append(us, e.Output[k])
+		}
+	}
+	b := must(response.Simulate(plant, ts, us, nil))
+	// At the sample instants the two agree: the hold equivalent is exact
+	// (1e-12: a few hundred roundings of order-2 recursions).
+	for j := 0; j < len(ts); j += sub {
+		if d := math.Abs(b.Output[j] - y.Output[j/sub]); d > 1e-12 {
+			t.Fatalf("at t = %g the plant output %g differs from the sample %g", ts[j], b.Output[j], y.Output[j/sub])
+		}
+	}
+	m := must(response.StepMetrics(closed, nil))
+	plain := svgText(t, must(chart.StepResponse(y, &m, nil)))
+	if !strings.Contains(plain, "samples, every 0.2 s") {
+		t.Errorf("the key does not name the samples")
+	}
+	with := svgText(t, must(chart.StepResponse(y, &m, &chart.StepSettings{Between: &b})))
+	if !strings.Contains(with, "output between the samples") {
+		t.Errorf("the key does not name the output between the samples")
+	}
+	if _, err := chart.StepResponse(y, &m, &chart.StepSettings{Between: &y}); !errors.Is(err, chart.ErrSettings) {
+		t.Errorf("a sampled Between: %v, want ErrSettings", err)
 	}
 }
