@@ -111,7 +111,7 @@ func Analyze(l *Loop, set *Settings) (*Report, error) {
 	a.header()
 	for _, s := range pipeline {
 		a.stage(s.stage)
-		s.run(a)
+		a.runSection(s)
 	}
 	if set.Plots {
 		a.stage("plots")
@@ -143,4 +143,16 @@ func (a *analysis) header() {
 	if p := lf.Parameter; p != nil && (p.Value < p.Range[0] || p.Value > p.Range[1]) {
 		a.warn("the parameter value %s = %s lies outside its range %s", p.Name, g(Number(p.Value)), intervalText(Interval{Number(p.Range[0]), Number(p.Range[1])}))
 	}
+}
+
+// runSection runs one section. A panic in the packages below is a defect
+// there, but it must not take the other sections down with it: it becomes
+// a warning that names the section, so that the report is still written.
+func (a *analysis) runSection(s section) {
+	defer func() {
+		if p := recover(); p != nil {
+			a.warn("%s: internal error (%v); the results of this section may be incomplete; please report this loop to the loopwise maintainers", s.stage, p)
+		}
+	}()
+	s.run(a)
 }

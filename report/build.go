@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"math/cmplx"
 	"strings"
 	"unicode/utf8"
 
@@ -35,6 +36,9 @@ type loopModel struct {
 	loopAt func(p float64) (tf.TF, error)
 	// discrete describes the conversion to z; nil without "discretize".
 	discrete *DiscreteLoopResult
+	// delayIgnored reports that the dead time is negligible for the
+	// closed-loop poles and the step response (negligibleDelay).
+	delayIgnored bool
 	// rational is open with dead time replaced: by its Padé approximation
 	// in s, by exact poles at z = 0 in z; open itself when padeErr is set.
 	rational tf.TF
@@ -199,7 +203,11 @@ func build(lf *Loop) (*loopModel, error) {
 	if lf.Parameter != nil {
 		// The parameter must change the loop, or its locus is empty.
 		l0, err0 := m.loopAt(lf.Parameter.Value)
-		l1, err1 := m.loopAt(lf.Parameter.Value + 1)
+		other := lf.Parameter.Value + 1
+		if other == lf.Parameter.Value { // |value| ≥ 2⁵³: +1 is lost
+			other = lf.Parameter.Value / 2
+		}
+		l1, err1 := m.loopAt(other)
 		if err0 == nil && err1 == nil && l0.EqualApprox(l1, 0) {
 			return nil, badInput("key \"parameter\"%s: the parameter %q does not appear in the controller, the plant or the sensor, so there is no locus in it", lf.where("parameter"), lf.Parameter.Name)
 		}
@@ -237,7 +245,13 @@ func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 // whose verdict double precision cannot give.
 func (m *loopModel) judge() error {
 	m.rational = m.open
-	if m.open.DelaySec() > 0 {
+	if tau := m.open.DelaySec(); tau > 0 && !m.open.IsDiscrete() && negligibleDelay(m.open) {
+		// e^(−sτ) = 1 − sτ + … differs from 1 by less than 1e-8 up to
+		// the fastest pole or zero, while its Padé approximation would
+		// put poles at about 1/τ that the root finder cannot reach.
+		m.rational = m.open.WithoutDelay()
+		m.delayIgnored = true
+	} else if tau > 0 {
 		if r, err := m.open.Pade(padeOrder); err != nil {
 			m.padeErr = err
 		} else {
@@ -290,4 +304,22 @@ func (lf *Loop) checkDelaySamples(delaySec float64) error {
 			lf.where("delay_sec"), g(Number(delaySec)), periods, key, g(Number(T)), maxDelaySamples)
 	}
 	return nil
+}
+
+// negligibleDelay reports whether the dead time τ of the continuous loop l
+// changes e^(−sτ) by less than 1e-8 at the loop's fastest pole or zero
+// (|sτ| < 1e-8): the rational loop without it is then exact to that
+// level where the loop's dynamics are.
+func negligibleDelay(l tf.TF) bool {
+	r := l.WithoutDelay()
+	p, err1 := r.Poles()
+	z, err2 := r.Zeros()
+	if err1 != nil || err2 != nil {
+		return false
+	}
+	fastest := 0.0
+	for _, x := range append(p, z...) {
+		fastest = math.Max(fastest, cmplx.Abs(x))
+	}
+	return fastest > 0 && l.DelaySec()*fastest < 1e-8
 }

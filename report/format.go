@@ -121,7 +121,13 @@ func intervalText(iv Interval) string {
 	return "(" + lo + ", " + hi + ")"
 }
 
-func intervalList(ivs []Interval) string {
+// intervalList formats open intervals (lo, hi) joined by "∪".
+func intervalList(ivs []Interval) string { return listIntervals(ivs, false) }
+
+// listIntervals formats a list of intervals, open (lo, hi) joined by "∪"
+// or closed [lo, hi] joined by commas; nil is "not computed", empty
+// "none".
+func listIntervals(ivs []Interval, closed bool) string {
 	if ivs == nil {
 		return notComputed
 	}
@@ -131,6 +137,12 @@ func intervalList(ivs []Interval) string {
 	parts := make([]string, len(ivs))
 	for i, iv := range ivs {
 		parts[i] = intervalText(iv)
+		if closed {
+			parts[i] = "[" + parts[i][1:len(parts[i])-1] + "]"
+		}
+	}
+	if closed {
+		return strings.Join(parts, ", ")
 	}
 	return strings.Join(parts, " ∪ ")
 }

@@ -4,7 +4,9 @@ import (
 	"bytes"
 	"encoding/json"
 	"errors"
+	"fmt"
 	"math"
+	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"regexp"
@@ -167,7 +169,7 @@ func TestBoundaryPoleIsUnstable(t *testing.T) {
 	if mg := r.Margins.ClosedLoopStable; mg != nil && *mg {
 		t.Errorf("margins.closed_loop_stable = true for poles ±j")
 	}
-	if !strings.Contains(joined(r.Warnings), "imaginary axis to within rounding") {
+	if !strings.Contains(joined(r.Warnings), "on the imaginary axis to within the rounding") {
 		t.Errorf("warnings do not name the boundary poles:\n%s", joined(r.Warnings))
 	}
 }
@@ -332,5 +334,108 @@ func TestHTMLNumberFormat(t *testing.T) {
 	}
 	if n, kv := strings.Count(body, "<table"), strings.Count(body, `<table class="kv">`); kv != n-1 {
 		t.Errorf("%d of %d tables share the two-column layout, want all but the requirements", kv, n)
+	}
+}
+
+// TestSectionPanicBecomesWarning checks that a defect that panics inside
+// one section leaves a warning and the other sections' results.
+func TestSectionPanicBecomesWarning(t *testing.T) {
+	lf, err := ReadLoop("p.json", []byte(`{"plant": "1/(s+1)"}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	m, err := build(lf)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a := &analysis{m: m, rep: emptyReport()}
+	a.runSection(section{stage: "broken", run: func(*analysis) { panic("boom") }})
+	a.runSection(loopsSection)
+	if !strings.Contains(joined(a.rep.Warnings), "broken: internal error (boom)") {
+		t.Errorf("warnings %q", a.rep.Warnings)
+	}
+	if a.rep.ClosedLoop.Stable == nil || !*a.rep.ClosedLoop.Stable {
+		t.Errorf("the next section did not run")
+	}
+}
+
+// TestVerdictAgreesWithLocus checks, on seeded random loops, that the one
+// verdict agrees with the stable intervals of the gain locus (computed by
+// package locus from the exact characteristic polynomial in k) and with the
+// margins section, and that the step section is not filled for an
+// unstable loop; half of the loops are sampled (zero-order hold, T from
+// 1 ms to 0.1 s). Nominal gains within 1e-6 (relative) of an interval end
+// are skipped: there the two may differ by rounding.
+func TestVerdictAgreesWithLocus(t *testing.T) {
+	rng := rand.New(rand.NewPCG(11, 21))
+	checked := 0
+	for range 120 {
+		np := 2 + rng.IntN(4)
+		den := "1"
+		for range np {
+			den += fmt.Sprintf("*(s+%.3f)", rng.Float64()*10-1)
+		}
+		num := "1"
+		if rng.IntN(2) == 0 {
+			num = fmt.Sprintf("(s+%.3f)", rng.Float64()*5)
+		}
+		k := math.Pow(10, rng.Float64()*4-2)
+		content := fmt.Sprintf(`{"plant": "%s/(%s)", "gain": %g}`, num, den, k)
+		if rng.IntN(2) == 0 {
+			// Sampled by a zero-order hold: the verdict is then on |z| < 1.
+			content = fmt.Sprintf(`{"plant": "%s/(%s)", "gain": %g, "discretize": {"method": "zoh", "sample_time_sec": %.3g}}`, num, den, k, math.Pow(10, rng.Float64()*2-3))
+		}
+		lf, err := ReadLoop("r.json", []byte(content))
+		if err != nil {
+			t.Fatal(err)
+		}
+		r, err := Analyze(lf, nil)
+		if err != nil {
+			t.Fatalf("%s: %v", content, err)
+		}
+		v := r.ClosedLoop.Stable
+		if v == nil || r.Locus.StableIntervals == nil {
+			continue
+		}
+		inside, near := false, false
+		for _, iv := range r.Locus.StableIntervals {
+			lo, hi := float64(iv[0]), float64(iv[1])
+			inside = inside || (k > lo && k < hi)
+			near = near || math.Abs(k-lo) <= 1e-6*k || math.Abs(k-hi) <= 1e-6*k
+		}
+		if near {
+			continue
+		}
+		checked++
+		if inside != *v {
+			t.Errorf("%s: verdict stable = %v, locus stable intervals %v", content, *v, r.Locus.StableIntervals)
+		}
+		if mg := r.Margins.ClosedLoopStable; mg != nil && *mg != *v {
+			t.Errorf("%s: margins say %v, closed loop %v", content, *mg, *v)
+		}
+		if stepDone := !math.IsNaN(float64(r.Step.FinalValue)); stepDone && !*v {
+			t.Errorf("%s: step metrics for an unstable loop", content)
+		}
+	}
+	t.Logf("%d of 120 loops checked", checked)
+	if checked < 100 {
+		t.Errorf("only %d of 120 loops checked", checked)
+	}
+}
+
+// TestRootRadiusScales checks that the radius is computed without
+// overflow for roots near 1e154 of a polynomial with a coefficient of
+// 1e308 (s² + s + 1e308: roots −0.5 ± 1e154j), and that it scales with the
+// root: ρ of p(x/σ) at σr is σ·ρ of p at r for σ a power of two.
+func TestRootRadiusScales(t *testing.T) {
+	p := mustPoly(t, 1, 1, 1e308)
+	r := complex(-0.5, 1e154)
+	if rho := rootRadius(p, r); math.IsInf(rho, 0) || math.IsNaN(rho) || rho <= 0 {
+		t.Errorf("ρ = %g for a root near 1e154", rho)
+	}
+	q := mustPoly(t, 1, -3, 2) // roots 1 and 2
+	qs := mustPoly(t, 1, -3*1024, 2*1024*1024)
+	if a, b := rootRadius(q, 1), rootRadius(qs, 1024); math.Abs(b/(1024*a)-1) > 1e-12 {
+		t.Errorf("ρ = %g at 1, %g at 1024 for the scaled polynomial; want a ratio of 1024", a, b)
 	}
 }

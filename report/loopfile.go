@@ -477,6 +477,9 @@ func (lf *Loop) validate() error {
 		if d.PrewarpRadPerSec < 0 {
 			return badInput("key \"discretize.prewarp_rad_per_sec\"%s: the prewarp frequency must be positive, got %g", lf.where("discretize.prewarp_rad_per_sec"), d.PrewarpRadPerSec)
 		}
+		if w := d.PrewarpRadPerSec; w > 0 && w*d.SampleTimeSec < 0x1p-1022 {
+			return badInput("key \"discretize.prewarp_rad_per_sec\"%s: the prewarp frequency %s rad/s is too small to compute with at the sample time %s s; leave the key out for the plain Tustin conversion (it is the limit of a small prewarp frequency)", lf.where("discretize.prewarp_rad_per_sec"), g(Number(w)), g(Number(d.SampleTimeSec)))
+		}
 		if w, nyq := d.PrewarpRadPerSec, math.Pi/d.SampleTimeSec; w > 0 && w >= nyq*(1-0x1p-26) {
 			// tf.Discretize refuses it too; say it in the file's words.
 			return badInput("key \"discretize.prewarp_rad_per_sec\"%s: the prewarp frequency %s rad/s must lie below π/T = %s rad/s (half the sampling frequency of \"sample_time_sec\" %s s) by more than a relative 1.5e-8: there the Tustin conversion degenerates", lf.where("discretize.prewarp_rad_per_sec"), g(Number(w)), g(Number(nyq)), g(Number(d.SampleTimeSec)))

@@ -14,6 +14,8 @@ func (a *analysis) loops() {
 	a.rational = m.rational
 	if m.padeErr != nil {
 		a.warn("the dead time cannot be replaced for the closed-loop poles: %s", short(m.padeErr))
+	} else if m.delayIgnored {
+		a.warn("the dead time of %s s is negligible against the loop's fastest pole or zero (e^(−sτ) differs from 1 by less than 1e-8 there): the closed-loop poles, the locus and the step response leave it out; the margins keep it exactly", g(Number(m.open.DelaySec())))
 	} else if m.open.DelaySec() > 0 && !m.open.IsDiscrete() {
 		a.warn("dead time approximated by a %s-order Padé approximation for the closed-loop poles and the step response (the approximation adds poles and right-half-plane zeros of its own; a small undershoot at the start of the step can come from them)", ordinal(padeOrder))
 	}
@@ -88,7 +90,11 @@ func (a *analysis) verdictWarnings() {
 		if discrete {
 			where = "on the unit circle"
 		}
-		a.warn("the closed loop has %d pole(s) %s to within rounding (e.g. %s): it is not asymptotically stable, and the report counts it as unstable", len(v.boundary), where, cplx(newComplex(v.boundary[0]), false))
+		what := "a pole"
+		if n := len(v.boundary); n > 1 {
+			what = fmt.Sprintf("%d poles", n)
+		}
+		a.warn("the closed loop has %s %s to within the rounding of its coefficients (e.g. %s): it is not asymptotically stable (an undamped oscillation or an integration, or damping too small to tell from none), and the report counts it as unstable", what, where, cplx(newComplex(v.boundary[0]), false))
 	}
 	if len(v.undecided) > 0 {
 		verdict := "the stability of the closed loop is not determined"
@@ -103,11 +109,14 @@ func (a *analysis) verdictWarnings() {
 // replaced, for loops whose sensor is not 1.
 func (a *analysis) feedbackWithSensor() (tf.TF, error) {
 	m := a.m
-	fwd, err := m.forward.Pade(padeOrder)
+	fwd, h := m.forward, m.sensor
+	if m.delayIgnored {
+		fwd, h = fwd.WithoutDelay(), h.WithoutDelay()
+	}
+	fwd, err := fwd.Pade(padeOrder)
 	if err != nil {
 		return tf.TF{}, err
 	}
-	h := m.sensor
 	if d := m.file.Discretize; d != nil {
 		if h, err = discretize(h, d); err != nil {
 			return tf.TF{}, err

@@ -28,6 +28,11 @@ func render(fig *chart.Figure, file, title, caption string) (Figure, error) {
 func (a *analysis) plots() []Figure {
 	var figs []Figure
 	add := func(title, file, caption string, draw func() (*chart.Figure, error)) {
+		defer func() {
+			if p := recover(); p != nil {
+				a.warn("plot %q not drawn: internal error (%v); please report this loop to the loopwise maintainers", title, p)
+			}
+		}()
 		fig, err := draw()
 		if err == nil {
 			var f Figure

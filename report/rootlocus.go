@@ -5,19 +5,29 @@ import (
 	"strings"
 
 	"github.com/loopwise/loopwise/locus"
+	"github.com/loopwise/loopwise/tf"
 )
 
 // rootLocus fills the locus section: in the gain k, or in the parameter.
 func (a *analysis) rootLocus() {
 	m, lf, rep := a.m, a.m.file, a.rep
 	set := &locus.Settings{PadeOrder: padeOrder}
-	loop := m.base
+	loop, loopAt := m.base, m.loopAt
+	if m.delayIgnored {
+		// The dead time is negligible (negligibleDelay): left out here as
+		// for the closed-loop poles.
+		loop = m.base.WithoutDelay()
+		loopAt = func(p float64) (tf.TF, error) {
+			l, err := m.loopAt(p)
+			return l.WithoutDelay(), err
+		}
+	}
 	if p := lf.Parameter; p != nil {
 		// The variable and its range are the loop file's, known even when
 		// the locus cannot be formed.
 		rep.Locus.Variable = p.Name
 		rep.Locus.Range = Interval{Number(p.Range[0]), Number(p.Range[1])}
-		par, err := locus.FromParameter(p.Name, m.loopAt)
+		par, err := locus.FromParameter(p.Name, loopAt)
 		if err != nil {
 			a.warn("the locus in the parameter %s cannot be formed: %s; the locus keys are null", p.Name, short(err))
 			return

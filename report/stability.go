@@ -28,9 +28,15 @@ import (
 //	ρ(r) = min over k ≥ 1 of (η·S(r)/|cₖ|)^(1/k),
 //
 // the smallest displacement h at which some term cₖhᵏ of P(r + h) can be
-// cancelled by the perturbation. η is 8·(n+1) units of rounding (the size
-// used by poly.VanishesAt for coefficients formed by expanding products),
-// or the root's own backward error |P(r)|/S(r) when that is larger.
+// cancelled by the perturbation. η is 8·(n+1) units of rounding u = 2⁻⁵³,
+// or the root's own backward error |P(r)|/S(r) when that is larger: the
+// tolerance poly.VanishesAt uses to decide that a polynomial has a root at
+// a point (tf.StaticGain, package response), so that the verdict never
+// calls a loop stable whose closed loop the rest of the library treats as
+// having a pole on the boundary. Where the coefficients have lost the loop
+// (a 100 s and a 30 s lag under PI control converted by Tustin at 0.1 ms:
+// P(1) rounds to exactly 0 although the true value is about 1e-18), ρ is
+// far larger than the distance and the verdict is refused.
 //
 // A root with |d| ≤ ρ sits on the boundary as far as the arithmetic can
 // tell. When ρ is itself at the level of rounding (below boundaryRelTol of
@@ -80,38 +86,60 @@ func (v verdict) ptr() *bool {
 }
 
 // rootRadius returns ρ(r) for the root r of p (see the comment at the top
-// of the file).
+// of the file). The polynomial is first rescaled exactly, by powers of two,
+// to q(x) = p(2ᵏx)/2ᴱ with the root near modulus 1 and the largest
+// coefficient near 1, so that no sum overflows (a root at 1e154 of a
+// polynomial with coefficients up to 1e308); ρ scales back by 2ᵏ.
 func rootRadius(p poly.Poly, r complex128) float64 {
 	n := p.Degree()
+	if n < 1 {
+		return 0
+	}
+	k := 0
+	if ar := cmplx.Abs(r); ar > 0 && !math.IsInf(ar, 0) {
+		k = math.Ilogb(ar)
+	}
 	a := p.Ascending()
-	ar := cmplx.Abs(r)
+	// E: the largest binary exponent of aᵢ·2^(i·k).
+	e := math.MinInt
+	for i, c := range a {
+		if c != 0 {
+			e = max(e, math.Ilogb(c)+i*k)
+		}
+	}
+	q := make([]float64, n+1)
+	for i, c := range a {
+		q[i] = math.Ldexp(c, i*k-e)
+	}
+	x := r / complex(math.Ldexp(1, k), 0)
+	ax := cmplx.Abs(x)
 	s := 0.0
 	for i := n; i >= 0; i-- {
-		s = s*ar + math.Abs(a[i])
+		s = s*ax + math.Abs(q[i])
 	}
 	if s == 0 {
 		return 0
 	}
 	eta := 8 * float64(n+1) * 0x1p-53
-	// Taylor coefficients at r by repeated synthetic division (Horner's
-	// shift): afterwards taylor[k] = P⁽ᵏ⁾(r)/k!.
+	// Taylor coefficients at x by repeated synthetic division (Horner's
+	// shift): afterwards taylor[j] = q⁽ʲ⁾(x)/j!.
 	taylor := make([]complex128, n+1)
-	for i := range a {
-		taylor[i] = complex(a[i], 0)
+	for i := range q {
+		taylor[i] = complex(q[i], 0)
 	}
-	for k := 0; k < n; k++ {
-		for i := n - 1; i >= k; i-- {
-			taylor[i] += r * taylor[i+1]
+	for j := 0; j < n; j++ {
+		for i := n - 1; i >= j; i-- {
+			taylor[i] += x * taylor[i+1]
 		}
 	}
 	eta = math.Max(eta, cmplx.Abs(taylor[0])/s)
 	rho := math.Inf(1)
-	for k := 1; k <= n; k++ {
-		if ck := cmplx.Abs(taylor[k]); ck > 0 {
-			rho = math.Min(rho, math.Pow(eta*s/ck, 1/float64(k)))
+	for j := 1; j <= n; j++ {
+		if cj := cmplx.Abs(taylor[j]); cj > 0 {
+			rho = math.Min(rho, math.Pow(eta*s/cj, 1/float64(j)))
 		}
 	}
-	return rho
+	return math.Ldexp(rho, k)
 }
 
 // judgePoles makes the verdict from the roots of the characteristic

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"math/cmplx"
 
 	"github.com/loopwise/loopwise/response"
 )
@@ -16,6 +17,10 @@ func (a *analysis) stepStage() {
 	}
 	if reason := a.unsettled(); reason != "" {
 		a.warn("step response: %s, so the step response has no metrics; the step keys are null", reason)
+		return
+	}
+	if why := a.tooSlowToSimulate(); why != "" {
+		a.warn("step response: %s; the step keys are null", why)
 		return
 	}
 	mt, err := response.StepMetrics(a.refOut, nil)
@@ -100,4 +105,32 @@ type StepResult struct {
 	PeakTimeSec Number `json:"peak_time_sec"`
 	// FinalValue is the level the response settles to.
 	FinalValue Number `json:"final_value"`
+}
+
+// tooSlowToSimulate says why the step response of a stable closed loop
+// cannot be simulated in double precision: its slowest closed-loop pole
+// decays at a rate σ so small that the time to settle, about 10/σ (the
+// horizon package response uses), is not a finite double. It returns ""
+// when the response can be simulated.
+func (a *analysis) tooSlowToSimulate() string {
+	slowest := math.Inf(1)
+	T := a.m.open.SampleTimeSec()
+	for _, p := range a.m.closedPoles {
+		sigma := -real(p)
+		if T > 0 {
+			if p == 0 {
+				continue // gone after one sample
+			}
+			sigma = -math.Log(cmplx.Abs(p)) / T
+		}
+		slowest = math.Min(slowest, sigma)
+	}
+	if horizon := 10 / slowest; slowest > 0 && (math.IsInf(horizon, 0) || horizon > 1e300) {
+		span := "about " + g(Number(horizon)) + " s"
+		if math.IsInf(horizon, 0) {
+			span = "more than 1e308 s"
+		}
+		return fmt.Sprintf("the slowest closed-loop pole decays at %s 1/s, so the response would need %s to settle, beyond what double precision can simulate", g(Number(slowest)), span)
+	}
+	return ""
 }

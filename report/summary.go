@@ -80,20 +80,7 @@ func atFrequency(w Number) string {
 func isInf(x Number) bool { return float64(x) > 1e308 }
 
 // intervalListClosed formats real-axis segments [lo, hi].
-func intervalListClosed(ivs []Interval) string {
-	if ivs == nil {
-		return notComputed
-	}
-	if len(ivs) == 0 {
-		return "none"
-	}
-	parts := make([]string, len(ivs))
-	for i, iv := range ivs {
-		t := intervalText(iv)
-		parts[i] = "[" + t[1:len(t)-1] + "]"
-	}
-	return strings.Join(parts, ", ")
-}
+func intervalListClosed(ivs []Interval) string { return listIntervals(ivs, true) }
 
 func variableWords(v string) string {
 	if v == "gain" {

@@ -113,7 +113,7 @@ func (r *Report) Markdown() []byte {
 			if !q.Pass {
 				v = "**fail**"
 			}
-			fmt.Fprintf(&b, "| %s | %s | %s | %s |\n", mdEscape(q.Name), withUnit(g(q.Limit), q.Unit), withUnit(g(q.Value), q.Unit), v)
+			fmt.Fprintf(&b, "| %s | %s | %s | %s |\n", mdEscape(typeset(q.Name)), withUnit(g(q.Limit), q.Unit), withUnit(g(q.Value), q.Unit), v)
 		}
 		b.WriteString("\n")
 		for _, q := range r.Requirements {
@@ -215,7 +215,7 @@ nav a { margin-right: 1rem; }
 <h2 id="requirements">Requirements{{if .Total}}: {{.Pass}} of {{.Total}} met{{end}}</h2>
 {{if .Requirements}}<table>
 <tr><th>requirement</th><th>limit</th><th>measured</th><th>verdict</th><th>in words</th></tr>
-{{range .Requirements}}<tr><td>{{.Name}}</td><td class="num">{{unit (g .Limit) .Unit}}</td><td class="num">{{unit (g .Value) .Unit}}</td><td>{{if .Pass}}<span class="pass">pass</span>{{else}}<span class="fail">fail</span>{{end}}</td><td>{{typeset .Message}}</td></tr>
+{{range .Requirements}}<tr><td>{{typeset .Name}}</td><td class="num">{{unit (g .Limit) .Unit}}</td><td class="num">{{unit (g .Value) .Unit}}</td><td>{{if .Pass}}<span class="pass">pass</span>{{else}}<span class="fail">fail</span>{{end}}</td><td>{{typeset .Message}}</td></tr>
 {{end}}</table>{{else}}<p>The loop file states no requirements.</p>{{end}}
 <div id="results">
 {{range .Sections}}<h2>{{.Title}}</h2>

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"encoding/json"
 	"errors"
 	"os"
 	"path/filepath"
@@ -99,6 +100,44 @@ func TestLimitsAreValidated(t *testing.T) {
 		code, _, errs := runLoop(t, test.loop, "-json")
 		if code != 2 || !strings.Contains(errs, test.key) {
 			t.Errorf("%s: exit %d, stderr %q; want 2 naming %s", test.loop, code, errs, test.key)
+		}
+	}
+}
+
+// TestHostileLoopsSpeakPlainly runs loops at the edges of double precision
+// and checks that none panics, none leaks the internal words of the
+// packages below (+Inf, NaN, settings names, package prefixes), and that
+// the sections agree on stability.
+func TestHostileLoopsSpeakPlainly(t *testing.T) {
+	for _, loop := range []string{
+		`{"plant":"1/(1e308s+1)"}`,                                                          // before: "sample period +Inf s"
+		`{"plant":"1/(s*(s+1))","delay_sec":1e-300}`,                                        // before: Padé roots not converged
+		`{"plant":"1/(s*(s+1))","parameter":{"name":"k2","value":1e308},"controller":"k2"}`, // before: "k2 does not appear"
+		`{"plant":"1/(s+1)","delay_sec":1e6}`,
+		`{"plant":"1/(z-2)","sample_time_sec":0.1,"delay_sec":0.3}`,
+		`{"plant":"1/(s+1)^100"}`,
+		`{"plant":"exp(-1000s)/(s+1)"}`,
+	} {
+		code, out, errs := runLoop(t, loop, "-json")
+		if code != 0 {
+			t.Errorf("%s: exit %d: %s", loop, code, errs)
+			continue
+		}
+		var d map[string]any
+		if err := json.Unmarshal([]byte(out), &d); err != nil {
+			t.Fatal(err)
+		}
+		for _, w := range d["warnings"].([]any) {
+			s := w.(string)
+			for _, bad := range []string{"Inf", "NaN", "RadPerSec =", "statespace:", "poly:", "tf:", "undefined", "does not appear"} {
+				if strings.Contains(s, bad) {
+					t.Errorf("%s: warning contains %q: %s", loop, bad, s)
+				}
+			}
+		}
+		cl, mg := d["closed_loop"].(map[string]any)["stable"], d["margins"].(map[string]any)["closed_loop_stable"]
+		if cl != nil && mg != nil && cl != mg {
+			t.Errorf("%s: closed_loop.stable %v, margins.closed_loop_stable %v", loop, cl, mg)
 		}
 	}
 }

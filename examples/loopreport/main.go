@@ -46,7 +46,7 @@ Flags:
 `
 
 const usageFormat = `
-Loop file (JSON; unknown keys are rejected):
+Loop file (UTF-8 JSON of at most 1 MiB; unknown keys are rejected):
   name             text; a name for the report
   description      text; a sentence shown in the report
   plant            text, required: transfer function in s, or in z when
@@ -86,7 +86,7 @@ infinite or does not exist is null; complex numbers are {"re": x, "im": y}.
 See README.md for every key.
 
 Exit status: 0 on success, 2 for bad input (flags, loop file), 1 when the
-report cannot be written.
+output or the report cannot be written.
 
 Results describe a linear model. They do not guarantee the behaviour of real
 hardware: validate loops that drive machines on the real plant with limits
