@@ -76,6 +76,10 @@ type Figure struct {
 	// layers are the text layers of the panels, whose layouts the tests
 	// read after drawing.
 	layers []*textLayer
+	// panelTitles, if set, are written above the panels' data areas, all
+	// on one line (plot titles sit at heights that depend on each panel's
+	// tick labels).
+	panelTitles []string
 }
 
 // sideGap is the space between the panels and a key beside them.
@@ -276,6 +280,11 @@ func (f *Figure) draw(c draw.Canvas) {
 		w, _, _, _ := f.side.size()
 		c.Max.X -= w + sideGap
 	}
+	ptStyle := th.textStyle(th.FontSizeTitle, true, draw.XCenter, draw.YBottom)
+	titleY := c.Max.Y
+	if len(f.panelTitles) > 0 {
+		c.Max.Y -= ptStyle.Rectangle("Ag").Size().Y + vg.Points(6)
+	}
 	n := len(f.Panels)
 	cols := max(f.cols, 1)
 	rows := (n + cols - 1) / cols
@@ -317,6 +326,20 @@ func (f *Figure) draw(c draw.Canvas) {
 	for i, p := range f.Panels {
 		r, k := at(i)
 		p.Draw(cans[r][k])
+	}
+	top := vg.Length(math.Inf(-1))
+	for i, p := range f.Panels {
+		r, k := at(i)
+		top = max(top, p.DataCanvas(cans[r][k]).Max.Y)
+	}
+	for i, t := range f.panelTitles {
+		if i >= len(f.Panels) || t == "" {
+			continue
+		}
+		r, k := at(i)
+		dc := f.Panels[i].DataCanvas(cans[r][k])
+		y := min(top+vg.Points(6), titleY-ptStyle.Rectangle(t).Size().Y)
+		c.FillText(ptStyle, vg.Point{X: (dc.Min.X + dc.Max.X) / 2, Y: y}, t)
 	}
 	if f.side != nil && len(f.side.Entries) > 0 {
 		w, h, _, _ := f.side.size()

@@ -2,11 +2,15 @@ package chart_test
 
 import (
 	"bytes"
+	"errors"
+	"math"
 	"strings"
 	"testing"
 
 	"github.com/loopwise/loopwise/chart"
 	"github.com/loopwise/loopwise/locus"
+	"github.com/loopwise/loopwise/margins"
+	"github.com/loopwise/loopwise/response"
 	"github.com/loopwise/loopwise/tf"
 	"gonum.org/v1/plot/vg"
 )
@@ -22,12 +26,13 @@ func crowdedDigitalLoop(t *testing.T) tf.TF {
 	return must(c.Series(g))
 }
 
-// layoutCases are the complex-plane figures whose layout is checked: every
-// plane case of the figure tests and the crowded digital locus.
+// layoutCases are the figures with a key whose layout is checked: every
+// locus, pole–zero, Nyquist and step case of the figure tests and the
+// crowded digital locus.
 func layoutCases() []figureCase {
 	var out []figureCase
 	for _, c := range allCases() {
-		if strings.HasPrefix(c.name, "locus") || strings.HasPrefix(c.name, "polezero") {
+		if !strings.HasPrefix(c.name, "frequency") {
 			out = append(out, c)
 		}
 	}
@@ -56,7 +61,8 @@ func contains(r vg.Rectangle, p vg.Point) bool {
 }
 
 // TestKeyCoversNothing is the regression test of issue 11 item 16: the box
-// that explains the symbols of a root locus or pole–zero map covers no
+// that explains the symbols of a root locus, pole–zero map, Nyquist curve
+// or step response covers no
 // drawn point (of a branch, a guide curve or a mark) and no label, and it
 // lies outside every data area.
 func TestKeyCoversNothing(t *testing.T) {
@@ -149,4 +155,144 @@ func svgText(t *testing.T, f *chart.Figure) string {
 		t.Fatal(err)
 	}
 	return buf.String()
+}
+
+// TestMagnitudeStaysInPanel is the regression test of item 17's magnitude
+// clause: a loop rolling off 160 dB per decade (eight poles at 1 rad/s)
+// falls far below the 160 dB the magnitude panel shows; the frequency
+// axis must end where the curve reaches the panel's floor instead of the
+// curve leaving the panel before the axis ends.
+func TestMagnitudeStaysInPanel(t *testing.T) {
+	loop := tf.MustParse("1e4/(s+1)^8")
+	r := must(margins.FrequencyResponse(loop, nil))
+	m := must(margins.Compute(loop, nil))
+	f := must(chart.FrequencyResponse(r, &m, nil))
+	mag, ph := f.Panels[0], f.Panels[1]
+	if mag.X.Max != ph.X.Max || mag.X.Min != ph.X.Min {
+		t.Errorf("panels disagree on the frequency axis: [%g, %g] and [%g, %g]", mag.X.Min, mag.X.Max, ph.X.Min, ph.X.Max)
+	}
+	shown := 0
+	for i, w := range r.FrequencyRadPerSec {
+		if w < mag.X.Min || w > mag.X.Max {
+			continue
+		}
+		shown++
+		if v := r.MagnitudeDB[i]; v < mag.Y.Min || v > mag.Y.Max {
+			t.Fatalf("at %g rad/s the magnitude %g dB leaves the panel [%g, %g] before the axis ends at %g rad/s",
+				w, v, mag.Y.Min, mag.Y.Max, mag.X.Max)
+		}
+	}
+	if shown < len(r.FrequencyRadPerSec)/3 {
+		t.Errorf("only %d of %d samples shown", shown, len(r.FrequencyRadPerSec))
+	}
+}
+
+// TestOneStyle is the regression test of item 17's unit and title
+// clauses: every figure writes angles with ° (never "deg" or "degrees")
+// and has one title, centred across the top of the figure (Figure.Title),
+// with no panel title of its own unless it has several panels.
+func TestOneStyle(t *testing.T) {
+	for _, c := range allCases() {
+		t.Run(c.name, func(t *testing.T) {
+			f := c.build(t)
+			s := svgText(t, f)
+			for _, bad := range []string{"degrees", " deg ", "(deg)"} {
+				if strings.Contains(s, bad) {
+					t.Errorf("figure writes %q", bad)
+				}
+			}
+			if strings.HasPrefix(c.name, "frequency") && !strings.Contains(s, "phase (°)") {
+				t.Errorf("phase axis not labelled \"phase (°)\"")
+			}
+			if f.Title == "" {
+				t.Errorf("no figure title")
+			}
+			if len(f.Panels) == 1 && f.Panels[0].Title.Text != "" {
+				t.Errorf("panel title %q besides the figure title", f.Panels[0].Title.Text)
+			}
+		})
+	}
+}
+
+// TestMarginWordsAlike is the regression test of item 17's margin clause:
+// the frequency response and the Nyquist curve of one loop write its
+// margins in the same words at the same place (the notes under the
+// panels), and mark the crossovers alike.
+func TestMarginWordsAlike(t *testing.T) {
+	loop := servoLoop()
+	m := must(margins.Compute(loop, nil))
+	bode := must(chart.FrequencyResponse(must(margins.FrequencyResponse(loop, nil)), &m, nil))
+	nyq := must(chart.Nyquist(must(margins.NyquistCurve(loop, nil)), &m, nil))
+	if len(bode.Notes) == 0 || strings.Join(bode.Notes, "\n") != strings.Join(nyq.Notes, "\n") {
+		t.Errorf("margins in words differ:\nfrequency response %q\nNyquist curve      %q", bode.Notes, nyq.Notes)
+	}
+	for _, w := range []string{"gain margin", "phase margin"} {
+		if !strings.Contains(svgText(t, bode), w) || !strings.Contains(svgText(t, nyq), w) {
+			t.Errorf("%q is not marked in both figures", w)
+		}
+	}
+}
+
+// TestAlsoMarks checks LocusSettings.Also, which lets a design compare
+// candidates with the same mark (dots: closed-loop poles at a value)
+// instead of borrowing a mark that means something else (the squares of
+// the boundary crossings, as the parameter-sweep example did): each value
+// is named in the key, and a NaN value is refused.
+func TestAlsoMarks(t *testing.T) {
+	l := traceLocus(t, servoLoop(), nil)
+	f := must(chart.RootLocus(l, &chart.LocusSettings{Mark: &chart.LocusMark{Value: 2}, Also: []chart.LocusMark{{Value: 10}}}))
+	s := svgText(t, f)
+	for _, w := range []string{"closed-loop poles at gain = 2", "closed-loop poles at gain = 10"} {
+		if !strings.Contains(s, w) {
+			t.Errorf("key lacks %q", w)
+		}
+	}
+	_, err := chart.RootLocus(l, &chart.LocusSettings{Also: []chart.LocusMark{{Value: math.NaN()}}})
+	if !errors.Is(err, chart.ErrNotFinite) || !strings.Contains(err.Error(), "Also[0]") {
+		t.Errorf("NaN in Also: %v, want ErrNotFinite naming Also[0]", err)
+	}
+}
+
+// TestSampledResponseDrawnAsSamples is the regression test of item 18: a
+// sampled response is drawn as samples (named in the key with their
+// period), not as a held staircase, and StepSettings.Between draws the
+// continuous plant's output through them. The scenario: the plant
+// 1/(s(s+1)) under a zero-order hold with T = 0.2 s and unit feedback;
+// the output between samples is the plant driven by the held error.
+func TestSampledResponseDrawnAsSamples(t *testing.T) {
+	const T, sub = 0.2, 10
+	plant := tf.MustParse("1/(s(s+1))")
+	gd := must(plant.Discretize(T, tf.ZeroOrderHold, nil))
+	closed := must(gd.ClosedLoop())
+	one := must(tf.NewDiscrete([]float64{1}, []float64{1}, T))
+	er := must(must(one.Parallel(gd)).Inverse()) // E/R = 1/(1 + G(z))
+	y := must(response.Step(closed, &response.Settings{HorizonSec: 8}))
+	e := must(response.Step(er, &response.Settings{HorizonSec: 8}))
+	var ts, us []float64
+	for k := 0; k+1 < len(e.Output); k++ {
+		for j := 0; j < sub; j++ {
+			ts = append(ts, (float64(k)+float64(j)/sub)*T)
+			us = append(us, e.Output[k])
+		}
+	}
+	b := must(response.Simulate(plant, ts, us, nil))
+	// At the sample instants the two agree: the hold equivalent is exact
+	// (1e-12: a few hundred roundings of order-2 recursions).
+	for j := 0; j < len(ts); j += sub {
+		if d := math.Abs(b.Output[j] - y.Output[j/sub]); d > 1e-12 {
+			t.Fatalf("at t = %g the plant output %g differs from the sample %g", ts[j], b.Output[j], y.Output[j/sub])
+		}
+	}
+	m := must(response.StepMetrics(closed, nil))
+	plain := svgText(t, must(chart.StepResponse(y, &m, nil)))
+	if !strings.Contains(plain, "samples, every 0.2 s") {
+		t.Errorf("the key does not name the samples")
+	}
+	with := svgText(t, must(chart.StepResponse(y, &m, &chart.StepSettings{Between: &b})))
+	if !strings.Contains(with, "output between the samples") {
+		t.Errorf("the key does not name the output between the samples")
+	}
+	if _, err := chart.StepResponse(y, &m, &chart.StepSettings{Between: &y}); !errors.Is(err, chart.ErrSettings) {
+		t.Errorf("a sampled Between: %v, want ErrSettings", err)
+	}
 }

@@ -2,6 +2,7 @@ package chart
 
 import (
 	"fmt"
+	"image/color"
 	"math"
 	"math/cmplx"
 	"sort"
@@ -38,6 +39,7 @@ type planeSpec struct {
 	crossings   []valuedPoint
 	marked      []complex128
 	markedLabel string
+	also        [][]complex128 // closed-loop poles at further values (alsoGlyph(i))
 	dampings    []float64
 	freqs       []float64
 	autoGrid    bool
@@ -69,6 +71,9 @@ func (s *planeSpec) keyPoints() []complex128 {
 		key = append(key, c.At)
 	}
 	key = append(key, s.marked...)
+	for _, a := range s.also {
+		key = append(key, a...)
+	}
 	if s.hasAsym {
 		key = append(key, complex(s.centroid, 0))
 	}
@@ -171,8 +176,7 @@ func (s *planeSpec) crowdWindow(xmin, xmax, ymin, ymax float64) (w Window, ok bo
 	for i := range parent {
 		parent[i] = i
 	}
-	var root func(int) int
-	root = func(i int) int {
+	root := func(i int) int {
 		for parent[i] != i {
 			parent[i] = parent[parent[i]]
 			i = parent[i]
@@ -262,8 +266,7 @@ func (s *planeSpec) figureWithDetail(set *PlaneSettings) (*Figure, error) {
 	if err != nil {
 		return nil, err
 	}
-	f.Panels[0].Title.Text = "Whole view"
-	df.Panels[0].Title.Text = d.title
+	f.panelTitles = []string{"Whole view", d.title}
 	f.Panels[0].Add(&outline{W: win, Style: draw.LineStyle{Color: s.th.Axis, Width: vg.Points(0.7), Dashes: []vg.Length{vg.Points(2), vg.Points(2)}}})
 	f.Panels = append(f.Panels, df.Panels[0])
 	f.layers = append(f.layers, df.layers...)
@@ -375,6 +378,18 @@ func (s *planeSpec) figure() (*Figure, error) {
 			avoid.addPoint(real(z), imag(z))
 		}
 	}
+	for i, a := range s.also {
+		if len(a) == 0 {
+			continue
+		}
+		xs, ys := splitComplex(a)
+		m, _ := NewMarks(xs, ys)
+		m.GlyphStyle = alsoGlyph(i)
+		p.Add(m)
+		for _, z := range a {
+			avoid.addPoint(real(z), imag(z))
+		}
+	}
 	if len(s.poles) > 0 {
 		xs, ys, counts := splitRoots(s.poles)
 		m, _ := NewMarks(xs, ys)
@@ -442,6 +457,14 @@ func breakGlyph() draw.GlyphStyle {
 
 func crossingGlyph() draw.GlyphStyle {
 	return draw.GlyphStyle{Color: okVermillion, Radius: vg.Points(3.2), Shape: squareGlyph{}}
+}
+
+// alsoGlyph is the mark of the closed-loop poles at the i-th further
+// value: a dot like the marked poles (the same thing at another value),
+// in sky blue, blue, bluish green, reddish purple in turn.
+func alsoGlyph(i int) draw.GlyphStyle {
+	cs := []color.Color{okSkyBlue, okBlue, okBluishGreen, okReddishPurple}
+	return draw.GlyphStyle{Color: cs[i%len(cs)], Radius: vg.Points(3.4), Shape: dotGlyph{}}
 }
 
 func markedGlyph() draw.GlyphStyle {
