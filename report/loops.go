@@ -86,15 +86,7 @@ func (a *analysis) loops() {
 func (a *analysis) verdictWarnings() {
 	v, discrete := a.verdict, a.m.open.IsDiscrete()
 	if len(v.boundary) > 0 {
-		where := "on the imaginary axis"
-		if discrete {
-			where = "on the unit circle"
-		}
-		what := "a pole"
-		if n := len(v.boundary); n > 1 {
-			what = fmt.Sprintf("%d poles", n)
-		}
-		a.warn("the closed loop has %s %s to within the rounding of its coefficients (e.g. %s): it is not asymptotically stable (an undamped oscillation or an integration, or damping too small to tell from none), and the report counts it as unstable", what, where, cplx(newComplex(v.boundary[0]), false))
+		a.warn("the closed loop has %s on %s to within the rounding of its coefficients (e.g. %s): it is not asymptotically stable (an undamped oscillation or an integration, or damping too small to tell from none), and the report counts it as unstable", count(len(v.boundary), "a pole", "poles"), boundaryName(discrete), cplx(newComplex(v.boundary[0]), false))
 	}
 	if len(v.undecided) > 0 {
 		verdict := "the stability of the closed loop is not determined"

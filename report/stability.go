@@ -206,13 +206,23 @@ func (v verdict) words() string {
 
 // undecidedText describes the undecided poles for a warning.
 func (v verdict) undecidedText(discrete bool) string {
-	region := "the imaginary axis"
+	what := count(len(v.undecided), "1 closed-loop pole lies", "closed-loop poles lie")
+	return fmt.Sprintf("%s within %s of %s, closer than the uncertainty of the computed poles (%s, from the rounding of the characteristic polynomial's coefficients) allows to tell", what, g(Number(v.distance)), boundaryName(discrete), g(Number(v.radius)))
+}
+
+// boundaryName names the stability boundary: the imaginary axis in s, the
+// unit circle in z.
+func boundaryName(discrete bool) string {
 	if discrete {
-		region = "the unit circle"
+		return "the unit circle"
 	}
-	what := "1 closed-loop pole lies"
-	if n := len(v.undecided); n > 1 {
-		what = fmt.Sprintf("%d closed-loop poles lie", n)
+	return "the imaginary axis"
+}
+
+// count returns one for n = 1 and "n many" otherwise.
+func count(n int, one, many string) string {
+	if n == 1 {
+		return one
 	}
-	return fmt.Sprintf("%s within %s of %s, closer than the uncertainty of the computed poles (%s, from the rounding of the characteristic polynomial's coefficients) allows to tell", what, g(Number(v.distance)), region, g(Number(v.radius)))
+	return fmt.Sprintf("%d %s", n, many)
 }
