@@ -50,7 +50,7 @@ func (a *analysis) plots() []Figure {
 	}
 
 	add("Root locus", "root-locus",
-		fmt.Sprintf("Closed-loop poles as %s varies over %s: branches with arrows in the direction of increasing %s, open-loop poles (×) and zeros (○), asymptotes, break points and crossings of the stability boundary with their values; filled dots are the closed-loop poles at %s = %s.",
+		fmt.Sprintf("Closed-loop poles as %s varies over %s: branches with arrows in the direction of increasing %s, × where each branch starts and ○ where branches end (the key says at which value), asymptotes, break points and crossings of the stability boundary with their values; filled dots are the closed-loop poles at %s = %s.",
 			variable, intervalText(a.rep.Locus.Range), a.rep.Locus.Variable, a.rep.Locus.Variable, g(Number(value))),
 		func() (*chart.Figure, error) {
 			if a.locus == nil {
