@@ -225,42 +225,87 @@ func (lp *loop) logValue(w float64) (val, der complex128) {
 	return val, der
 }
 
-// rootAngle returns the continuous branch of arg(jv − r) for v ≥ 0:
-// in (−π/2, π/2) for Re r < 0, in (π/2, 3π/2) for Re r > 0, and ±π/2 for
-// roots on the imaginary axis (a jump of π where v passes Im r; at v = Im r
-// the value after the jump is returned).
-func rootAngle(v float64, r complex128) float64 {
+// factorAngle returns the continuous phase, in radians, of the normalised
+// factor 1 − jv/r of a non-zero root r, for v ≥ 0 (v = +Inf gives the
+// limit). It is 0 at v = 0 and continuous: with r = a + jb,
+//
+//	1 − jv/r = (|r|² − v·b − j·v·a)/|r|²,
+//
+// whose imaginary part keeps the sign of −a for v > 0, so the principal
+// value atan2(−v·a, |r|² − v·b) lies in (0, π) for a < 0 and in (−π, 0) for
+// a > 0 and never wraps. A root on the imaginary axis (a = 0, b > 0) gives
+// a jump of +π where v passes b (the value after the jump is returned at
+// v = b); with b < 0 the factor stays positive for v ≥ 0.
+func factorAngle(v float64, r complex128) float64 {
 	a, b := real(r), imag(r)
 	if a == 0 {
-		if v >= b {
-			return math.Pi / 2
+		if b > 0 && v >= b {
+			return math.Pi
 		}
-		return -math.Pi / 2
+		return 0
 	}
-	t := math.Atan2(v-b, -a)
-	if a > 0 && t < 0 {
-		t += 2 * math.Pi
+	if math.IsInf(v, 1) {
+		return math.Atan2(-a, -b)
 	}
-	return t
+	m := cmplx.Abs(r)
+	// Both parts divided by |r| > 0, which avoids overflow of |r|².
+	return math.Atan2(-v*(a/m), m-v*(b/m))
+}
+
+// lowFrequencyPhase returns the phase of L as ω → 0⁺, in radians: the angle
+// of its low-frequency asymptote K0·(jv)^(z₀−p₀), z₀ and p₀ the numbers of
+// zeros and poles at the origin, K0 = c·Π(−zᵢ)/Π(−pⱼ) over the non-zero
+// roots (c the ratio of the leading coefficients) a real number whose
+// angle, 0 or π, is taken as its principal value in (−π, π]. The result is
+// arg K0 + (z₀ − p₀)·π/2: −90° per integrator, +90° per differentiator,
+// 180° for a negative low-frequency gain.
+func (lp *loop) lowFrequencyPhase() float64 {
+	k0, orders := lp.c0, 0
+	for _, z := range lp.zeros {
+		if z == 0 {
+			orders++
+		} else {
+			k0 += cmplx.Phase(-z)
+		}
+	}
+	for _, p := range lp.poles {
+		if p == 0 {
+			orders--
+		} else {
+			k0 -= cmplx.Phase(-p)
+		}
+	}
+	// K0 is real: its angle is a multiple of π up to the rounding of the
+	// roots; take the principal value 0 or π.
+	k0 = math.Abs(math.Remainder(math.Pi*math.Round(k0/math.Pi), 2*math.Pi))
+	return k0 + float64(orders)*math.Pi/2
 }
 
 // sumPhase returns the continuous phase of the rational part, in radians,
-// from the roots of an and ad: c0 + Σ arg(jv − zᵢ) − Σ arg(jv − pⱼ). It is
-// exact up to the accuracy of the roots and serves to choose the branch of
-// the accurately evaluated phase.
+// accumulated factor by factor from the roots of an and ad:
+//
+//	ψ(v) = ψ(0⁺) + Σ ∠(1 − jv/zᵢ) − Σ ∠(1 − jv/pⱼ)
+//
+// over the non-zero roots, ψ(0⁺) the low-frequency phase (see
+// lowFrequencyPhase) and each factor angle continuous from 0 (see
+// factorAngle). It therefore starts at the true low-frequency angle
+// whatever the roots (a pair of right-half-plane zeros contributes 0 at
+// v = 0, not 2π), and it is exact up to the accuracy of the roots; it
+// serves to choose the branch of the accurately evaluated phase.
 func (lp *loop) sumPhase(v float64) float64 {
 	if err := lp.ensureRoots(); err != nil {
 		return math.NaN()
 	}
-	if math.IsInf(v, 1) {
-		return lp.c0 + float64(len(lp.zeros)-len(lp.poles))*math.Pi/2
-	}
-	p := lp.c0
+	p := lp.lowFrequencyPhase()
 	for _, z := range lp.zeros {
-		p += rootAngle(v, z)
+		if z != 0 {
+			p += factorAngle(v, z)
+		}
 	}
 	for _, q := range lp.poles {
-		p -= rootAngle(v, q)
+		if q != 0 {
+			p -= factorAngle(v, q)
+		}
 	}
 	return p
 }
