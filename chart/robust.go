@@ -11,6 +11,7 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 
 	"github.com/loopwise/loopwise/robust"
+	"github.com/loopwise/loopwise/spec"
 )
 
 // RobustNyquist draws the Nyquist curves of an uncertain loop's box
@@ -210,11 +211,7 @@ func Histograms(panels []HistogramPanel, set *HistogramSettings) (*Figure, error
 		if len(h.Counts) == 0 || len(h.Edges) != len(h.Counts)+1 {
 			return nil, fmt.Errorf("%w: histogram %q has %d bins and %d edges", ErrNoData, hp.Title, len(h.Counts), len(h.Edges))
 		}
-		ptitle := hp.Title
-		if h.Excluded > 0 && sum(h.Counts) == 0 {
-			ptitle += fmt.Sprintf(": all %d samples infinite or undefined", h.Excluded)
-		}
-		p := newPanel(th, ptitle, "", "samples")
+		p := newPanel(th, hp.Title, "", "samples")
 		bars := &rectangles{Fill: alpha(okBlue, 0xc0)}
 		top := 1.0
 		for k, c := range h.Counts {
@@ -240,7 +237,9 @@ func Histograms(panels []HistogramPanel, set *HistogramSettings) (*Figure, error
 			notes = append(notes, fmt.Sprintf("%s: %d samples left out (undefined or infinite)", hp.Title, h.Excluded))
 		}
 	}
+	first := plots[0].Title.Text
 	f := newFigure(plots[0], size, th)
+	plots[0].Title.Text = first // newFigure moves it to the figure title
 	f.Panels = plots
 	f.Title = title
 	f.Notes = notes
@@ -250,10 +249,36 @@ func Histograms(panels []HistogramPanel, set *HistogramSettings) (*Figure, error
 	return f, nil
 }
 
-func sum(c []int) int {
-	s := 0
-	for _, v := range c {
-		s += v
+// MarginHistograms draws Histograms of the phase margin, gain margin, delay
+// margin and peak sensitivity of a Monte Carlo or grid sweep (bins equal
+// bins each), with the limit of each requirement in req that bounds one of
+// them.
+//
+// Errors: those of robust.NewHistogram and Histograms.
+func MarginHistograms(r robust.SampleResult, req spec.Requirements, bins int, set *HistogramSettings) (*Figure, error) {
+	limits := map[string]spec.Requirement{}
+	for _, q := range req {
+		limits[q.Key()] = q
 	}
-	return s
+	var panels []HistogramPanel
+	for _, q := range []struct {
+		title, key string
+		v          []float64
+	}{
+		{"phase margin (deg)", "min_phase_margin_deg", r.PhaseMarginDeg},
+		{"gain margin (dB)", "min_gain_margin_db", r.GainMarginDB},
+		{"delay margin (s)", "min_delay_margin_sec", r.DelayMarginSec},
+		{"peak sensitivity Ms", "max_peak_sensitivity", r.PeakSensitivity},
+	} {
+		h, err := robust.NewHistogram(q.v, bins)
+		if err != nil {
+			return nil, err
+		}
+		p := HistogramPanel{Title: q.title, Histogram: h, Limit: math.NaN()}
+		if lim, ok := limits[q.key]; ok {
+			p.Limit, p.LimitText = lim.Limit(), "limit: "+lim.String()
+		}
+		panels = append(panels, p)
+	}
+	return Histograms(panels, set)
 }

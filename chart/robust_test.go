@@ -1,15 +1,11 @@
 package chart_test
 
 import (
-	"bytes"
 	"context"
 	"errors"
-	"math"
-	"os"
-	"path/filepath"
 	"testing"
 
-	"gonum.org/v1/plot/cmpimg"
+	"github.com/loopwise/loopwise/spec"
 
 	"github.com/loopwise/loopwise/chart"
 	"github.com/loopwise/loopwise/robust"
@@ -35,36 +31,20 @@ func robustBand(t *testing.T) (robust.NyquistBand, robust.SampleResult) {
 	return b, mc
 }
 
-func robustFigures(t *testing.T) map[string]*chart.Figure {
-	b, mc := robustBand(t)
-	nyq, err := chart.RobustNyquist(b, nil)
-	if err != nil {
-		t.Fatal(err)
+// robustGoldenCases are the robust figures, compared with their golden
+// images by TestGolden.
+func robustGoldenCases() []figureCase {
+	return []figureCase{
+		{name: "robust_nyquist", words: []string{"guaranteed envelope"}, build: func(t *testing.T) *chart.Figure {
+			b, _ := robustBand(t)
+			return must(chart.RobustNyquist(b, nil))
+		}},
+		{name: "robust_histograms", words: []string{"phase margin"}, build: func(t *testing.T) *chart.Figure {
+			_, mc := robustBand(t)
+			req := spec.Requirements{spec.MinPhaseMarginDeg(45), spec.MinDelayMarginSec(0.2), spec.MaxPeakSensitivity(1.4)}
+			return must(chart.MarginHistograms(mc, req, 20, nil))
+		}},
 	}
-	var panels []chart.HistogramPanel
-	for _, q := range []struct {
-		title string
-		v     []float64
-		limit float64
-		text  string
-	}{
-		{"phase margin (deg)", mc.PhaseMarginDeg, 45, "required ≥ 45°"},
-		{"delay margin (s)", mc.DelayMarginSec, 0.2, "required ≥ 0.2 s"},
-		{"peak sensitivity Ms", mc.PeakSensitivity, 1.4, "required ≤ 1.4"},
-		{"gain margin (dB)", mc.GainMarginDB, 0, ""},
-	} {
-		h, err := robust.NewHistogram(q.v, 20)
-		if err != nil {
-			t.Fatal(err)
-		}
-		panels = append(panels, chart.HistogramPanel{Title: q.title, Histogram: h, Limit: q.limit, LimitText: q.text})
-	}
-	panels[3].Limit = nan()
-	hist, err := chart.Histograms(panels, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return map[string]*chart.Figure{"robust_nyquist": nyq, "robust_histograms": hist}
 }
 
 func TestRobustFiguresErrors(t *testing.T) {
@@ -76,44 +56,5 @@ func TestRobustFiguresErrors(t *testing.T) {
 	}
 	if _, err := chart.Histograms([]chart.HistogramPanel{{Title: "x"}}, nil); !errors.Is(err, chart.ErrNoData) {
 		t.Errorf("empty histogram: %v", err)
-	}
-}
-
-func nan() float64 { return math.NaN() }
-
-// TestRobustGolden compares the robust figures with images checked by eye
-// (regenerate with go test ./chart/ -run RobustGolden -regen).
-func TestRobustGolden(t *testing.T) {
-	for name, f := range robustFigures(t) {
-		t.Run(name, func(t *testing.T) {
-			f.DPI = 72
-			var buf bytes.Buffer
-			if err := f.Render(&buf, chart.FormatPNG); err != nil {
-				t.Fatal(err)
-			}
-			if *outDir != "" {
-				if err := f.Save(filepath.Join(*outDir, name+".png")); err != nil {
-					t.Fatal(err)
-				}
-			}
-			path := filepath.Join("testdata", name+"_golden.png")
-			if *cmpimg.GenerateTestData {
-				if err := os.WriteFile(path, buf.Bytes(), 0o644); err != nil {
-					t.Fatal(err)
-				}
-				return
-			}
-			raw, err := os.ReadFile(path)
-			if err != nil {
-				t.Fatalf("%v (run with -regen to create it)", err)
-			}
-			ok, err := cmpimg.EqualApprox("png", buf.Bytes(), raw, goldenDelta)
-			if err != nil {
-				t.Fatal(err)
-			}
-			if !ok {
-				t.Errorf("%s differs from %s", name, path)
-			}
-		})
 	}
 }

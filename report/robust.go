@@ -390,23 +390,12 @@ func probText(p RobustProbability) string {
 	return fmt.Sprintf("%s (95 %% interval %s to %s)", g(p.Estimate), g(p.Low), g(p.High))
 }
 
-// robustPlots draws the Nyquist band of the box and the margin histograms.
-func (a *analysis) robustPlots() []Figure {
+// robustPlots draws the Nyquist band of the box and the margin histograms
+// with plots' add (plots.go).
+func (a *analysis) robustPlots(add func(title, file, caption string, draw func() (*chart.Figure, error))) {
 	rb := a.rep.Robust
 	if rb == nil || rb.loop == nil {
-		return nil
-	}
-	var figs []Figure
-	add := func(title, file, caption string, draw func() (*chart.Figure, error)) {
-		fig, err := draw()
-		if err == nil {
-			var f Figure
-			if f, err = render(fig, file, title, caption); err == nil {
-				figs = append(figs, f)
-				return
-			}
-		}
-		a.warn("plot %q not drawn: %s", title, short(err))
+		return
 	}
 	add("Nyquist curves over the uncertain parameters", "robust-nyquist",
 		"Nyquist curves of L at the centre, the corners and random points of the parameter box (positive frequencies), the guaranteed envelope that contains every curve of the box over the frequency range shown, the unit circle and the critical point −1.",
@@ -418,38 +407,11 @@ func (a *analysis) robustPlots() []Figure {
 			return chart.RobustNyquist(b, nil)
 		})
 	if rb.MonteCarlo == nil {
-		return figs
+		return
 	}
 	add("Margins over the Monte Carlo samples", "robust-histograms",
 		"Histograms of the phase margin, gain margin, delay margin and peak sensitivity over the Monte Carlo samples, with the loop file's limits as dashed lines.",
-		func() (*chart.Figure, error) {
-			limits := map[string]float64{}
-			for _, q := range rb.req {
-				limits[q.Key()] = q.Limit()
-			}
-			var panels []chart.HistogramPanel
-			for _, q := range []struct {
-				title, key string
-				v          []float64
-			}{
-				{"phase margin (deg)", "min_phase_margin_deg", rb.mc.PhaseMarginDeg},
-				{"gain margin (dB)", "min_gain_margin_db", rb.mc.GainMarginDB},
-				{"delay margin (s)", "min_delay_margin_sec", rb.mc.DelayMarginSec},
-				{"peak sensitivity Ms", "max_peak_sensitivity", rb.mc.PeakSensitivity},
-			} {
-				h, err := robust.NewHistogram(q.v, 24)
-				if err != nil {
-					return nil, err
-				}
-				p := chart.HistogramPanel{Title: q.title, Histogram: h, Limit: math.NaN()}
-				if v, ok := limits[q.key]; ok {
-					p.Limit, p.LimitText = v, "limit "+g(Number(v))
-				}
-				panels = append(panels, p)
-			}
-			return chart.Histograms(panels, nil)
-		})
-	return figs
+		func() (*chart.Figure, error) { return chart.MarginHistograms(rb.mc, rb.req, 24, nil) })
 }
 
 // robustSection analyses the loop over its uncertain parameters (package

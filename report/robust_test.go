@@ -10,7 +10,7 @@ import (
 // worst cases, the robust requirements and the Monte Carlo estimate, and the
 // nominal analysis at the centre of the box.
 func TestRobustSection(t *testing.T) {
-	lf, err := ReadLoop("axis.json", []byte(`{
+	_, err := ReadLoop("axis.json", []byte(`{
   "plant": "9*g/(s^2 (m s + 1))", "controller": "(0.4 + 0.3 s)/(1 + 0.01 s)",
   "uncertain": {"g": {"range": [0.8, 1.2]}, "m": {"range": [0.05, 0.08], "distribution": "normal"}},
   "samples": 200,
@@ -18,7 +18,7 @@ func TestRobustSection(t *testing.T) {
 	if err == nil {
 		t.Fatal("a key given twice was accepted")
 	}
-	lf, err = ReadLoop("axis.json", []byte(`{
+	lf, err := ReadLoop("axis.json", []byte(`{
   "plant": "9*g/(s^2 (m s + 1))", "controller": "(0.4 + 0.3 s)/(1 + 0.01 s)",
   "uncertain": {"g": {"range": [0.8, 1.2]}, "m": {"range": [0.05, 0.08], "distribution": "normal"}},
   "samples": 200,

@@ -195,9 +195,6 @@ func (f *family) frequencyBound(low float64) float64 {
 		}
 		sum += hi
 	}
-	if degree(f.num) == n {
-		// the s^n term of N is in the lead; nothing else to add
-	}
 	return math.Max(1, sum/low) * (1 + 1e-6)
 }
 
@@ -235,8 +232,6 @@ func (f *family) zeroExclusion(r float64, maxCells int, fixed func([]interval), 
 		}
 		lo = hi
 	}
-	depth := map[int]int{}
-	_ = depth
 	type item struct {
 		c     []interval
 		depth int

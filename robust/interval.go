@@ -30,9 +30,6 @@ func (a interval) mul(b interval) interval {
 	return interval{down(lo), up(hi)}
 }
 
-// scale multiplies by the exact number c.
-func (a interval) scale(c float64) interval { return a.mul(point(c)) }
-
 // pow returns a^k for k ≥ 0 with the tight even-power rule.
 func (a interval) pow(k int) interval {
 	if k == 0 {
@@ -62,8 +59,6 @@ func (a interval) mig() float64 {
 	}
 	return math.Min(math.Abs(a.lo), math.Abs(a.hi))
 }
-
-func hull(a, b interval) interval { return interval{math.Min(a.lo, b.lo), math.Max(a.hi, b.hi)} }
 
 // trigSlack widens the bounds of math.Cos and math.Sin, which are not
 // correctly rounded: Go's implementations (Cephes) are accurate to about one

@@ -1,7 +1,6 @@
 package robust
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"strings"
@@ -525,7 +524,5 @@ func (l *Loop) charPoly() []mpoly {
 	}
 	return out
 }
-
-var errStop = errors.New("stop")
 
 func ftoa(x float64) string { return fmt.Sprint(x) }

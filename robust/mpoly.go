@@ -1,8 +1,5 @@
 package robust
 
-import (
-	"math"
-)
 
 // mpoly is a real polynomial in the scaled parameters t ∈ [−1, 1]ⁿ, where
 // parameter i is mid_i + rad_i·t_i. The zero value is the zero polynomial.
@@ -82,20 +79,6 @@ func (p mpoly) uses(i int) bool {
 	return false
 }
 
-// constant returns the term without parameters.
-func (p mpoly) constant() float64 {
-	for _, tm := range p.terms {
-		zero := true
-		for _, e := range tm.exp {
-			zero = zero && e == 0
-		}
-		if zero {
-			return tm.c
-		}
-	}
-	return 0
-}
-
 // linear returns the coefficient of t_i alone.
 func (p mpoly) linear(i int) float64 {
 	for _, tm := range p.terms {
@@ -138,7 +121,6 @@ func combine(ps []mpoly, w []float64, n int) mpoly {
 			out.terms = append(out.terms, *acc[key])
 		}
 	}
-	_ = n
 	return out
 }
 
@@ -148,13 +130,4 @@ func expKey(e []int) string {
 		b[i] = byte(v)
 	}
 	return string(b)
-}
-
-// maxAbs returns the largest |coefficient|.
-func (p mpoly) maxAbs() float64 {
-	m := 0.0
-	for _, tm := range p.terms {
-		m = math.Max(m, math.Abs(tm.c))
-	}
-	return m
 }

@@ -3,7 +3,6 @@ package robust
 import (
 	"fmt"
 	"math"
-	"math/rand/v2"
 
 	"github.com/loopwise/loopwise/margins"
 	"github.com/loopwise/loopwise/spec"
@@ -243,7 +242,6 @@ func (l *Loop) searchWorst(s WorstSettings) ([5]float64, [5][]float64, error) {
 			}
 		}
 	}
-	_ = rand.New
 	return best, at, nil
 }
 

@@ -151,25 +151,7 @@ func (s study) plot(dir string) ([]string, error) {
 		return files, err
 	}
 	mc := s.MonteCarlo
-	var panels []chart.HistogramPanel
-	for _, q := range []struct {
-		title string
-		v     []float64
-		limit float64
-		text  string
-	}{
-		{"phase margin (deg)", mc.PhaseMarginDeg, 45, "required ≥ 45°"},
-		{"gain margin (dB)", mc.GainMarginDB, 6, "required ≥ 6 dB"},
-		{"peak sensitivity Ms", mc.PeakSensitivity, 1.5, "required ≤ 1.5"},
-		{"delay margin (s)", mc.DelayMarginSec, 0.1, "required ≥ 0.1 s"},
-	} {
-		h, err := robust.NewHistogram(q.v, 24)
-		if err != nil {
-			return files, err
-		}
-		panels = append(panels, chart.HistogramPanel{Title: q.title, Histogram: h, Limit: q.limit, LimitText: q.text})
-	}
-	fig, err = chart.Histograms(panels, &chart.HistogramSettings{Title: fmt.Sprintf("Pick-and-place axis: margins over %d sampled payloads", mc.Done)})
+	fig, err = chart.MarginHistograms(mc, requirements(), 24, &chart.HistogramSettings{Title: fmt.Sprintf("Pick-and-place axis: margins over %d sampled payloads", mc.Done)})
 	if err != nil {
 		return files, err
 	}
