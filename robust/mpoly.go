@@ -1,6 +1,5 @@
 package robust
 
-
 // mpoly is a real polynomial in the scaled parameters t ∈ [−1, 1]ⁿ, where
 // parameter i is mid_i + rad_i·t_i. The zero value is the zero polynomial.
 type mpoly struct {
