@@ -55,6 +55,9 @@ type analysis struct {
 	// verdict is the loop's one stability verdict (see stability.go),
 	// final once the margins section has run.
 	verdict verdict
+	// design holds the design section's results for its figures
+	// (design.go).
+	design designFigures
 }
 
 // warn adds a warning to the report: a sentence that says what could not

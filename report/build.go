@@ -89,6 +89,7 @@ func (lf *Loop) buildAt(p float64) (c, g, h tf.TF, err error) {
 		params = map[string]float64{lf.Parameter.Name: p}
 	}
 	params = lf.uncertainMidpoints(params) // robust.go: the centre of the uncertain box
+	params = lf.planeNominal(params)       // design.go: the plane's nominal point
 	if c, err = lf.parseExpr("controller", lf.Controller, params); err != nil {
 		return
 	}

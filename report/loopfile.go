@@ -52,6 +52,8 @@ type Loop struct {
 	// Uncertain and Samples are the robust section's keys (robust.go).
 	Uncertain []UncertainParameter
 	Samples   int
+	// Plane is the design section's key (design.go).
+	Plane *PlaneSpec
 
 	// pos holds the position ("line 3, column 12") of each key as
 	// written, for messages about values that parse but do not make sense

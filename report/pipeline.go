@@ -31,5 +31,6 @@ var pipeline = []section{
 	stepSection,         // step
 	steadyStateSection,  // steady_state
 	requirementsSection, // requirements
+	designSection,       // design, plane (values that meet the requirements)
 	robustSection,       // robust (uncertain parameters)
 }

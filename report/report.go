@@ -65,6 +65,12 @@ type Report struct {
 	DiscreteLoop *DiscreteLoopResult `json:"discrete_loop,omitempty"`
 	// Requirements are the verdicts on the loop's requirements.
 	Requirements []RequirementResult `json:"requirements"`
+	// Design is the set of values of the gain (or the parameter) that meet
+	// each requirement (design.go); null without requirements.
+	Design *DesignResult `json:"design"`
+	// Plane is the D-partition of the loop file's "plane" (design.go);
+	// null without it.
+	Plane *PlaneResult `json:"plane"`
 	// Robust is the loop over its uncertain parameters (robust.go); null
 	// without the loop file's "uncertain" key.
 	Robust *RobustResult `json:"robust"`

@@ -84,6 +84,13 @@ Loop file (UTF-8 JSON of at most 1 MiB; unknown keys are rejected):
                    estimate is made; the other analyses use the centres
   samples          number of Monte Carlo samples with "uncertain",
                    default 1000
+  plane            {"x": {"name": "Kp", "value": 1, "range": [0, 10]},
+                    "y": {"name": "Ki", "value": 0.5, "range": [0, 5]}}:
+                   two parameters of the expressions (value: the nominal
+                   point used by every other analysis; range: finite);
+                   adds the stable regions of their plane (D-partition),
+                   the regions where each requirement holds, and the
+                   figure parameter-plane
 
 Example:
   {"name": "speed loop", "plant": "40/((s+2)(s+8))",
@@ -91,8 +98,9 @@ Example:
    "requirements": {"min_phase_margin_deg": 45, "max_overshoot_pct": 10}}
 
 JSON output: open_loop, closed_loop, locus, margins, step, steady_state,
-discrete_loop (with discretize), requirements, robust (with uncertain),
-warnings; a quantity that is
+discrete_loop (with discretize), requirements, design (with
+requirements: the values of the gain or the parameter that meet each one),
+plane (with plane), robust (with uncertain), warnings; a quantity that is
 infinite or does not exist is null; complex numbers are {"re": x, "im": y}.
 See README.md for every key.
 
