@@ -164,4 +164,3 @@ func (c conveyor) plot(dir string) ([]string, error) {
 	files = append(files, paths...)
 	return files, err
 }
-
