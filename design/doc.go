@@ -73,6 +73,20 @@
 // performance requirement (rise or settling time, steady-state error) to
 // pull the suggestion towards a useful loop.
 //
+// # Accuracy and speed
+//
+// Interval ends from the exact constructions agree with 50-digit mpmath
+// references (testdata/gen_refs.py) to 1e-9 relative or better, and at
+// every end the quantity measured by spec.CheckWith equals its limit to
+// 1e-9 (solve_test.go, more_test.go). Bracketed ends of continuous
+// quantities are polished to 1e-11 relative; jumps are located to 1e-5.
+// Measured (testdata/benchmarks.md): the plane of a PI loop of order 8
+// takes 20–45 ms on one core; the one-variable design of an order-10 loop
+// with all nine requirement kinds costs 130–350 times one margins.Compute
+// plus response.StepMetrics, almost all of it in the about 57 step-response
+// evaluations of the three step requirements (the exact kinds cost about 27
+// margin checks).
+//
 // # Conventions
 //
 // Requirements are those of package spec and are judged by spec.CheckWith
