@@ -43,14 +43,6 @@ func (f frame) omega(nu float64) float64 {
 	return nu
 }
 
-// nu returns the boundary variable of the frequency omega in rad/s.
-func (f frame) nu(omega float64) float64 {
-	if f.ts > 0 {
-		return math.Tan(omega * f.ts / 2)
-	}
-	return omega
-}
-
 // term is c·p, a complex multiple of a real polynomial.
 type term struct {
 	c complex128

@@ -508,11 +508,9 @@ type polygon struct {
 // closed polygon: left ends upwards, right ends downwards.
 func joinSpans(ys []float64, rows [][]span) []polygon {
 	type chain struct {
-		count  int
-		y      []float64
-		spans  []span
-		open   bool
-		lastRw int
+		count int
+		y     []float64
+		spans []span
 	}
 	var chains []*chain
 	active := map[int]*chain{} // index of span in previous row → chain

@@ -1,7 +1,6 @@
 package design
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"slices"
@@ -838,5 +837,3 @@ func golden(f func(float64) float64, lo, hi, x0, f0 float64, iters int) (float64
 	}
 	return bx, bf
 }
-
-var _ = errors.Is

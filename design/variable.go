@@ -1,7 +1,6 @@
 package design
 
 import (
-	"errors"
 	"fmt"
 	"math"
 
@@ -70,11 +69,6 @@ func (v Variable) LoopAt(x float64) (tf.TF, error) {
 		return l.WithDelay(v.delay)
 	}
 	return l, nil
-}
-
-// characteristic returns a, b with D_v + N_v = a + v·b (dead time left out).
-func (v Variable) characteristic() (a, b poly.Poly) {
-	return v.den0.Add(v.num0), v.den1.Add(v.num1)
 }
 
 // probes are the values at which a loop function is evaluated: two to fit
@@ -223,8 +217,6 @@ func cleanPoly(q poly.Poly) poly.Poly {
 	}
 	return r
 }
-
-var _ = errors.Is
 
 // polyPair is a polynomial of the characteristic equation.
 type polyPair = poly.Poly
