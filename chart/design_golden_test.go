@@ -1,7 +1,6 @@
 package chart_test
 
 import (
-	"bytes"
 	"os"
 	"path/filepath"
 	"testing"
@@ -10,7 +9,6 @@ import (
 	"github.com/loopwise/loopwise/design"
 	"github.com/loopwise/loopwise/spec"
 	"github.com/loopwise/loopwise/tf"
-	"gonum.org/v1/plot/cmpimg"
 )
 
 // designFigures builds the design figures of the golden tests: the gain
@@ -50,31 +48,7 @@ func designFigures(t *testing.T) map[string]*chart.Figure {
 // (regenerate with -regen, as TestGolden).
 func TestDesignGolden(t *testing.T) {
 	for name, f := range designFigures(t) {
-		t.Run(name, func(t *testing.T) {
-			f.DPI = 72
-			var buf bytes.Buffer
-			if err := f.Render(&buf, chart.FormatPNG); err != nil {
-				t.Fatal(err)
-			}
-			path := filepath.Join("testdata", name+"_golden.png")
-			if *cmpimg.GenerateTestData {
-				if err := os.WriteFile(path, buf.Bytes(), 0o644); err != nil {
-					t.Fatal(err)
-				}
-				return
-			}
-			raw, err := os.ReadFile(path)
-			if err != nil {
-				t.Fatalf("%v (run with -regen to create it)", err)
-			}
-			ok, err := cmpimg.EqualApprox("png", buf.Bytes(), raw, goldenDelta)
-			if err != nil {
-				t.Fatal(err)
-			}
-			if !ok {
-				t.Errorf("%s differs from %s", name, path)
-			}
-		})
+		t.Run(name, func(t *testing.T) { checkGolden(t, name, f) })
 	}
 }
 

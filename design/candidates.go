@@ -93,17 +93,7 @@ func (p *problem) targetCandidates(c complex128, what, key string) []candidate {
 	if imag(c) == 0 {
 		// ω = 0 (s = 0, z = 1) and the Nyquist frequency (z = −1): the
 		// equation is real there.
-		pts := []struct {
-			z     complex128
-			omega float64
-		}{{p.origin(), 0}}
-		if p.v.ts > 0 {
-			pts = append(pts, struct {
-				z     complex128
-				omega float64
-			}{-1, math.Pi / p.v.ts})
-		}
-		for _, e := range pts {
+		for _, e := range p.axisEnds() {
 			n0, n1 := p.v.num0.EvalComplex(e.z), p.v.num1.EvalComplex(e.z)
 			d0, d1 := p.v.den0.EvalComplex(e.z), p.v.den1.EvalComplex(e.z)
 			uu, ww := n0-c*d0, n1-c*d1
@@ -116,6 +106,22 @@ func (p *problem) targetCandidates(c complex128, what, key string) []candidate {
 		}
 	}
 	return out
+}
+
+// axisEnd is an end of the frequency axis: the point and its frequency.
+type axisEnd struct {
+	z     complex128
+	omega float64
+}
+
+// axisEnds returns ω = 0 (s = 0, z = 1) and, in discrete time, the Nyquist
+// frequency (z = −1).
+func (p *problem) axisEnds() []axisEnd {
+	ends := []axisEnd{{p.origin(), 0}}
+	if p.v.ts > 0 {
+		ends = append(ends, axisEnd{-1, math.Pi / p.v.ts})
+	}
+	return ends
 }
 
 // origin is s = 0 (z = 1 in discrete time).
@@ -177,17 +183,7 @@ func (p *problem) peakSensitivityCandidates(ms float64) []candidate {
 		out = append(out, candidate{pt.v, fmt.Sprintf("%s at %s rad/s", label, fmtNum(f.omega(pt.nu)))})
 	}
 	// The ends of the frequency axis are stationary points of |1 + L| too.
-	ends := []struct {
-		z     complex128
-		omega float64
-	}{{p.origin(), 0}}
-	if p.v.ts > 0 {
-		ends = append(ends, struct {
-			z     complex128
-			omega float64
-		}{-1, math.Pi / p.v.ts})
-	}
-	for _, e := range ends {
+	for _, e := range p.axisEnds() {
 		n0, n1 := p.v.num0.EvalComplex(e.z), p.v.num1.EvalComplex(e.z)
 		d0, d1 := p.v.den0.EvalComplex(e.z), p.v.den1.EvalComplex(e.z)
 		// |C0 + v·C1|² − r²|D0 + v·D1|² = 0 with real values.

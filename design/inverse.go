@@ -112,6 +112,12 @@ func Values(v Variable, t Target, set *Settings) ([]Solution, error) {
 	if v.delay > 0 && t.kind != targetDamping {
 		return nil, fmt.Errorf("%w: %s of a loop with dead time (solve the requirement with Solve instead)", ErrUnsupported, t)
 	}
+	switch t.kind {
+	case targetDelayMargin, targetPeakSensitivity, targetCrossover, targetBandwidth:
+		if !(t.value > 0) {
+			return nil, fmt.Errorf("%w: %s must be positive", ErrInvalidInput, t)
+		}
+	}
 	var cands []candidate
 	switch t.kind {
 	case targetPhaseMargin:
@@ -119,24 +125,12 @@ func Values(v Variable, t Target, set *Settings) ([]Solution, error) {
 	case targetGainMargin:
 		cands = p.targetCandidates(complex(-math.Pow(10, -t.value/20), 0), "", "")
 	case targetDelayMargin:
-		if !(t.value > 0) {
-			return nil, fmt.Errorf("%w: %s must be positive", ErrInvalidInput, t)
-		}
 		cands = p.delayMarginCandidates(t.value)
 	case targetPeakSensitivity:
-		if !(t.value > 0) {
-			return nil, fmt.Errorf("%w: %s must be positive", ErrInvalidInput, t)
-		}
 		cands = p.peakSensitivityCandidates(t.value)
 	case targetCrossover:
-		if !(t.value > 0) {
-			return nil, fmt.Errorf("%w: %s must be positive", ErrInvalidInput, t)
-		}
 		cands = p.crossoverValues(t.value)
 	case targetBandwidth:
-		if !(t.value > 0) {
-			return nil, fmt.Errorf("%w: %s must be positive", ErrInvalidInput, t)
-		}
 		cands = p.bandwidthValues(t.value)
 	case targetDamping:
 		if v.ts > 0 || !(t.value >= 0 && t.value < 1) {

@@ -803,37 +803,13 @@ func argmax(v []float64) int {
 	return j
 }
 
-// golden maximises f on [lo, hi] by golden-section search (Kiefer 1953),
-// starting from the best known point (x0, f0); it returns the best point
-// seen.
+// golden maximises f on [lo, hi] by golden-section search (Kiefer 1953)
+// with iters steps, and returns the best of its result and the known point
+// (x0, f0).
 func golden(f func(float64) float64, lo, hi, x0, f0 float64, iters int) (float64, float64) {
-	const r = 0.6180339887498949
-	bx, bf := x0, f0
-	a, b := lo, hi
-	c, d := b-r*(b-a), a+r*(b-a)
-	fc, fd := f(c), f(d)
-	for range iters {
-		if fc > bf {
-			bx, bf = c, fc
-		}
-		if fd > bf {
-			bx, bf = d, fd
-		}
-		if fc > fd {
-			b, d, fd = d, c, fc
-			c = b - r*(b-a)
-			fc = f(c)
-		} else {
-			a, c, fc = c, d, fd
-			d = a + r*(b-a)
-			fd = f(d)
-		}
+	x, fx := rootfind.GoldenMax(f, lo, hi, iters, 0)
+	if fx > f0 {
+		return x, fx
 	}
-	if fc > bf {
-		bx, bf = c, fc
-	}
-	if fd > bf {
-		bx, bf = d, fd
-	}
-	return bx, bf
+	return x0, f0
 }

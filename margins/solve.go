@@ -127,28 +127,7 @@ func brent(f func(float64) float64, a, b, fa, fb float64) float64 {
 // (Kiefer 1953), to a relative width of about √eps: the abscissa of a
 // smooth maximum cannot be located more finely in double precision.
 func goldenMax(f func(float64) float64, a, b float64) (x, fx float64) {
-	const r = 0.6180339887498949
-	c := b - r*(b-a)
-	d := a + r*(b-a)
-	fc, fd := f(c), f(d)
-	for range 200 {
-		if math.Abs(b-a) <= 1e-10*math.Max(math.Abs(a)+math.Abs(b), 1e-300) {
-			break
-		}
-		if fc > fd {
-			b, d, fd = d, c, fc
-			c = b - r*(b-a)
-			fc = f(c)
-		} else {
-			a, c, fc = c, d, fd
-			d = a + r*(b-a)
-			fd = f(d)
-		}
-	}
-	if fc > fd {
-		return c, fc
-	}
-	return d, fd
+	return rootfind.GoldenMax(f, a, b, 200, 1e-10)
 }
 
 // signChanges returns the number of sign changes in the coefficients of p,

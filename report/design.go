@@ -326,25 +326,9 @@ func designTables(r *Report) []table {
 	if d := r.Design; d != nil {
 		t := table{title: "Design over the " + d.Variable}
 		for i, rq := range d.Requirements {
-			var ivs []string
-			for _, iv := range rq.Intervals {
-				ivs = append(ivs, intervalText(iv))
-			}
-			val := "none"
-			if len(ivs) > 0 {
-				val = strings.Join(ivs, " and ")
-			}
-			t.rows = append(t.rows, row{requirementWords(i, rq.Name, r), val})
+			t.rows = append(t.rows, row{requirementWords(i, rq.Name, r), intervalsText(rq.Intervals)})
 		}
-		var all []string
-		for _, iv := range d.AllMet {
-			all = append(all, intervalText(iv))
-		}
-		allText := "none"
-		if len(all) > 0 {
-			allText = strings.Join(all, " and ")
-		}
-		t.rows = append(t.rows, row{"all requirements met for", allText}, row{"suggested value", g(d.Suggested)}, row{"what binds", d.Binding})
+		t.rows = append(t.rows, row{"all requirements met for", intervalsText(d.AllMet)}, row{"suggested value", g(d.Suggested)}, row{"what binds", d.Binding})
 		out = append(out, t)
 	}
 	if p := r.Plane; p != nil {
@@ -393,4 +377,16 @@ func requirementWords(i int, key string, r *Report) string {
 		return strings.TrimSpace(fmt.Sprintf("%s %s %s", q.Name, g(q.Limit), q.Unit))
 	}
 	return key
+}
+
+// intervalsText writes intervals joined by "and", or "none".
+func intervalsText(ivs []Interval) string {
+	var out []string
+	for _, iv := range ivs {
+		out = append(out, intervalText(iv))
+	}
+	if len(out) == 0 {
+		return "none"
+	}
+	return strings.Join(out, " and ")
 }
