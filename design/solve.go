@@ -84,7 +84,9 @@ type Result struct {
 	// meets them all, the conflicting requirements and the best compromise.
 	Binding string
 	// Conflicts names pairs of requirements whose sets do not overlap
-	// (empty when AllMet is not).
+	// within the stable values, each set being non-empty there (empty when
+	// AllMet is not; a requirement met by no stable value is named in
+	// Binding instead).
 	Conflicts [][2]string
 	// Compromise is the value of the range (stable values first) with the
 	// largest smallest slack when AllMet is empty (NaN otherwise);
@@ -742,10 +744,20 @@ func (p *problem) suggest(req spec.Requirements, res *Result) {
 			res.Variable, strings.Join(ends, " and "), res.Variable, fmtNum(x), fmtSlack(s), which)
 		return
 	}
+	var empty []string
+	for _, rs := range res.Requirements {
+		if len(intersectSets(p.stable, rs.Intervals)) == 0 {
+			empty = append(empty, rs.Requirement.String())
+		}
+	}
 	for i := range res.Requirements {
 		for j := i + 1; j < len(res.Requirements); j++ {
 			a, b := res.Requirements[i], res.Requirements[j]
-			if len(intersectSets(intersectSets(p.stable, a.Intervals), b.Intervals)) == 0 {
+			ab := intersectSets(p.stable, a.Intervals)
+			if len(ab) == 0 || len(intersectSets(p.stable, b.Intervals)) == 0 {
+				continue // an empty set is reported on its own
+			}
+			if len(intersectSets(ab, b.Intervals)) == 0 {
 				res.Conflicts = append(res.Conflicts, [2]string{a.Requirement.String(), b.Requirement.String()})
 			}
 		}
@@ -767,15 +779,22 @@ func (p *problem) suggest(req spec.Requirements, res *Result) {
 	for _, c := range res.Conflicts {
 		conf = append(conf, c[0]+" against "+c[1])
 	}
+	var why []string
+	if len(empty) > 0 {
+		why = append(why, "no stable value meets "+strings.Join(empty, ", nor "))
+	}
+	if len(conf) > 0 {
+		why = append(why, "these pairs exclude each other: "+strings.Join(conf, "; "))
+	}
+	if len(why) == 0 {
+		why = append(why, "each pair overlaps, but not all of them at once")
+	}
 	switch {
 	case len(p.stable) == 0:
 		res.Binding = fmt.Sprintf("no value of %s in the range gives a stable closed loop", res.Variable)
-	case len(conf) > 0:
-		res.Binding = fmt.Sprintf("no value of %s in the range meets every requirement: %s; the best compromise %s = %s fails %s",
-			res.Variable, strings.Join(conf, "; "), res.Variable, fmtNum(x), strings.Join(res.CompromiseFailures, ", "))
 	default:
-		res.Binding = fmt.Sprintf("no value of %s in the range meets every requirement at once (each pair overlaps, but not all of them); the best compromise %s = %s fails %s",
-			res.Variable, res.Variable, fmtNum(x), strings.Join(res.CompromiseFailures, ", "))
+		res.Binding = fmt.Sprintf("no value of %s in the range meets every requirement: %s; the best compromise %s = %s fails %s",
+			res.Variable, strings.Join(why, "; "), res.Variable, fmtNum(x), strings.Join(res.CompromiseFailures, ", "))
 	}
 }
 

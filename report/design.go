@@ -374,7 +374,11 @@ var designSection = section{stage: "design", keys: []loopKey{planeKey}, run: (*a
 func requirementWords(i int, key string, r *Report) string {
 	if i < len(r.Requirements) {
 		q := r.Requirements[i]
-		return strings.TrimSpace(fmt.Sprintf("%s %s %s", q.Name, g(q.Limit), q.Unit))
+		sep := " "
+		if q.Unit == "°" || q.Unit == "" {
+			sep = ""
+		}
+		return fmt.Sprintf("%s %s%s%s", q.Name, g(q.Limit), sep, q.Unit)
 	}
 	return key
 }
