@@ -73,7 +73,7 @@ func stepLoop(phi []float64, x, g, c []float64, d float64, out []float64) {
 }
 
 // addFree adds the free response Scale[0]·z[0] (z advanced by Φ) to out.
-func (s *system) addFree(phi []float64, z []float64, out []float64) {
+func (s *system) addFree(phi transition, z []float64, out []float64) {
 	if z == nil {
 		return
 	}
@@ -85,9 +85,84 @@ func (s *system) addFree(phi []float64, z []float64, out []float64) {
 	y := w[0] * z[0]
 	for k := range out {
 		out[k] += y
-		y = advance(phi, z, nz, zero, 0, nil, 0, w)
+		y = phi.advance(z, nz, zero, 0, w)
 		z, nz = nz, z
 	}
+}
+
+// transition is the matrix Φ of one sample, x ← Φ·x + g·a, stored densely
+// (row-major) or, when at most a quarter of its entries are nonzero, as
+// the nonzero entries of each row (compressed sparse rows; Y. Saad,
+// Iterative Methods for Sparse Linear Systems, 2nd ed., SIAM 2003,
+// Sec. 3.4). A discrete transfer function runs through its companion
+// realisation, whose state matrix has one row of denominator coefficients
+// and a subdiagonal of ones (the two diagonal scalings keep that
+// pattern): a dead time of d samples, the factor z^(−d), adds d states
+// that form a shift register but only d entries. A sample then costs the
+// nonzero entries, O(n), instead of n² multiply–adds. The sparse form does
+// the same multiply–adds in the same order without the zero products, so
+// both forms give the same numbers.
+type transition struct {
+	n     int
+	dense []float64 // n×n row-major, nil in the sparse form
+	start []int     // row i holds entries start[i] … start[i+1]−1
+	col   []int
+	val   []float64
+}
+
+// newTransition returns Φ (n×n row-major in phi) in the cheaper form.
+func newTransition(phi []float64, n int) transition {
+	nnz := 0
+	for _, v := range phi[:n*n] {
+		if v != 0 {
+			nnz++
+		}
+	}
+	if 4*nnz > n*n {
+		return transition{n: n, dense: phi}
+	}
+	t := transition{n: n, start: make([]int, n+1), col: make([]int, 0, nnz), val: make([]float64, 0, nnz)}
+	for i := 0; i < n; i++ {
+		for j, v := range phi[i*n : i*n+n] {
+			if v != 0 {
+				t.col = append(t.col, j)
+				t.val = append(t.val, v)
+			}
+		}
+		t.start[i+1] = len(t.col)
+	}
+	return t
+}
+
+// entries returns the number of entries a sample multiplies: n² when
+// dense, the nonzero count when sparse.
+func (t transition) entries() int {
+	if t.dense != nil {
+		return t.n * t.n
+	}
+	return len(t.val)
+}
+
+// advance sets nx = Φ·x + g·a and returns c·nx, as the function advance.
+func (t transition) advance(x, nx, g []float64, a float64, c []float64) float64 {
+	if t.dense != nil {
+		return advance(t.dense, x, nx, g, a, nil, 0, c)
+	}
+	n := t.n
+	nx = nx[:n]
+	g = g[:n]
+	c = c[:n]
+	y := 0.0
+	for i := 0; i < n; i++ {
+		s := g[i] * a
+		lo, hi := t.start[i], t.start[i+1]
+		for k, j := range t.col[lo:hi] {
+			s += t.val[lo+k] * x[j]
+		}
+		nx[i] = s
+		y += c[i] * s
+	}
+	return y
 }
 
 func (s *system) runContinuous(kind inputKind, h float64, out []float64, z []float64) error {
@@ -176,7 +251,7 @@ func (s *system) runContinuous(kind inputKind, h float64, out []float64, z []flo
 		if err != nil {
 			return err
 		}
-		s.addFree(flat(p), z, out)
+		s.addFree(newTransition(flat(p), s.n), z, out)
 	}
 	return nil
 }
@@ -212,30 +287,51 @@ func (s *system) runDiscrete(kind inputKind, out []float64, z []float64) error {
 	for k := range u {
 		u[k] = discreteInput(kind, k, s.delaySamp, s.ts)
 	}
-	s.discreteSequence(u, out)
+	q := s.newSequence()
+	q.run(u, out)
 	if z != nil {
-		s.addFree(flat(s.m.A), z, out)
+		s.addFree(q.a, z, out)
 	}
 	return nil
 }
 
-// discreteSequence runs x[k+1] = A·x[k] + B·u[k], y[k] = C·x[k] + D·u[k]
-// from rest.
-func (s *system) discreteSequence(u, out []float64) {
-	m := s.m
-	if s.n == 0 {
+// sequence runs the difference equation x[k+1] = A·x[k] + B·u[k],
+// y[k] = C·x[k] + D·u[k] of a discrete system from rest; successive calls
+// of run continue where the last one stopped.
+type sequence struct {
+	s     *system
+	a     transition
+	x, nx []float64
+	y     float64 // C·x of the current state
+}
+
+func (s *system) newSequence() *sequence {
+	q := &sequence{s: s}
+	if s.n > 0 {
+		q.a = newTransition(flat(s.m.A), s.n)
+		q.x = make([]float64, s.n)
+		q.nx = make([]float64, s.n)
+	}
+	return q
+}
+
+// run writes the outputs for the inputs u, one per sample.
+func (q *sequence) run(u, out []float64) {
+	m := q.s.m
+	if q.s.n == 0 {
 		for k, v := range u {
 			out[k] = m.D * v
 		}
 		return
 	}
-	a := flat(m.A)
-	x := make([]float64, s.n)
-	nx := make([]float64, s.n)
-	y := 0.0
 	for k, v := range u {
-		out[k] = y + m.D*v
-		y = advance(a, x, nx, m.B, v, nil, 0, m.C)
-		x, nx = nx, x
+		out[k] = q.y + m.D*v
+		q.y = q.a.advance(q.x, q.nx, m.B, v, m.C)
+		q.x, q.nx = q.nx, q.x
 	}
+}
+
+// discreteSequence runs the difference equation from rest (see sequence).
+func (s *system) discreteSequence(u, out []float64) {
+	s.newSequence().run(u, out)
 }
