@@ -18,7 +18,7 @@ import (
 // the difference equation y[k+101] = a·y[k+100] − b·y[k] + b·u[k]: an
 // order-101 closed loop whose poles lie near the unit circle (|L| < 1
 // except at ω = 0), so the step response rings for about 10⁶ samples.
-func delayedLoop(t *testing.T) (sys tf.TF, a, b float64) {
+func delayedLoop(t testing.TB) (sys tf.TF, a, b float64) {
 	t.Helper()
 	a = math.Exp(-1)
 	b = 1 - a

@@ -69,9 +69,10 @@ const (
 	// carry relative errors of about 1e-13 at order 24) and is reported as
 	// none.
 	existTol = 1e-10
-	// maxHorizonGrowth bounds the horizon when the response has not
-	// settled within the automatic one: at most 4^(maxHorizonGrowth−1)
-	// times it (the discrete rule grows ×4 up to maxHorizonGrowth times).
+	// maxHorizonGrowth bounds the horizon of a continuous response that
+	// has not settled within the automatic one: at most
+	// 4^(maxHorizonGrowth−1) times it. (A discrete response is bounded by
+	// maxSamples samples instead.)
 	maxHorizonGrowth = 8
 	// maxExtendedSamples bounds the grid of a continuous response extended
 	// with its first step (8 MB of states per unit of order … 24 at most
@@ -134,7 +135,11 @@ func (set *MetricSettings) resolve() (lo, hi, band float64, err error) {
 // it): times are sample instants k·T — the first sample at or beyond a
 // level for rise, the sample of the largest value for the peak, and for
 // settling the first sample after the last one outside the band (the
-// moment the held output enters the band for good).
+// moment the held output enters the band for good). The sequence is run
+// once, continued from where it stopped until it has settled (at most
+// 10 000 000 samples), through the sparse companion matrix: a dead time of
+// d samples (z^(−d)) adds d states but only d entries, so each sample
+// costs O(n) and a call costs about one Step over the same samples.
 //
 // Errors: ErrUnstable for a pole with Re ≥ 0 (|z| ≥ 1), with no metric
 // invented; ErrZeroFinalValue when the static gain is zero; ErrImproper;

@@ -106,3 +106,50 @@ func closedLoopFamily() []namedSystem {
 	}
 	return out
 }
+
+// BenchmarkMetricsDeadTime times StepMetrics of the sampled loop with a
+// 100-sample dead time (delayedLoop, order 101, settling after 958 779
+// samples) against one Step on the automatic grid (20 000 samples) and one
+// Step over the horizon the metrics need (the samples of discretePoints),
+// on thread CPU time. It reports metrics/step and metrics/samegrid.
+//
+//	go test -cpu 1 -run '^$' -bench MetricsDeadTime -benchtime 5x ./response/
+func BenchmarkMetricsDeadTime(b *testing.B) {
+	sys, _, _ := delayedLoop(b)
+	s, err := prepare(sys, "step metrics")
+	if err != nil {
+		b.Fatal(err)
+	}
+	if err := s.findPoles(); err != nil {
+		b.Fatal(err)
+	}
+	pts, err := s.discretePoints(0.5, 0.02)
+	if err != nil {
+		b.Fatal(err)
+	}
+	same := &Settings{HorizonSec: pts[len(pts)-1].t}
+	var tStep, tSame, tMetrics time.Duration
+	runtime.LockOSThread()
+	defer runtime.UnlockOSThread()
+	for b.Loop() {
+		t0 := threadCPU()
+		if _, err := Step(sys, nil); err != nil {
+			b.Fatal(err)
+		}
+		t1 := threadCPU()
+		if _, err := Step(sys, same); err != nil {
+			b.Fatal(err)
+		}
+		t2 := threadCPU()
+		if _, err := StepMetrics(sys, nil); err != nil {
+			b.Fatal(err)
+		}
+		t3 := threadCPU()
+		tStep += t1 - t0
+		tSame += t2 - t1
+		tMetrics += t3 - t2
+	}
+	b.ReportMetric(float64(tMetrics.Microseconds())/float64(b.N), "metrics-µs/op")
+	b.ReportMetric(tMetrics.Seconds()/tStep.Seconds(), "metrics/step")
+	b.ReportMetric(tMetrics.Seconds()/tSame.Seconds(), "metrics/samegrid")
+}
