@@ -32,6 +32,18 @@
 // moderate systems and 4e-10 for a stiff one (poles at 1e-3 and 1e3 rad/s,
 // settling after 3900 s).
 //
+// Discrete systems sampled much faster than their dynamics have poles
+// crowding at z = 1, and their coefficients in z then fix the response
+// only loosely: the static gain num(1)/den(1) comes from sums that cancel
+// (a PI loop with time constants of 30–100 s converted by Tustin at
+// T = 2 ms has den(1) ≈ 1.3e-13 from terms of size 3, and T(1) = 1.0016
+// where the exact equivalent has 1), and the recursion's rounding is
+// amplified (1.4e-5 of the final value measured for that loop against
+// mpmath, testdata/gen_sampled_pi.py). The metrics are those of the
+// coefficients given; a settling time set by an excursion that grazes the
+// band can then jump between exits (464 s there, against 545.1 s for the
+// continuous loop, whose late dip leaves the band by 2.8e-6).
+//
 // # Conventions
 //
 // Times are in seconds from the application of the input at t = 0; a
