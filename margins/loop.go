@@ -36,7 +36,13 @@ type loop struct {
 	// openUnstable and openIntegrators are set by countOpenLoop.
 	openUnstable, openIntegrators int
 	c0                            float64 // phase of the ratio of leading coefficients of an and ad: 0 or π
-	// axis parts: an(jv) = nr(v²) + j·v·ni(v²), likewise ad.
+	// sigma is the power of two that scales the axis variable, v = sigma·u,
+	// and san, sad are an(sigma·u) and ad(sigma·u) divided by a common
+	// power of two (see axisScaled): the polynomials whose roots give the
+	// crossovers, free of overflow for any gain or time scale.
+	sigma    float64
+	san, sad poly.Poly
+	// axis parts: san(ju) = nr(u²) + j·u·ni(u²), likewise sad.
 	nr, ni, dr, di poly.Poly
 }
 
@@ -79,9 +85,66 @@ func newLoop(g tf.TF) (*loop, error) {
 	if lp.an.Lead()*lp.ad.Lead() < 0 {
 		lp.c0 = math.Pi
 	}
-	lp.nr, lp.ni = axisParts(lp.an)
-	lp.dr, lp.di = axisParts(lp.ad)
+	lp.sigma, lp.san, lp.sad = axisScaled(lp.an, lp.ad)
+	lp.nr, lp.ni = axisParts(lp.san)
+	lp.dr, lp.di = axisParts(lp.sad)
 	return lp, nil
+}
+
+// axisScaled returns sigma = 2^e and an(sigma·u)/2^m, ad(sigma·u)/2^m: the
+// axis polynomials in a scaled variable u = v/sigma, divided by a common
+// power of two so that their largest coefficient is about 1. Scaling by
+// powers of two is exact, so the ratio an/ad and every root are unchanged
+// (up to underflow of negligible terms); it keeps the squared moduli
+// |an|², |ad|² finite for loop gains or time constants near the limits of
+// float64 (1e300/(s+1), 1/(1e308·s+1)), whose crossovers are then found
+// like any other. The exponent e balances the crossover scale: with a
+// relative degree r > 0 it is the frequency where the leading terms have
+// equal size, (|lead an|/|lead ad|)^(1/r); otherwise the geometric mean of
+// the non-zero root moduli of ad (common practice for balancing).
+func axisScaled(an, ad poly.Poly) (sigma float64, san, sad poly.Poly) {
+	lg := func(x float64) float64 { return math.Log2(math.Abs(x)) }
+	est := 0.0
+	if r := ad.Degree() - an.Degree(); r > 0 && !an.IsZero() {
+		est = (lg(an.Lead()) - lg(ad.Lead())) / float64(r)
+	} else {
+		c := ad.Ascending()
+		k := 0
+		for k < len(c) && c[k] == 0 {
+			k++
+		}
+		if n := len(c) - 1; n > k {
+			est = (lg(c[k]) - lg(c[n])) / float64(n-k)
+		}
+	}
+	if math.IsNaN(est) || math.IsInf(est, 0) {
+		est = 0
+	}
+	e := int(math.Round(math.Max(-1000, math.Min(1000, est))))
+	top := math.MinInt
+	for _, p := range []poly.Poly{an, ad} {
+		for i, c := range p.Ascending() {
+			if c != 0 {
+				_, x := math.Frexp(c)
+				top = max(top, x+e*i)
+			}
+		}
+	}
+	scale := func(p poly.Poly) poly.Poly {
+		c := p.Ascending()
+		for i := range c {
+			c[i] = math.Ldexp(c[i], e*i-top)
+		}
+		q, _ := poly.FromAscending(c)
+		return q
+	}
+	return math.Ldexp(1, e), scale(an), scale(ad)
+}
+
+// fromX maps a root x = u² of a polynomial in the scaled axis variable to
+// the frequency in rad/s.
+func (lp *loop) fromX(x float64) float64 {
+	return lp.fromAxis(lp.sigma * math.Sqrt(x))
 }
 
 // axisSnapTol: a root r with |Re r| ≤ axisSnapTol·|r| is taken to lie on

@@ -88,6 +88,7 @@ func (lf *Loop) buildAt(p float64) (c, g, h tf.TF, err error) {
 	if lf.Parameter != nil {
 		params = map[string]float64{lf.Parameter.Name: p}
 	}
+	params = lf.uncertainMidpoints(params) // robust.go: the centre of the uncertain box
 	if c, err = lf.parseExpr("controller", lf.Controller, params); err != nil {
 		return
 	}

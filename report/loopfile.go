@@ -49,6 +49,9 @@ type Loop struct {
 	Discretize *Discretize
 	// Requirements are limits checked against the loop (package spec).
 	Requirements []Requirement
+	// Uncertain and Samples are the robust section's keys (robust.go).
+	Uncertain []UncertainParameter
+	Samples   int
 
 	// pos holds the position ("line 3, column 12") of each key as
 	// written, for messages about values that parse but do not make sense

@@ -31,4 +31,5 @@ var pipeline = []section{
 	stepSection,         // step
 	steadyStateSection,  // steady_state
 	requirementsSection, // requirements
+	robustSection,       // robust (uncertain parameters)
 }

@@ -65,6 +65,9 @@ type Report struct {
 	DiscreteLoop *DiscreteLoopResult `json:"discrete_loop,omitempty"`
 	// Requirements are the verdicts on the loop's requirements.
 	Requirements []RequirementResult `json:"requirements"`
+	// Robust is the loop over its uncertain parameters (robust.go); null
+	// without the loop file's "uncertain" key.
+	Robust *RobustResult `json:"robust"`
 	// Warnings say, in sentences, what could not be computed and why,
 	// and what was approximated.
 	Warnings []string `json:"warnings"`

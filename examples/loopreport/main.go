@@ -75,6 +75,15 @@ Loop file (UTF-8 JSON of at most 1 MiB; unknown keys are rejected):
                    min_delay_margin_sec, max_peak_sensitivity,
                    min_damping_ratio, max_overshoot_pct, max_rise_time_sec,
                    max_settling_time_sec, max_steady_state_error
+  uncertain        {"g": {"range": [0.8, 1.2]},
+                    "m": {"range": [0.05, 0.08], "distribution": "normal"}}:
+                   parameters of the expressions with their ranges; the
+                   loop is proven stable for the whole box (or an unstable
+                   point is given), worst margins are bounded, each
+                   requirement is judged over the box, and a Monte Carlo
+                   estimate is made; the other analyses use the centres
+  samples          number of Monte Carlo samples with "uncertain",
+                   default 1000
 
 Example:
   {"name": "speed loop", "plant": "40/((s+2)(s+8))",
@@ -82,7 +91,8 @@ Example:
    "requirements": {"min_phase_margin_deg": 45, "max_overshoot_pct": 10}}
 
 JSON output: open_loop, closed_loop, locus, margins, step, steady_state,
-discrete_loop (with discretize), requirements, warnings; a quantity that is
+discrete_loop (with discretize), requirements, robust (with uncertain),
+warnings; a quantity that is
 infinite or does not exist is null; complex numbers are {"re": x, "im": y}.
 See README.md for every key.
 
