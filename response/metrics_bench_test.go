@@ -38,22 +38,10 @@ func benchMetricsRatio(b *testing.B, name string, sys tf.TF) {
 		if _, err := StepMetrics(sys, nil); err != nil {
 			b.Fatal(err)
 		}
-		var tStep, tMetrics time.Duration
-		runtime.LockOSThread()
-		defer runtime.UnlockOSThread()
-		for b.Loop() {
-			t0 := threadCPU()
-			if _, err := Step(sys, nil); err != nil {
-				b.Fatal(err)
-			}
-			t1 := threadCPU()
-			if _, err := StepMetrics(sys, nil); err != nil {
-				b.Fatal(err)
-			}
-			t2 := threadCPU()
-			tStep += t1 - t0
-			tMetrics += t2 - t1
-		}
+		ts := interleavedCPU(b,
+			func() error { _, err := Step(sys, nil); return err },
+			func() error { _, err := StepMetrics(sys, nil); return err })
+		tStep, tMetrics := ts[0], ts[1]
 		b.ReportMetric(float64(tStep.Microseconds())/float64(b.N), "step-µs/op")
 		b.ReportMetric(float64(tMetrics.Microseconds())/float64(b.N), "metrics-µs/op")
 		b.ReportMetric(tMetrics.Seconds()/tStep.Seconds(), "metrics/step")
@@ -128,28 +116,31 @@ func BenchmarkMetricsDeadTime(b *testing.B) {
 		b.Fatal(err)
 	}
 	same := &Settings{HorizonSec: pts[len(pts)-1].t}
-	var tStep, tSame, tMetrics time.Duration
-	runtime.LockOSThread()
-	defer runtime.UnlockOSThread()
-	for b.Loop() {
-		t0 := threadCPU()
-		if _, err := Step(sys, nil); err != nil {
-			b.Fatal(err)
-		}
-		t1 := threadCPU()
-		if _, err := Step(sys, same); err != nil {
-			b.Fatal(err)
-		}
-		t2 := threadCPU()
-		if _, err := StepMetrics(sys, nil); err != nil {
-			b.Fatal(err)
-		}
-		t3 := threadCPU()
-		tStep += t1 - t0
-		tSame += t2 - t1
-		tMetrics += t3 - t2
-	}
+	ts := interleavedCPU(b,
+		func() error { _, err := Step(sys, nil); return err },
+		func() error { _, err := Step(sys, same); return err },
+		func() error { _, err := StepMetrics(sys, nil); return err })
+	tStep, tSame, tMetrics := ts[0], ts[1], ts[2]
 	b.ReportMetric(float64(tMetrics.Microseconds())/float64(b.N), "metrics-µs/op")
 	b.ReportMetric(tMetrics.Seconds()/tStep.Seconds(), "metrics/step")
 	b.ReportMetric(tMetrics.Seconds()/tSame.Seconds(), "metrics/samegrid")
+}
+
+// interleavedCPU runs every function once per benchmark iteration, in
+// turn, and returns the thread CPU time each took in total (see
+// BenchmarkRatio). It stops the benchmark on the first error.
+func interleavedCPU(b *testing.B, fns ...func() error) []time.Duration {
+	total := make([]time.Duration, len(fns))
+	runtime.LockOSThread()
+	defer runtime.UnlockOSThread()
+	for b.Loop() {
+		for i, f := range fns {
+			t0 := threadCPU()
+			if err := f(); err != nil {
+				b.Fatal(err)
+			}
+			total[i] += threadCPU() - t0
+		}
+	}
+	return total
 }
