@@ -102,8 +102,12 @@ func (s *system) addFree(phi transition, z []float64, out []float64) {
 // nonzero entries, O(n), instead of n² multiply–adds. The sparse form does
 // the same multiply–adds in the same order without the zero products, so
 // both forms give the same numbers.
+//
+// In the δ form (deltaform.go) the matrix is A_w and a sample is
+// x ← x + (A_w·x + g·a): the increment is formed first, then added.
 type transition struct {
 	n     int
+	delta bool      // δ form: nx = x + Φ·x + g·a
 	dense []float64 // n×n row-major, nil in the sparse form
 	start []int     // row i holds entries start[i] … start[i+1]−1
 	col   []int
@@ -145,19 +149,29 @@ func (t transition) entries() int {
 
 // advance sets nx = Φ·x + g·a and returns c·nx, as the function advance.
 func (t transition) advance(x, nx, g []float64, a float64, c []float64) float64 {
-	if t.dense != nil {
+	if t.dense != nil && !t.delta {
 		return advance(t.dense, x, nx, g, a, nil, 0, c)
 	}
 	n := t.n
+	x = x[:n]
 	nx = nx[:n]
 	g = g[:n]
 	c = c[:n]
 	y := 0.0
 	for i := 0; i < n; i++ {
 		s := g[i] * a
-		lo, hi := t.start[i], t.start[i+1]
-		for k, j := range t.col[lo:hi] {
-			s += t.val[lo+k] * x[j]
+		if t.dense != nil {
+			for j, v := range t.dense[i*n : i*n+n] {
+				s += v * x[j]
+			}
+		} else {
+			lo, hi := t.start[i], t.start[i+1]
+			for k, j := range t.col[lo:hi] {
+				s += t.val[lo+k] * x[j]
+			}
+		}
+		if t.delta {
+			s += x[i]
 		}
 		nx[i] = s
 		y += c[i] * s
@@ -287,20 +301,22 @@ func (s *system) runDiscrete(kind inputKind, out []float64, z []float64) error {
 	for k := range u {
 		u[k] = discreteInput(kind, k, s.delaySamp, s.ts)
 	}
-	q := s.newSequence()
-	q.run(u, out)
+	s.newSequence().run(u, out)
 	if z != nil {
-		s.addFree(q.a, z, out)
+		s.addFree(newTransition(flat(s.m.A), s.n), z, out)
 	}
 	return nil
 }
 
 // sequence runs the difference equation x[k+1] = A·x[k] + B·u[k],
 // y[k] = C·x[k] + D·u[k] of a discrete system from rest; successive calls
-// of run continue where the last one stopped.
+// of run continue where the last one stopped. A system whose poles crowd
+// at z = 1 runs in the δ form instead (deltaform.go); its state is then
+// not the companion state of s.m (free responses use s.m).
 type sequence struct {
 	s     *system
 	a     transition
+	b, c  []float64
 	x, nx []float64
 	y     float64 // C·x of the current state
 }
@@ -308,7 +324,15 @@ type sequence struct {
 func (s *system) newSequence() *sequence {
 	q := &sequence{s: s}
 	if s.n > 0 {
-		q.a = newTransition(flat(s.m.A), s.n)
+		a, b, c, delta := s.m.A, s.m.B, s.m.C, false
+		if needsDelta(s.sys.Den().Coeffs()) {
+			if dm, err := s.deltaModel(); err == nil && dm.Order() == s.n {
+				a, b, c, delta = dm.A, dm.B, dm.C, true
+			}
+		}
+		q.a = newTransition(flat(a), s.n)
+		q.a.delta = delta
+		q.b, q.c = b, c
 		q.x = make([]float64, s.n)
 		q.nx = make([]float64, s.n)
 	}
@@ -326,7 +350,7 @@ func (q *sequence) run(u, out []float64) {
 	}
 	for k, v := range u {
 		out[k] = q.y + m.D*v
-		q.y = q.a.advance(q.x, q.nx, m.B, v, m.C)
+		q.y = q.a.advance(q.x, q.nx, q.b, v, q.c)
 		q.x, q.nx = q.nx, q.x
 	}
 }
