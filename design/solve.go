@@ -117,6 +117,12 @@ func Slack(r spec.Result) float64 {
 	if math.IsNaN(s) {
 		s = math.Inf(-1)
 	}
+	if r.Pass && s < 0 {
+		// A requirement kind whose name does not say "minimum" or
+		// "maximum" (a kind newer than this package): the verdict decides
+		// the orientation.
+		s = -s
+	}
 	if !r.Pass && s >= 0 {
 		return math.Inf(-1)
 	}
