@@ -90,7 +90,7 @@ func TestKharitonovReducedSets(t *testing.T) {
 				return a
 			}
 			var want bool
-			margin := math.Inf(1)
+			var margin float64
 			if n == 3 {
 				want, margin = hurwitz3(pick(true, false, false, true))
 			} else {
