@@ -235,7 +235,13 @@ func (a *analysis) robustStage() {
 		return
 	}
 	if lf.Discretize != nil {
-		a.warn("robust: a loop converted by \"discretize\" is not analysed over its uncertain parameters; write it in z with \"sample_time_sec\"; the robust keys are null")
+		// The discretization of a parameter-dependent plant (zero-order
+		// hold: matrix exponentials of A(p)·T) is not polynomial in the
+		// parameters, so the coefficient recovery of robust.NewLoop (exact
+		// interpolation, verified) fails or would be a silent approximation;
+		// interval bounds of the sampled response over a subdivided box
+		// are not implemented. No guess: the section is left out.
+		a.warn("robust: a loop converted by \"discretize\" is not analysed over its uncertain parameters: its discrete coefficients are not polynomial in the parameters (they come from exponentials of the sampled plant), which the guaranteed methods require; write the loop in z with \"sample_time_sec\" (coefficients polynomial in the parameters) or analyse it continuous; the robust keys are null")
 		return
 	}
 	d, err := lf.robustDescription()

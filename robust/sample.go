@@ -29,6 +29,13 @@ type SampleSettings struct {
 	Progress func(done, total int)
 	// Spec is passed to spec.CheckWith for every sample.
 	Spec *spec.Settings
+	// KeepSamples is how many samples (the first ones, indexes 0, 1, …)
+	// are kept one by one in SampleResult.Values and the per-sample margin
+	// slices, e.g. for histograms. The other statistics (probabilities,
+	// Summary) are accumulated on the fly over every sample, so memory does
+	// not grow with Samples beyond the kept ones. If zero, defaults to
+	// 100 000; negative keeps none.
+	KeepSamples int
 }
 
 // Probability is an estimated probability with its Wilson score interval
@@ -78,14 +85,18 @@ type SampleResult struct {
 	Stable Probability
 	// Requirements has one entry per requirement, in order.
 	Requirements []RequirementProbability
-	// Values[i] are the parameter values of sample i; the per-sample
-	// margins follow (NaN where undefined or not done; gain margin +Inf
+	// Values[i] are the parameter values of sample i, for the first
+	// SampleSettings.KeepSamples samples only; the per-sample margins of
+	// those follow (NaN where undefined or not done; gain margin +Inf
 	// without phase crossover).
 	Values          [][]float64
 	PhaseMarginDeg  []float64
 	GainMarginDB    []float64
 	DelayMarginSec  []float64
 	PeakSensitivity []float64
+	// Summary has the smallest and largest finite value of each margin
+	// over every sample done (kept or not), with where they occur.
+	Summary MarginSummaries
 	// AnalysisErrors counts samples whose analysis returned an error
 	// (counted as failing every requirement).
 	AnalysisErrors int
@@ -101,9 +112,8 @@ func MonteCarlo(ctx context.Context, l *Loop, req spec.Requirements, set *Sample
 	if err != nil {
 		return SampleResult{}, err
 	}
-	draw := func(i int) []float64 {
+	draw := func(v []float64, i int) []float64 {
 		rng := rand.New(rand.NewPCG(s.Seed, uint64(i)))
-		v := make([]float64, len(l.desc.Params))
 		for k, p := range l.desc.Params {
 			v[k] = drawParam(rng, p)
 		}
@@ -127,8 +137,7 @@ func Grid(ctx context.Context, l *Loop, req spec.Requirements, pointsPerParam in
 		}
 		total *= pointsPerParam
 	}
-	draw := func(i int) []float64 {
-		v := make([]float64, n)
+	draw := func(v []float64, i int) []float64 {
 		for k, p := range l.desc.Params {
 			j := i % pointsPerParam
 			i /= pointsPerParam
@@ -153,6 +162,12 @@ func (s *SampleSettings) withDefaults() (SampleSettings, error) {
 	if out.Workers == 0 {
 		out.Workers = runtime.GOMAXPROCS(0)
 	}
+	switch {
+	case out.KeepSamples == 0:
+		out.KeepSamples = 100_000
+	case out.KeepSamples < 0:
+		out.KeepSamples = 0
+	}
 	return out, nil
 }
 
@@ -175,95 +190,182 @@ func drawParam(rng *rand.Rand, p Param) float64 {
 	return p.Min + (p.Max-p.Min)*rng.Float64()
 }
 
-type sampleOut struct {
-	stable bool
-	pass   []bool
-	err    bool
+// chunk is the number of consecutive samples a worker takes at a time: the
+// shared counter is touched once per chunk, not once per sample.
+const chunk = 16
+
+// accumulator holds one worker's statistics; workers share nothing while
+// they run (no mutex, no shared slice but the kept-sample prefix, written at
+// distinct indexes), and the accumulators are merged in worker order at the
+// end. Every merged statistic is an integer count or a minimum/maximum with
+// ties broken by the lowest sample index, so the result does not depend on
+// the number of workers or on the order in which samples finish.
+type accumulator struct {
+	done, stable, errs int
+	passed             []int
+	extremes           [4]MarginSummary
 }
 
-func run(ctx context.Context, l *Loop, req spec.Requirements, s SampleSettings, total int, draw func(int) []float64) (SampleResult, error) {
+func newAccumulator(nreq int) accumulator {
+	a := accumulator{passed: make([]int, nreq)}
+	for k := range a.extremes {
+		a.extremes[k] = MarginSummary{Min: math.NaN(), Max: math.NaN(), MinSample: -1, MaxSample: -1}
+	}
+	return a
+}
+
+// MarginSummaries are the streaming summaries of the four margins.
+type MarginSummaries struct {
+	PhaseMarginDeg, GainMarginDB, DelayMarginSec, PeakSensitivity MarginSummary
+}
+
+// MarginSummary is the streaming summary of one margin over every sample
+// done: how many samples have a finite value, and the smallest and largest
+// of them with the sample index and parameter values where each occurs
+// (the lowest index on ties). Min and Max are NaN and the indexes −1 when
+// no sample has a finite value.
+type MarginSummary struct {
+	Finite               int
+	Min, Max             float64
+	MinSample, MaxSample int
+	MinAt, MaxAt         []float64
+}
+
+func (m *MarginSummary) add(x float64, i int, v []float64) {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return
+	}
+	m.Finite++
+	if m.MinSample < 0 || x < m.Min || (x == m.Min && i < m.MinSample) {
+		m.Min, m.MinSample, m.MinAt = x, i, append(m.MinAt[:0], v...)
+	}
+	if m.MaxSample < 0 || x > m.Max || (x == m.Max && i < m.MaxSample) {
+		m.Max, m.MaxSample, m.MaxAt = x, i, append(m.MaxAt[:0], v...)
+	}
+}
+
+func (m *MarginSummary) merge(o MarginSummary) {
+	m.Finite += o.Finite
+	if o.MinSample >= 0 && (m.MinSample < 0 || o.Min < m.Min || (o.Min == m.Min && o.MinSample < m.MinSample)) {
+		m.Min, m.MinSample, m.MinAt = o.Min, o.MinSample, o.MinAt
+	}
+	if o.MaxSample >= 0 && (m.MaxSample < 0 || o.Max > m.Max || (o.Max == m.Max && o.MaxSample < m.MaxSample)) {
+		m.Max, m.MaxSample, m.MaxAt = o.Max, o.MaxSample, o.MaxAt
+	}
+}
+
+func run(ctx context.Context, l *Loop, req spec.Requirements, s SampleSettings, total int, draw func(dst []float64, i int) []float64) (SampleResult, error) {
+	kept := min(total, s.KeepSamples)
 	res := SampleResult{Requested: total, Seed: s.Seed,
-		Values: make([][]float64, total), PhaseMarginDeg: nanSlice(total), GainMarginDB: nanSlice(total),
-		DelayMarginSec: nanSlice(total), PeakSensitivity: nanSlice(total)}
-	outs := make([]sampleOut, total)
-	done := make([]bool, total)
+		Values: make([][]float64, kept), PhaseMarginDeg: nanSlice(kept), GainMarginDB: nanSlice(kept),
+		DelayMarginSec: nanSlice(kept), PeakSensitivity: nanSlice(kept)}
 	var next, count atomic.Int64
 	var mu sync.Mutex
 	step := int64(max(1, total/100))
+	nextReport := atomic.Int64{}
+	nextReport.Store(step)
+	workers := min(s.Workers, (total+chunk-1)/chunk)
+	accs := make([]accumulator, workers)
 	var wg sync.WaitGroup
-	for range min(s.Workers, total) {
+	for w := range workers {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
+			acc := newAccumulator(len(req))
+			defer func() { accs[w] = acc }()
+			v := make([]float64, len(l.desc.Params))
 			for {
 				if ctx.Err() != nil {
 					return
 				}
-				i := int(next.Add(1) - 1)
-				if i >= total {
+				lo := int(next.Add(chunk) - chunk)
+				if lo >= total {
 					return
 				}
-				v := draw(i)
-				res.Values[i] = v
-				o := sampleOut{pass: make([]bool, len(req))}
-				g, err := l.At(v)
-				if err != nil {
-					o.err = true
-				} else {
-					m, err := margins.Compute(g, nil)
-					if err != nil {
-						o.err = true
-					} else {
-						o.stable = m.ClosedLoopStable
-						res.PhaseMarginDeg[i], res.GainMarginDB[i] = m.PhaseMarginDeg, m.GainMarginDB
-						res.DelayMarginSec[i], res.PeakSensitivity[i] = m.DelayMarginSec, m.PeakSensitivity
+				hi := min(lo+chunk, total)
+				for i := lo; i < hi; i++ {
+					if ctx.Err() != nil {
+						return
 					}
-					if len(req) > 0 {
-						rep := spec.CheckWith(g, req, s.Spec)
-						for k, r := range rep.Results {
-							o.pass[k] = r.Pass
-						}
-					}
+					v = draw(v, i)
+					acc.sample(l, req, s.Spec, i, v, &res, kept)
 				}
-				outs[i] = o
-				done[i] = true
-				if c := count.Add(1); s.Progress != nil && (c%step == 0 || c == int64(total)) {
+				c := count.Add(int64(hi - lo))
+				if s.Progress != nil && (c >= nextReport.Load() || c == int64(total)) {
 					mu.Lock()
-					s.Progress(int(c), total)
+					if c >= nextReport.Load() || c == int64(total) {
+						nextReport.Store(c + step)
+						s.Progress(int(c), total)
+					}
 					mu.Unlock()
 				}
 			}
 		}()
 	}
 	wg.Wait()
-	passed := make([]int, len(req))
-	stable := 0
-	for i, o := range outs {
-		if !done[i] {
-			continue
+	sum := newAccumulator(len(req))
+	for _, a := range accs {
+		sum.done += a.done
+		sum.stable += a.stable
+		sum.errs += a.errs
+		for k := range a.passed {
+			sum.passed[k] += a.passed[k]
 		}
-		res.Done++
-		if o.err {
-			res.AnalysisErrors++
-		}
-		if o.stable {
-			stable++
-		}
-		for k, p := range o.pass {
-			if p {
-				passed[k]++
-			}
+		for k := range a.extremes {
+			sum.extremes[k].merge(a.extremes[k])
 		}
 	}
-	res.Stable = Wilson(stable, res.Done)
+	res.Done, res.AnalysisErrors = sum.done, sum.errs
+	res.Summary = MarginSummaries{PhaseMarginDeg: sum.extremes[0], GainMarginDB: sum.extremes[1],
+		DelayMarginSec: sum.extremes[2], PeakSensitivity: sum.extremes[3]}
+	res.Stable = Wilson(sum.stable, res.Done)
 	for k, r := range req {
-		res.Requirements = append(res.Requirements, RequirementProbability{Name: r.String(), Key: r.Key(), Probability: Wilson(passed[k], res.Done)})
+		res.Requirements = append(res.Requirements, RequirementProbability{Name: r.String(), Key: r.Key(), Probability: Wilson(sum.passed[k], res.Done)})
 	}
 	if res.Done < total {
 		res.Partial = true
 		return res, fmt.Errorf("%w: %d of %d samples done: %w", ErrCanceled, res.Done, total, ctx.Err())
 	}
 	return res, nil
+}
+
+// sample analyses sample i at values v into the worker's accumulator, and
+// stores it in res if i is among the kept samples (each index is written by
+// one worker only).
+func (a *accumulator) sample(l *Loop, req spec.Requirements, set *spec.Settings, i int, v []float64, res *SampleResult, kept int) {
+	a.done++
+	if i < kept {
+		res.Values[i] = append([]float64(nil), v...)
+	}
+	g, err := l.At(v)
+	if err != nil {
+		a.errs++
+		return
+	}
+	m, err := margins.Compute(g, nil)
+	if err != nil {
+		a.errs++
+	} else {
+		if m.ClosedLoopStable {
+			a.stable++
+		}
+		vals := [4]float64{m.PhaseMarginDeg, m.GainMarginDB, m.DelayMarginSec, m.PeakSensitivity}
+		for k, x := range vals {
+			a.extremes[k].add(x, i, v)
+		}
+		if i < kept {
+			res.PhaseMarginDeg[i], res.GainMarginDB[i] = m.PhaseMarginDeg, m.GainMarginDB
+			res.DelayMarginSec[i], res.PeakSensitivity[i] = m.DelayMarginSec, m.PeakSensitivity
+		}
+	}
+	if len(req) > 0 {
+		rep := spec.CheckWith(g, req, set)
+		for k, r := range rep.Results {
+			if r.Pass {
+				a.passed[k]++
+			}
+		}
+	}
 }
 
 func nanSlice(n int) []float64 {

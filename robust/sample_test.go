@@ -10,6 +10,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/loopwise/loopwise/margins"
 	"github.com/loopwise/loopwise/spec"
 )
 
@@ -54,7 +55,7 @@ func TestMonteCarloDeterministic(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if fmt.Sprint(a.PhaseMarginDeg) != fmt.Sprint(b.PhaseMarginDeg) || a.Requirements[0] != b.Requirements[0] || a.Requirements[1] != b.Requirements[1] {
+	if fmt.Sprint(a.PhaseMarginDeg) != fmt.Sprint(b.PhaseMarginDeg) || fmt.Sprint(a.Summary) != fmt.Sprint(b.Summary) || a.Requirements[0] != b.Requirements[0] || a.Requirements[1] != b.Requirements[1] {
 		t.Fatal("results depend on the number of workers")
 	}
 	if calls.Load() == 0 {
@@ -106,6 +107,57 @@ func TestMillionSamplesCancelled(t *testing.T) {
 	}
 	if r.Done == 0 || r.Done >= 1_000_000 || r.Requirements[0].Samples != r.Done {
 		t.Fatalf("done %d, requirement over %d", r.Done, r.Requirements[0].Samples)
+	}
+}
+
+// 10⁵ samples of stability and margins on one worker and on two: every
+// statistic must be identical (the streams are per sample, the merged
+// statistics are counts and index-tie-broken extremes), only the first
+// KeepSamples samples are held one by one, and the streamed extremes agree
+// with the kept prefix where that prefix holds them.
+func TestHundredThousandDeterministic(t *testing.T) {
+	if testing.Short() {
+		t.Skip("10⁵ samples twice: run without -short")
+	}
+	l := pickLoop(t)
+	const n = 100_000
+	var res [2]SampleResult
+	for k, w := range []int{1, 2} {
+		r, err := MonteCarlo(context.Background(), l, nil, &SampleSettings{Samples: n, Seed: 11, Workers: w, KeepSamples: 1000})
+		if err != nil {
+			t.Fatal(err)
+		}
+		res[k] = r
+	}
+	a, b := res[0], res[1]
+	if a.Done != n || b.Done != n || a.Partial || b.Partial {
+		t.Fatalf("done %d and %d of %d", a.Done, b.Done, n)
+	}
+	if len(a.Values) != 1000 || len(a.PhaseMarginDeg) != 1000 {
+		t.Fatalf("%d samples kept, want 1000", len(a.Values))
+	}
+	if a.Stable != b.Stable || fmt.Sprint(a.Summary) != fmt.Sprint(b.Summary) ||
+		fmt.Sprint(a.PhaseMarginDeg) != fmt.Sprint(b.PhaseMarginDeg) || fmt.Sprint(a.Values) != fmt.Sprint(b.Values) {
+		t.Fatalf("1 and 2 workers differ:\n%+v\n%+v", a.Summary, b.Summary)
+	}
+	// The streamed minimum is a value the loop really has at its point, and
+	// no kept sample is below it.
+	pm := a.Summary.PhaseMarginDeg
+	g, err := l.At(pm.MinAt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m, err := margins.Compute(g, nil)
+	if err != nil || m.PhaseMarginDeg != pm.Min {
+		t.Fatalf("min PM %v at %v, recomputed %v (%v)", pm.Min, pm.MinAt, m.PhaseMarginDeg, err)
+	}
+	for i, x := range a.PhaseMarginDeg {
+		if x < pm.Min {
+			t.Fatalf("kept sample %d has PM %v below the streamed minimum %v", i, x, pm.Min)
+		}
+	}
+	if pm.Finite != n || a.Stable.Passed != n {
+		t.Fatalf("%d finite phase margins, %d stable of %d (the box is stable by Routh)", pm.Finite, a.Stable.Passed, n)
 	}
 }
 

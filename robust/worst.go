@@ -373,7 +373,9 @@ type RequirementResult struct {
 	Requirement spec.Requirement
 	Verdict     RequirementVerdict
 	// At is the violating point (ViolatedAtPoint), in the order of
-	// Loop.Params; Value the value measured there.
+	// Loop.Params; Value the value measured there. For a steady-state
+	// error met for the whole box, Value is the proven bound on |e|;
+	// otherwise NaN.
 	At    []float64
 	Value float64
 	// Message says how the verdict was reached.
@@ -395,8 +397,14 @@ var boundQuantity = map[string]Quantity{
 // centre, corners, random and compass-search points), met for the whole box
 // (the box is proven stable and the requirement's limit proven by the
 // zero-exclusion families of WorstCases — margins, Ms and damping ratio), or
-// undecided (time-domain and steady-state requirements have no proof method
-// here: they are either violated at a point or undecided).
+// undecided. The steady-state error to a unit step is rational in the
+// parameters and is bounded over the box by interval arithmetic
+// (steadyStateBound: met for the whole box when |e| ≤ limit is proven, Value
+// then being the proven bound). Step-response metrics (overshoot, rise and
+// settling time) get no guarantee: they are not rational functions of the
+// parameters and no enclosure of the time response is computed here, so
+// they are either violated at a point or undecided with the searched points
+// met.
 func CheckRequirements(l *Loop, req spec.Requirements, specSet *spec.Settings, set *WorstSettings) ([]RequirementResult, error) {
 	s, err := set.withDefaults()
 	if err != nil {
@@ -443,8 +451,15 @@ func CheckRequirements(l *Loop, req spec.Requirements, specSet *spec.Settings, s
 		switch {
 		case st.Verdict != StableForBox:
 			out[k].Message = "undecided: the box is not proven stable (" + st.Verdict.String() + ")"
+		case r.Key() == "max_steady_state_error":
+			if proved, b := l.steadyStateBound(r.Limit(), s.CellsPerProof); proved {
+				out[k].Verdict, out[k].Value = MetForBox, b
+				out[k].Message = fmt.Sprintf("met for the whole box: |e| ≤ %.6g proven by interval arithmetic on D(0)/(D(0) + N(0)) over the box", b)
+			} else {
+				out[k].Message = fmt.Sprintf("undecided: met at %d searched points, bound not proven within %d sub-boxes", len(pts), s.CellsPerProof)
+			}
 		case !ok:
-			out[k].Message = fmt.Sprintf("undecided: met at %d searched points; no guaranteed method for this time-domain or steady-state quantity", len(pts))
+			out[k].Message = fmt.Sprintf("undecided: met at %d searched points; no guarantee is given for step-response metrics (overshoot, rise, settling): they are not rational in the parameters and have no enclosure method here", len(pts))
 		case l.prove(q, r.Limit(), s.CellsPerProof):
 			out[k].Verdict = MetForBox
 			out[k].Message = "met for the whole box: proven by zero exclusion over the box"
@@ -464,4 +479,74 @@ func (l *Loop) scaledOf(v []float64) []float64 {
 		}
 	}
 	return t
+}
+
+// steadyStateBound tries to prove |e| ≤ limit over the whole box for the
+// steady-state error to a unit step, e = 1/(1 + L(0)) = D(0)/(D(0) + N(0))
+// (continuous; dead time does not change L(0)) or D(1)/(D(1) + N(1))
+// (discrete), a rational function of the parameters. With the box proven
+// stable, a denominator D(0) (D(1)) that is the zero polynomial means an
+// integrator in every loop of the box: e = 0 exactly. Otherwise D(0) and
+// N(0) are enclosed by outward-rounded interval arithmetic on sub-boxes,
+// bisected (widest parameter first) until every sub-box gives
+// |e| ≤ limit with D + N excluding zero, or maxCells sub-boxes are used.
+// It returns whether the limit is proven and the largest proven |e| bound.
+func (l *Loop) steadyStateBound(limit float64, maxCells int) (bool, float64) {
+	at := func(ps []mpoly) mpoly {
+		if l.desc.SampleTimeSec == 0 {
+			if len(ps) == 0 {
+				return mpoly{}
+			}
+			return ps[0]
+		}
+		w := make([]float64, len(ps))
+		for k := range w {
+			w[k] = 1
+		}
+		return combine(ps, w, len(l.mid))
+	}
+	d, n := at(l.den), at(l.num)
+	if d.isZero() {
+		return true, 0
+	}
+	box := make([]interval, len(l.mid))
+	for i := range box {
+		box[i] = interval{-1, 1}
+	}
+	queue := [][]interval{box}
+	worst := 0.0
+	for cells := 0; len(queue) > 0; cells++ {
+		if cells >= maxCells {
+			return false, math.NaN()
+		}
+		c := queue[len(queue)-1]
+		queue = queue[:len(queue)-1]
+		di, ni := d.evalInterval(c), n.evalInterval(c)
+		si := di.add(ni)
+		if !si.contains0() {
+			q := []float64{di.lo / si.lo, di.lo / si.hi, di.hi / si.lo, di.hi / si.hi}
+			m := 0.0
+			for _, x := range q {
+				m = math.Max(m, math.Abs(x))
+			}
+			m = up(up(m)) // the quotients are rounded to nearest: widen
+			if m <= limit {
+				worst = math.Max(worst, m)
+				continue
+			}
+		}
+		k := 0
+		for i := range c {
+			if c[i].width() > c[k].width() {
+				k = i
+			}
+		}
+		if c[k].width() < 1e-9 {
+			return false, math.NaN()
+		}
+		a, b := append([]interval(nil), c...), append([]interval(nil), c...)
+		a[k].hi, b[k].lo = c[k].mid(), c[k].mid()
+		queue = append(queue, a, b)
+	}
+	return true, worst
 }

@@ -2,6 +2,7 @@ package robust
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/loopwise/loopwise/spec"
@@ -89,5 +90,33 @@ func TestCheckRequirements(t *testing.T) {
 				t.Errorf("%v: reported violated at %v but passes there", req[k], r.At)
 			}
 		}
+	}
+}
+
+// Steady-state error to a unit step over the box, closed form: for
+// L = k/((s + 1)(s + 2)), e = 1/(1 + k/2) = 2/(2 + k), so k ∈ [2, 4] gives
+// e ∈ [1/3, 1/2], largest at k = 2; with an integrator, e = 0 for every k.
+func TestSteadyStateErrorOverBox(t *testing.T) {
+	l := mustLoop(t, Description{Expressions: []string{"k/((s + 1)*(s + 2))"}, Params: []Param{{Name: "k", Min: 2, Max: 4}}})
+	res, err := CheckRequirements(l, spec.Requirements{spec.MaxSteadyStateError(0.51), spec.MaxSteadyStateError(0.45), spec.MaxOvershootPct(90)}, nil, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r := res[0]; r.Verdict != MetForBox || r.Value < 0.5 || r.Value > 0.51 {
+		t.Fatalf("limit 0.51: %v, bound %v (%s); want met with a bound in [0.5, 0.51]", r.Verdict, r.Value, r.Message)
+	}
+	if r := res[1]; r.Verdict != ViolatedAtPoint || math.Abs(r.Value-2/(2+r.At[0])) > 1e-9 || r.Value <= 0.45 {
+		t.Fatalf("limit 0.45: %v at %v, value %v; want violated with e = 2/(2 + k)", r.Verdict, r.At, r.Value)
+	}
+	if r := res[2]; r.Verdict != RequirementUndecided || !strings.Contains(r.Message, "no guarantee") {
+		t.Fatalf("overshoot: %v (%s); want undecided with the reason", r.Verdict, r.Message)
+	}
+	l = mustLoop(t, Description{Expressions: []string{"k/(s*(s + 1))"}, Params: []Param{{Name: "k", Min: 0.5, Max: 1}}})
+	res, err = CheckRequirements(l, spec.Requirements{spec.MaxSteadyStateError(1e-12)}, nil, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r := res[0]; r.Verdict != MetForBox || r.Value != 0 {
+		t.Fatalf("integrator: %v, bound %v (%s)", r.Verdict, r.Value, r.Message)
 	}
 }
