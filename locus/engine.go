@@ -427,7 +427,7 @@ func (t *tracer) checkStep(s, pred, corr []complex128, active []bool, tan []comp
 		if !active[i] {
 			continue
 		}
-		lim := t.chordAbs * math.Max(1, cabs(corr[i]-t.centre)/t.scale)
+		lim := t.chordLimit(s[i], corr[i])
 		ch := cabs(corr[i] - s[i])
 		ratio = math.Max(ratio, ch/lim)
 		if ch > lim {
@@ -621,3 +621,24 @@ func (t *tracer) traceToEnd(nd node, end node) ([][]Point, []int, error) {
 	}
 	return paths, to, err
 }
+
+// chordLimit returns the largest accepted chord of a step from s to c:
+// ChordTolerance × the view's half-diagonal within chordHoldRadius
+// half-diagonals of the view's centre (the whole view and a margin
+// around it), growing as the cube of the distance beyond. Far from the
+// view a branch is nearly straight and off the plot, and a limit that
+// grows with the distance keeps the number of steps there bounded
+// (∫ dx/x³ converges) instead of growing with the logarithm of the range
+// end: at n = 2 it took ≈ 1550 steps per branch to match a 2000-gain grid's
+// chord, most of them outside the view.
+func (t *tracer) chordLimit(s, c complex128) float64 {
+	x := math.Min(cabs(s-t.centre), cabs(c-t.centre)) / (chordHoldRadius * t.scale)
+	if x <= 1 {
+		return t.chordAbs
+	}
+	return t.chordAbs * x * x * x
+}
+
+// chordHoldRadius is the radius, in half-diagonals of the view, of the
+// disc about the view's centre within which the chord limit is held.
+const chordHoldRadius = 1.25

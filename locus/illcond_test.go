@@ -75,4 +75,3 @@ func TestAnalysisNotPossible(t *testing.T) {
 		}
 	}
 }
-
