@@ -162,6 +162,7 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 	ntan := make([]complex128, n)
 	ntanOK := make([]bool, n)
 	steps := 0
+	reseeds := 0
 	for {
 		anyActive := false
 		for i := range n {
@@ -226,6 +227,18 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 			t.stats.RejectedSteps++
 			h *= 0.5
 			if h < 1e-14*math.Max(1, tc) {
+				if reseeds < maxReseeds && t.reseed(km, tc, tEnd, s, active, paths, tan, tanOK, acc) {
+					// Continue from the roots computed afresh a little
+					// further on (see reseed).
+					reseeds++
+					tc, _ = t.lastReseed()
+					for len(ways) > 0 && ways[0].t <= tc {
+						ways = ways[1:]
+					}
+					h = 1e-3 * math.Max(1, tEnd)
+					first = true
+					continue
+				}
 				return paths, s, fmt.Errorf("%w: step size underflow at %s = %v", ErrTraceFailed, p.variable, kn)
 			}
 			continue
@@ -435,6 +448,12 @@ func (t *tracer) checkStep(s, pred, corr []complex128, active []bool, tan []comp
 		}
 		if tanOK[i] && ntanOK[i] && ch > 1e-3*lim && tan[i] != 0 && ntan[i] != 0 {
 			a := math.Abs(cmplx.Phase(ntan[i] / tan[i]))
+			if a > t.r.angleTolRad && (t.tangentNoisy(s[i], km, tn) || t.tangentNoisy(corr[i], km, tn)) {
+				// The tangent −b/P′ is rounding noise here (P′ is
+				// below the rounding error of its evaluation, as inside
+				// an ill-conditioned cluster): its turn says nothing.
+				continue
+			}
 			ratio = math.Max(ratio, a/t.r.angleTolRad)
 			if a > t.r.angleTolRad {
 				return ratio, false
@@ -642,3 +661,60 @@ func (t *tracer) chordLimit(s, c complex128) float64 {
 // chordHoldRadius is the radius, in half-diagonals of the view, of the
 // disc about the view's centre within which the chord limit is held.
 const chordHoldRadius = 1.25
+
+// tangentNoisy reports whether the derivative P′ = a′ + k·b′ at x is not
+// known to 10 % in double precision: its value is below ten times the
+// rounding bound 2n·u·(Σ|i·aᵢ||x|^(i−1) + |k|·Σ|i·bᵢ||x|^(i−1)) of its
+// evaluation (Higham 2002, Accuracy and Stability of Numerical
+// Algorithms, 2nd ed., §5.1), so the tangent direction is noise.
+func (t *tracer) tangentNoisy(x complex128, km kMap, tt float64) bool {
+	p := t.p
+	k, _ := km(tt)
+	_, df := p.eval(x, k)
+	ax := cabs(x)
+	m := absEval(p.ad, ax) + math.Abs(k)*absEval(p.bd, ax)
+	return cabs(df) <= 10*2*float64(p.order)*0x1p-53*m
+}
+
+// maxReseeds bounds the restarts from computed roots in one cont call.
+const maxReseeds = 8
+
+// reseed handles a continuation that is stuck (the step size underflowed)
+// because some roots are ill-conditioned: inside a tight cluster of roots
+// of a high-order a + k·b, double precision fixes the roots only to a
+// fraction of their spacing, and Newton's method from a predicted point
+// lands anywhere in the cluster. It computes every root of a + k·b afresh
+// (poly's root finder) a little further on, at t = tc + 1e-3·max(1, tEnd),
+// pairs them with the current positions by the nearest-set matching, adds
+// the new points and records a note. It reports false when the roots
+// cannot be computed or some position is not finite.
+func (t *tracer) reseed(km kMap, tc, tEnd float64, s []complex128, active []bool, paths [][]Point, tan []complex128, tanOK []bool, acc []complex128) bool {
+	for _, x := range s {
+		if cmplx.IsInf(x) || cmplx.IsNaN(x) {
+			return false
+		}
+	}
+	tn := math.Min(tc+1e-3*math.Max(1, tEnd), tEnd)
+	kn, _ := km(tn)
+	raw, err := fastRoots(t.p.charPoly(kn))
+	t.stats.RootSolves++
+	if err != nil || len(raw) != len(s) {
+		return false
+	}
+	perm, _ := matchSets(s, raw)
+	for i := range s {
+		s[i] = raw[perm[i]]
+		if active[i] {
+			paths[i] = append(paths[i], Point{Value: kn, S: s[i]})
+			t.traced++
+			tan[i], tanOK[i] = t.tangent(s[i], km, tn)
+			acc[i] = 0
+		}
+	}
+	t.reseedAt = tn
+	t.notes = append(t.notes, fmt.Sprintf("the roots near %s = %.6g are too ill-conditioned to follow by continuation in double precision; the trace continues from the roots computed at that value", t.p.variable, kn))
+	return true
+}
+
+// lastReseed returns the parameter of the last reseed.
+func (t *tracer) lastReseed() (float64, bool) { return t.reseedAt, true }
