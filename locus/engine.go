@@ -357,6 +357,17 @@ func hornerD(c []float64, s complex128) (v, d complex128) {
 	return v, d
 }
 
+// hornerD2 returns q(s), q′(s) and q″(s) for the coefficients c (lowest
+// power first).
+func hornerD2(c []float64, s complex128) (v, d, dd complex128) {
+	for i := len(c) - 1; i >= 0; i-- {
+		dd = dd*s + 2*d
+		d = d*s + v
+		v = v*s + complex(c[i], 0)
+	}
+	return v, d, dd
+}
+
 // newtonCoeffs corrects s to a root of a + k·b by Newton's method, with
 // c the coefficients of a + k·b (charCoeffs). It stops when
 // the correction falls below 1e-12 relative, or when it stagnates at the
@@ -372,8 +383,12 @@ func (t *tracer) newtonCoeffs(s complex128, k float64, c []float64) (complex128,
 	var df complex128
 	for it := range 12 {
 		t.stats.NewtonIterations++
-		var f complex128
-		f, df = hornerD(c, s)
+		var f, ddf complex128
+		if it == 0 {
+			f, df, ddf = hornerD2(c, s)
+		} else {
+			f, df = hornerD(c, s)
+		}
 		if df == 0 {
 			return s, df, p.b.EvalComplex(s), false
 		}
@@ -382,6 +397,14 @@ func (t *tracer) newtonCoeffs(s complex128, k float64, c []float64) (complex128,
 		d2 := real(d)*real(d) + imag(d)*imag(d)
 		if !(d2 < math.Inf(1)) {
 			return s, df, 0, false // NaN or Inf
+		}
+		// After the first step, the next Newton correction is about
+		// |d|²·|P″|/(2|P′|) (Kantorovich; Allgower & Georg 2003, §3.3:
+		// the corrector of a predictor–corrector method needs only as
+		// many steps as the predictor error requires); when that is
+		// below the tolerance the first step already is the root.
+		if it == 0 && d2*cabs(ddf)/(2*cabs(df)) <= 0.25*tol {
+			return s, df, p.b.EvalComplex(s), true
 		}
 		// Quadratic convergence: the next correction is about
 		// |d|²/|d_prev|; stop when it would be below the tolerance.
