@@ -72,3 +72,48 @@ func TestBreakPointsHighOrder(t *testing.T) {
 		})
 	}
 }
+
+// BenchmarkHarnessLoops times Analyze and Trace on the order-12, 16 and 24
+// loops of the project's performance harness (../shared/perf; the
+// coefficients are those of testdata/breaks_highorder.json) over their
+// gain span K0·[1e-4, 1e4], at the default chord tolerance.
+func BenchmarkHarnessLoops(b *testing.B) {
+	raw, err := os.ReadFile("testdata/breaks_highorder.json")
+	if err != nil {
+		b.Fatal(err)
+	}
+	var loops []struct {
+		Name       string
+		N, D       []float64
+		Kmin, Kmax float64
+	}
+	if err := json.Unmarshal(raw, &loops); err != nil {
+		b.Fatal(err)
+	}
+	for _, l := range loops {
+		n, d := slices.Clone(l.N), slices.Clone(l.D)
+		slices.Reverse(n)
+		slices.Reverse(d)
+		g, err := tf.New(n, d)
+		if err != nil {
+			b.Fatal(err)
+		}
+		set := &Settings{Range: Range{Min: l.Kmin, Max: l.Kmax}}
+		b.Run("Analyze/"+l.Name, func(b *testing.B) {
+			for b.Loop() {
+				if _, err := Analyze(g, set); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+		b.Run("Trace/"+l.Name, func(b *testing.B) {
+			var loc Locus
+			for b.Loop() {
+				if loc, err = Trace(g, set); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(loc.Stats.Points), "points/op")
+		})
+	}
+}
