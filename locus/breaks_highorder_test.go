@@ -17,30 +17,11 @@ import (
 // the unexpanded a′b − ab′ (polishBreak), the order-24 loop's were 1.2e-7
 // off in s and 1.6e-10 in k.
 func TestBreakPointsHighOrder(t *testing.T) {
-	raw, err := os.ReadFile("testdata/breaks_highorder.json")
-	if err != nil {
-		t.Fatal(err)
-	}
-	var loops []struct {
-		Name       string
-		N, D       []float64
-		Kmin, Kmax float64
-		Breaks     [][2]string
-	}
-	if err := json.Unmarshal(raw, &loops); err != nil {
-		t.Fatal(err)
-	}
+	loops := loadHarnessLoops(t)
 	const tol = 4 * 0x1p-53
 	for _, l := range loops {
 		t.Run(l.Name, func(t *testing.T) {
-			n, d := slices.Clone(l.N), slices.Clone(l.D)
-			slices.Reverse(n)
-			slices.Reverse(d)
-			g, err := tf.New(n, d)
-			if err != nil {
-				t.Fatal(err)
-			}
-			an, err := Analyze(g, &Settings{Range: Range{Min: l.Kmin, Max: l.Kmax}})
+			an, err := Analyze(l.loop, &Settings{Range: Range{Min: l.Kmin, Max: l.Kmax}})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -78,26 +59,8 @@ func TestBreakPointsHighOrder(t *testing.T) {
 // coefficients are those of testdata/breaks_highorder.json) over their
 // gain span K0·[1e-4, 1e4], at the default chord tolerance.
 func BenchmarkHarnessLoops(b *testing.B) {
-	raw, err := os.ReadFile("testdata/breaks_highorder.json")
-	if err != nil {
-		b.Fatal(err)
-	}
-	var loops []struct {
-		Name       string
-		N, D       []float64
-		Kmin, Kmax float64
-	}
-	if err := json.Unmarshal(raw, &loops); err != nil {
-		b.Fatal(err)
-	}
-	for _, l := range loops {
-		n, d := slices.Clone(l.N), slices.Clone(l.D)
-		slices.Reverse(n)
-		slices.Reverse(d)
-		g, err := tf.New(n, d)
-		if err != nil {
-			b.Fatal(err)
-		}
+	for _, l := range loadHarnessLoops(b) {
+		g := l.loop
 		set := &Settings{Range: Range{Min: l.Kmin, Max: l.Kmax}}
 		b.Run("Analyze/"+l.Name, func(b *testing.B) {
 			for b.Loop() {
@@ -108,6 +71,7 @@ func BenchmarkHarnessLoops(b *testing.B) {
 		})
 		b.Run("Trace/"+l.Name, func(b *testing.B) {
 			var loc Locus
+			var err error
 			for b.Loop() {
 				if loc, err = Trace(g, set); err != nil {
 					b.Fatal(err)
@@ -116,4 +80,36 @@ func BenchmarkHarnessLoops(b *testing.B) {
 			b.ReportMetric(float64(loc.Stats.Points), "points/op")
 		})
 	}
+}
+
+// harnessLoop is a loop of testdata/breaks_highorder.json with its
+// transfer function and mpmath break points (s, k as decimal strings).
+type harnessLoop struct {
+	Name       string
+	N, D       []float64
+	Kmin, Kmax float64
+	Breaks     [][2]string
+	loop       tf.TF
+}
+
+// loadHarnessLoops reads testdata/breaks_highorder.json (ascending
+// coefficients) and builds each loop's transfer function.
+func loadHarnessLoops(tb testing.TB) []harnessLoop {
+	raw, err := os.ReadFile("testdata/breaks_highorder.json")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	var loops []harnessLoop
+	if err := json.Unmarshal(raw, &loops); err != nil {
+		tb.Fatal(err)
+	}
+	for i, l := range loops {
+		n, d := slices.Clone(l.N), slices.Clone(l.D)
+		slices.Reverse(n)
+		slices.Reverse(d)
+		if loops[i].loop, err = tf.New(n, d); err != nil {
+			tb.Fatal(err)
+		}
+	}
+	return loops
 }
