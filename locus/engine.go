@@ -161,6 +161,7 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 	corr := make([]complex128, n)
 	ntan := make([]complex128, n)
 	ntanOK := make([]bool, n)
+	mirror := make([]int, n)
 	steps := 0
 	reseeds := 0
 	for {
@@ -190,8 +191,14 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 		kn, dkn := km(tn)
 		coef := t.charCoeffs(kn)
 		ok := true
+		// A root that is the exact conjugate of another active root is
+		// not corrected itself: a + k·b has real coefficients and k is
+		// real, so its corrected point and tangent are the conjugates of
+		// its partner's (a conjugate pair stays one within a piece; it
+		// can only meet the real axis at a break point, which is a node).
+		findMirrors(s, active, mirror, first && hasCluster)
 		for i := range n {
-			if !active[i] {
+			if !active[i] || mirror[i] >= 0 {
 				continue
 			}
 			switch {
@@ -217,6 +224,14 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 				ntan[i], ntanOK[i] = -bv/df*complex(dkn, 0), true
 			} else {
 				ntan[i], ntanOK[i] = 0, false
+			}
+		}
+		if ok {
+			for i, j := range mirror {
+				if j >= 0 {
+					pred[i], corr[i] = cmplx.Conj(pred[j]), cmplx.Conj(corr[j])
+					ntan[i], ntanOK[i] = cmplx.Conj(ntan[j]), ntanOK[j]
+				}
 			}
 		}
 		ratio := 0.0
@@ -741,3 +756,29 @@ func (t *tracer) reseed(km kMap, tc, tEnd float64, s []complex128, active []bool
 
 // lastReseed returns the parameter of the last reseed.
 func (t *tracer) lastReseed() (float64, bool) { return t.reseedAt, true }
+
+// findMirrors sets mirror[i] to the index j of an active root with
+// s[j] = conj(s[i]) exactly, Im s[j] > 0, for every active root i in the
+// lower half plane (−1 otherwise, and for every root when off is true:
+// the first step out of a cluster follows Puiseux directions per member).
+// Each upper root mirrors at most one lower root.
+func findMirrors(s []complex128, active []bool, mirror []int, off bool) {
+	for i := range mirror {
+		mirror[i] = -1
+	}
+	if off {
+		return
+	}
+	for i, x := range s {
+		if !active[i] || imag(x) >= 0 {
+			continue
+		}
+		c := cmplx.Conj(x)
+		for j, y := range s {
+			if active[j] && y == c && !slices.Contains(mirror, j) {
+				mirror[i] = j
+				break
+			}
+		}
+	}
+}
