@@ -121,14 +121,15 @@
 // The project's harness (../shared/perf/compare) asks instead for the
 // trace at the largest ChordTolerance whose largest chord inside its own
 // window (±1.5·max|pole, zero|) is no longer than the grid's; in its quick
-// run (testdata/harness_quick.md, single repetitions on a loaded machine)
-// that gives 25× to 52× (family orders 2 to 24 and two textbook loops;
-// order 8 once measured 6× in a disturbed repetition), special points
-// exact to 4.3e-15, no branch swaps, Trace complete at orders 40 and 60,
-// and Analyze growing as n^3.0 from order 40 to 60. The trace's time goes
-// to Newton evaluations of a + k·b (about one to two per root and step)
-// and to one eigenvalue solve per special value; all roots advance with
-// one common step, so the fastest branch sets the step of all (the reason
+// run (testdata/harness_quick.md, single repetitions on a shared machine)
+// that gives 27.5× to 50× (family orders 2 to 24 and two textbook loops;
+// the goal of 30× is not met at orders 2 and 8), special points exact to
+// 4.3e-15, no branch swaps, Trace complete at orders 40 and 60, and
+// Analyze growing as n^2.8 from order 40 to 60. The trace's time goes to
+// Newton evaluations of a + k·b (one to two per root and step; the lower
+// root of an exact conjugate pair is mirrored, not corrected) and to one
+// eigenvalue solve per special value; all roots advance with one common
+// step, so the fastest branch sets the step of all (the reason
 // the ratio is lowest at small orders).
 //
 // # Invariants
