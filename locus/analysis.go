@@ -3,6 +3,7 @@ package locus
 import (
 	"cmp"
 	"math"
+	"math/big"
 	"math/cmplx"
 	"slices"
 
@@ -341,9 +342,11 @@ func wrap180(a float64) float64 {
 // breakPoints returns the roots s₀ of a′·b − a·b′ = 0 that are neither
 // poles nor zeros, at which k₀ = −a(s₀)/b(s₀) is real and in the range,
 // with branches = 1 + multiplicity of s₀ (Evans 1950; Ogata, Modern
-// Control Engineering, 5th ed., §6-2, rule 5). The roots come from poly,
-// already refined by Newton's method with a compensated residual; k₀ is
-// stationary there, so its error is second order in the error of s₀.
+// Control Engineering, 5th ed., §6-2, rule 5). The roots of the expanded
+// polynomial come from poly; each simple one is then polished against the
+// unexpanded form (polishBreak), whose rounding error is far smaller than
+// that of the expanded coefficients at high order. k₀ is stationary there,
+// so its error is second order in the error of s₀.
 func (p *problem) breakPoints() []BreakPoint {
 	B := p.ad.Mul(p.b).Sub(p.a.Mul(p.bd))
 	if B.Degree() < 1 {
@@ -359,7 +362,10 @@ func (p *problem) breakPoints() []BreakPoint {
 		if imag(s) < 0 {
 			continue // added with its conjugate
 		}
-		av, bv := p.a.EvalComplex(s), p.b.EvalComplex(s)
+		if r.Multiplicity == 1 {
+			s = p.polishBreak(s)
+		}
+		av, bv := evalComp(p.a, s), evalComp(p.b, s)
 		if p.atPoleOrZero(s) || av == 0 || bv == 0 {
 			continue // a multiple pole or zero: k₀ = 0 or ∞
 		}
@@ -401,4 +407,108 @@ func (p *problem) atPoleOrZero(s complex128) bool {
 		}
 	}
 	return false
+}
+
+// polishBreak refines a simple root s of B = a′·b − a·b′ by Newton's method
+// on the unexpanded form, B(s) = a′(s)·b(s) − a(s)·b′(s) and
+// B′(s) = a″(s)·b(s) − a(s)·b″(s), with a, a′, b, b′ evaluated by the
+// compensated Horner scheme (Graillat, Langlois & Louvet 2005, through
+// poly.EvalComplexCompensated). The roots of the expanded B carry the
+// rounding of its coefficients, u·Σ|Bᵢ||s|ⁱ, which exceeds u·|a′b| by
+// orders of magnitude at high order (1.2e-7 relative in s at n = 24); the
+// unexpanded residual only carries the latter. A real s stays real. The
+// iteration stops when the step falls below 2u·|s| or stops shrinking; a
+// step larger than 1e-3·|s| (the expanded root was not near a simple root
+// of the unexpanded form) is refused and s is returned unchanged.
+func (p *problem) polishBreak(s complex128) complex128 {
+	ev := evalComp
+	add, bdd := p.ad.Derivative(), p.bd.Derivative()
+	start, last := s, math.Inf(1)
+	for range 8 {
+		av, bv := ev(p.a, s), ev(p.b, s)
+		adv, bdv := ev(p.ad, s), ev(p.bd, s)
+		f := adv*bv - av*bdv
+		df := ev(add, s)*bv - av*ev(bdd, s)
+		if f == 0 || df == 0 {
+			break
+		}
+		d := f / df
+		if imag(s) == 0 {
+			d = complex(real(d), 0)
+		}
+		ad := cabs(d)
+		if !(ad < 0.5*last) && last < math.Inf(1) || math.IsNaN(ad) {
+			break
+		}
+		s -= d
+		last = ad
+		if cabs(s-start) > 1e-3*math.Max(cabs(start), 1e-300) {
+			return start
+		}
+		if ad <= 2*0x1p-53*cabs(s) {
+			break
+		}
+	}
+	if imag(s) == 0 && s != start {
+		// B itself is a difference of two products that cancel at the
+		// root, so its double value is only good to about u·|a′b|; for a
+		// real break point, two more Newton steps take B from math/big
+		// (128 bits, exact double coefficients and argument).
+		x := real(s)
+		for range 2 {
+			f := breakResidualBig(p, x)
+			df := real(evalComp(add, s)*evalComp(p.b, s) - evalComp(p.a, s)*evalComp(bdd, s))
+			if f == 0 || df == 0 {
+				break
+			}
+			d := f / df
+			if !(math.Abs(d) <= 1e-9*math.Abs(x)) {
+				break
+			}
+			x -= d
+			s = complex(x, 0)
+		}
+	}
+	return s
+}
+
+// breakResidualBig returns a′(x)·b(x) − a(x)·b′(x) evaluated in math/big
+// at 128 bits from the exact double coefficients of a and b (the
+// derivatives' coefficients i·cᵢ are formed exactly in math/big: in
+// float64 they round, which alone moved a break point of an order-24 loop
+// by 1.4e-11) and rounded to float64.
+func breakResidualBig(p *problem, x float64) float64 {
+	hor := func(q poly.Poly, deriv bool) *big.Float {
+		xb := new(big.Float).SetPrec(128).SetFloat64(x)
+		v := new(big.Float).SetPrec(128)
+		c := new(big.Float).SetPrec(128)
+		lo := 0
+		if deriv {
+			lo = 1
+		}
+		for i := q.Degree(); i >= lo; i-- {
+			v.Mul(v, xb)
+			c.SetFloat64(q.Coef(i))
+			if deriv {
+				c.Mul(c, new(big.Float).SetInt64(int64(i)))
+			}
+			v.Add(v, c)
+		}
+		return v
+	}
+	l := new(big.Float).SetPrec(128).Mul(hor(p.a, true), hor(p.b, false))
+	r := new(big.Float).SetPrec(128).Mul(hor(p.a, false), hor(p.b, true))
+	v, _ := l.Sub(l, r).Float64()
+	return v
+}
+
+// evalComp returns q(z) by the compensated Horner scheme (real arithmetic
+// for a real z).
+func evalComp(q poly.Poly, z complex128) complex128 {
+	if imag(z) == 0 {
+		v, _ := q.EvalCompensated(real(z))
+		return complex(v, 0)
+	}
+	v, _ := q.EvalComplexCompensated(z)
+	return v
 }

@@ -202,7 +202,10 @@ func (p *problem) polishCrossing(t float64) (float64, float64, bool) {
 // or in discrete time on its bilinear transform (the unit disc maps to the
 // left half plane), and falls back to the closed-loop roots when a pivot
 // of the array is within rounding of zero (the singular cases of the
-// array). A polynomial that vanishes identically is not stable.
+// array) or the degree exceeds routhMaxDegree. A verdict from the roots
+// is only given when the inclusion disc of every root (inclusionRadius)
+// stays off the boundary; otherwise it returns ErrIllConditioned. A
+// polynomial that vanishes identically is not stable.
 func (p *problem) stable(k float64) (bool, error) {
 	c := p.charPoly(k)
 	if c.IsZero() {
@@ -216,24 +219,74 @@ func (p *problem) stable(k float64) (bool, error) {
 			return false, nil
 		}
 	}
-	if st, ok := routhStable(h); ok {
-		return st, nil
+	if h.Degree() <= routhMaxDegree {
+		if st, ok := routhStable(h); ok {
+			return st, nil
+		}
 	}
-	rs, err := c.Roots()
+	rs, err := c.RootsWithMultiplicity()
 	if err != nil {
 		return false, fmt.Errorf("locus: closed-loop poles at %s = %v: %w", p.variable, k, err)
 	}
-	for _, r := range rs {
+	stable := true
+	for i, r := range rs {
+		dist := math.Abs(real(r.Value)) // distance to the boundary
 		if p.discrete {
-			if !(cabs(r) < 1) {
-				return false, nil
-			}
-		} else if !(real(r) < 0) {
-			return false, nil
+			dist = math.Abs(cabs(r.Value) - 1)
+		}
+		// A root within rounding of the boundary (an exact zero or
+		// imaginary root, a shared pole on the boundary) is a marginal
+		// root: not stable, as decided below. Only a root whose
+		// uncertainty is larger than rounding and reaches the boundary
+		// leaves the verdict open.
+		if rad := inclusionRadius(c, rs, i); !(rad < dist) && !(rad <= 8*0x1p-53*math.Max(1, cabs(r.Value))) {
+			return false, fmt.Errorf("%w: at %s = %v the closed-loop pole %v lies within its rounding uncertainty %.3g of the stability boundary (degree %d): double precision cannot decide stability", ErrIllConditioned, p.variable, k, r.Value, rad, c.Degree())
+		}
+		if p.discrete {
+			stable = stable && cabs(r.Value) < 1
+		} else {
+			stable = stable && real(r.Value) < 0
 		}
 	}
-	return true, nil
+	return stable, nil
 }
+
+// inclusionRadius returns the radius of a disc about the computed root
+// rs[i] of c that contains a root of c in the sense of the Weierstrass
+// (Durand–Kerner) inclusion discs of Braess & Hadeler (1973, "Simultaneous
+// inclusion of the zeros of a polynomial", Numer. Math. 21): for simple
+// roots the disc |z − rᵢ| ≤ n·|Wᵢ|, Wᵢ = c(rᵢ)/(cₙ·∏ⱼ≠ᵢ(rᵢ − rⱼ)) holds a
+// root of the double coefficients c; the residual c(rᵢ) is taken with
+// the error bound of its compensated evaluation (poly.EvalComplexCompensated),
+// so the disc also covers what the evaluation cannot resolve. For a root of
+// multiplicity m the m-th root of the same bound is used (a cluster of m
+// roots moves as the m-th root of a perturbation). The product is formed
+// in logarithms (no overflow at degree 500).
+func inclusionRadius(c poly.Poly, rs []poly.Root, i int) float64 {
+	n := c.Degree()
+	r := rs[i].Value
+	v, eb := c.EvalComplexCompensated(r)
+	res := cabs(v) + eb
+	lg := math.Log(res) - math.Log(math.Abs(c.Lead())) + math.Log(float64(n))
+	for j, o := range rs {
+		if j != i {
+			lg -= float64(o.Multiplicity) * math.Log(cabs(r-o.Value))
+		}
+	}
+	rad := math.Exp(lg / float64(rs[i].Multiplicity))
+	if math.IsNaN(rad) {
+		return math.Inf(1) // the residual bound overflowed: nothing is known
+	}
+	return rad
+}
+
+// routhMaxDegree is the largest degree for which stable trusts the Routh
+// array. Above it the entries of the array can lose every digit to
+// cancellation without a pivot becoming small (1/(s+1)^200 was reported
+// unstable for every gain), so the verdict comes from the closed-loop
+// roots with inclusion discs (inclusionRadius), which either decide it or
+// return ErrIllConditioned.
+const routhMaxDegree = 40
 
 // routhStable applies the Routh array to q and reports whether every root
 // has a negative real part; ok is false when a pivot is within 1e-10 of

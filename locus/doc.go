@@ -65,13 +65,21 @@
 // poly.RootsWithSettings). Crossings are the real roots of the even polynomial
 // Im(a(jω)·conj b(jω))/ω in ω² (after the bilinear map z = (1+w)/(1−w) in
 // discrete time), polished by Newton's method on the two real equations in
-// (ω, k). Break points are the roots of a′b − ab′ polished by Newton's
-// method; k is stationary there, so its error is second order. Stability of
-// each piece between critical values is decided by the Routh array
-// (Routh 1877; Hurwitz 1895), with closed-loop roots when a pivot is near
-// zero. Against 50-digit references (the reference cases and
-// testdata/golden.py) crossing values agree to 4e-16 and break-point values
-// to 2e-14 relative; departure angles within the 1e-6 degrees tested.
+// (ω, k). Break points are the roots of the expanded a′b − ab′, each simple
+// one polished by Newton's method on the unexpanded form (a, a′, b, b′ by
+// the compensated Horner scheme, then a math/big residual with the
+// derivatives' coefficients formed exactly); k is stationary there, so its
+// error is second order, and it is evaluated by the compensated scheme.
+// Stability of each piece between critical values is decided by the Routh
+// array (Routh 1877; Hurwitz 1895) up to degree 40; above it, or when a
+// pivot is near zero, by the closed-loop roots, whose verdict is accepted
+// only when the Weierstrass inclusion disc of every root (Braess & Hadeler
+// 1973) stays off the stability boundary — otherwise the analysis returns
+// ErrIllConditioned instead of a verdict (1/(s+1)^500, say). Against
+// 50-digit references (the reference cases, testdata/golden.py and
+// testdata/breaks_highorder.py) crossing values agree to 4e-16, break points
+// and their values to 4u (orders 12 to 24; the expanded roots alone were
+// 1.2e-7 off at order 24); departure angles within the 1e-6 degrees tested.
 //
 // Trace follows every root by predictor–corrector continuation (Allgower &
 // Georg 2003) between consecutive special values (range ends, k = 0, break
@@ -94,24 +102,35 @@
 // from gonum at each, branches matched to the nearest root of the previous
 // gain) on a deterministic family of loops of order 4, 8, 12, 16 and 24
 // (mixed real and complex poles, some unstable; n/4 zeros). Measured on a
-// shared 2-core machine, median of three runs (testdata/benchmarks.txt):
+// shared, loaded 2-core machine, one run (testdata/benchmarks.txt):
 //
 //	order               4      8     12     16     24
-//	speed-up          39×    66×    58×    60×    53×
-//	points, trace     677   1053   2209   2907   5165
+//	speed-up          40×    65×    62×    62×    55×
+//	points, trace     678   1076   2218   2883   5165
 //	points, grid     8000  16000  24000  32000  48000
-//	deviation, trace  1.7e-4 1.1e-4 1.1e-4 7.4e-5 5.6e-5
-//	deviation, grid   7.3e-3 1.5e-4 5.0e-4 3.1e-4 1.2e-3
+//	deviation, trace  1.7e-4 1.1e-4 1.0e-4 7.4e-5 5.6e-5
+//	deviation, grid   4.6e-3 1.9e-4 4.7e-4 2.8e-4 8.3e-4
 //
 // The deviation is the largest distance from the middle of a chord to the
 // exact locus, relative to the view scale (a second-order level-set
 // estimate, so no reference trace is needed). Neither method showed a
-// branch swap on this family under the independent continuation check; the
-// trace's crossing and break values are exact (4e-16 and 2e-14 relative
-// against 50-digit references), where the grid's interpolated crossing
-// gains are off by 2e-5 to 7e-5 and its break gains by 0.2 % to 2 %. The
-// time of a trace goes to Newton evaluations of a + k·b (about 2.5 per root
-// and step) and to one eigenvalue solve per special value.
+// branch swap on this family under the independent continuation check.
+// The grid's interpolated crossing gains are off by 5e-6 to 7e-5 and its
+// break gains by 1 % to 2 %.
+//
+// The project's harness (../shared/perf/compare) asks instead for the
+// trace at the largest ChordTolerance whose largest chord inside its own
+// window (±1.5·max|pole, zero|) is no longer than the grid's; in its quick
+// run (testdata/harness_quick.md, single repetitions on a shared machine)
+// that gives 27.5× to 50× (family orders 2 to 24 and two textbook loops;
+// the goal of 30× is not met at orders 2 and 8), special points exact to
+// 4.3e-15, no branch swaps, Trace complete at orders 40 and 60, and
+// Analyze growing as n^2.8 from order 40 to 60. The trace's time goes to
+// Newton evaluations of a + k·b (one to two per root and step; the lower
+// root of an exact conjugate pair is mirrored, not corrected) and to one
+// eigenvalue solve per special value; all roots advance with one common
+// step, so the fastest branch sets the step of all (the reason
+// the ratio is lowest at small orders).
 //
 // # Invariants
 //

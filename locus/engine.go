@@ -161,7 +161,9 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 	corr := make([]complex128, n)
 	ntan := make([]complex128, n)
 	ntanOK := make([]bool, n)
+	mirror := make([]int, n)
 	steps := 0
+	reseeds := 0
 	for {
 		anyActive := false
 		for i := range n {
@@ -189,8 +191,14 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 		kn, dkn := km(tn)
 		coef := t.charCoeffs(kn)
 		ok := true
+		// A root that is the exact conjugate of another active root is
+		// not corrected itself: a + k·b has real coefficients and k is
+		// real, so its corrected point and tangent are the conjugates of
+		// its partner's (a conjugate pair stays one within a piece; it
+		// can only meet the real axis at a break point, which is a node).
+		findMirrors(s, active, mirror, first && hasCluster)
 		for i := range n {
-			if !active[i] {
+			if !active[i] || mirror[i] >= 0 {
 				continue
 			}
 			switch {
@@ -218,6 +226,14 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 				ntan[i], ntanOK[i] = 0, false
 			}
 		}
+		if ok {
+			for i, j := range mirror {
+				if j >= 0 {
+					pred[i], corr[i] = cmplx.Conj(pred[j]), cmplx.Conj(corr[j])
+					ntan[i], ntanOK[i] = cmplx.Conj(ntan[j]), ntanOK[j]
+				}
+			}
+		}
 		ratio := 0.0
 		if ok {
 			ratio, ok = t.checkStep(s, pred, corr, active, tan, tanOK, ntan, ntanOK, km, tn)
@@ -226,6 +242,18 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 			t.stats.RejectedSteps++
 			h *= 0.5
 			if h < 1e-14*math.Max(1, tc) {
+				if reseeds < maxReseeds && t.reseed(km, tc, tEnd, s, active, paths, tan, tanOK, acc) {
+					// Continue from the roots computed afresh a little
+					// further on (see reseed).
+					reseeds++
+					tc, _ = t.lastReseed()
+					for len(ways) > 0 && ways[0].t <= tc {
+						ways = ways[1:]
+					}
+					h = 1e-3 * math.Max(1, tEnd)
+					first = true
+					continue
+				}
 				return paths, s, fmt.Errorf("%w: step size underflow at %s = %v", ErrTraceFailed, p.variable, kn)
 			}
 			continue
@@ -344,6 +372,17 @@ func hornerD(c []float64, s complex128) (v, d complex128) {
 	return v, d
 }
 
+// hornerD2 returns q(s), q′(s) and q″(s) for the coefficients c (lowest
+// power first).
+func hornerD2(c []float64, s complex128) (v, d, dd complex128) {
+	for i := len(c) - 1; i >= 0; i-- {
+		dd = dd*s + 2*d
+		d = d*s + v
+		v = v*s + complex(c[i], 0)
+	}
+	return v, d, dd
+}
+
 // newtonCoeffs corrects s to a root of a + k·b by Newton's method, with
 // c the coefficients of a + k·b (charCoeffs). It stops when
 // the correction falls below 1e-12 relative, or when it stagnates at the
@@ -359,8 +398,12 @@ func (t *tracer) newtonCoeffs(s complex128, k float64, c []float64) (complex128,
 	var df complex128
 	for it := range 12 {
 		t.stats.NewtonIterations++
-		var f complex128
-		f, df = hornerD(c, s)
+		var f, ddf complex128
+		if it == 0 {
+			f, df, ddf = hornerD2(c, s)
+		} else {
+			f, df = hornerD(c, s)
+		}
 		if df == 0 {
 			return s, df, p.b.EvalComplex(s), false
 		}
@@ -369,6 +412,14 @@ func (t *tracer) newtonCoeffs(s complex128, k float64, c []float64) (complex128,
 		d2 := real(d)*real(d) + imag(d)*imag(d)
 		if !(d2 < math.Inf(1)) {
 			return s, df, 0, false // NaN or Inf
+		}
+		// After the first step, the next Newton correction is about
+		// |d|²·|P″|/(2|P′|) (Kantorovich; Allgower & Georg 2003, §3.3:
+		// the corrector of a predictor–corrector method needs only as
+		// many steps as the predictor error requires); when that is
+		// below the tolerance the first step already is the root.
+		if it == 0 && d2*cabs(ddf)/(2*cabs(df)) <= 0.25*tol {
+			return s, df, p.b.EvalComplex(s), true
 		}
 		// Quadratic convergence: the next correction is about
 		// |d|²/|d_prev|; stop when it would be below the tolerance.
@@ -427,7 +478,7 @@ func (t *tracer) checkStep(s, pred, corr []complex128, active []bool, tan []comp
 		if !active[i] {
 			continue
 		}
-		lim := t.chordAbs * math.Max(1, cabs(corr[i]-t.centre)/t.scale)
+		lim := t.chordLimit(s[i], corr[i])
 		ch := cabs(corr[i] - s[i])
 		ratio = math.Max(ratio, ch/lim)
 		if ch > lim {
@@ -435,6 +486,12 @@ func (t *tracer) checkStep(s, pred, corr []complex128, active []bool, tan []comp
 		}
 		if tanOK[i] && ntanOK[i] && ch > 1e-3*lim && tan[i] != 0 && ntan[i] != 0 {
 			a := math.Abs(cmplx.Phase(ntan[i] / tan[i]))
+			if a > t.r.angleTolRad && (t.tangentNoisy(s[i], km, tn) || t.tangentNoisy(corr[i], km, tn)) {
+				// The tangent −b/P′ is rounding noise here (P′ is
+				// below the rounding error of its evaluation, as inside
+				// an ill-conditioned cluster): its turn says nothing.
+				continue
+			}
 			ratio = math.Max(ratio, a/t.r.angleTolRad)
 			if a > t.r.angleTolRad {
 				return ratio, false
@@ -620,4 +677,108 @@ func (t *tracer) traceToEnd(nd node, end node) ([][]Point, []int, error) {
 		}
 	}
 	return paths, to, err
+}
+
+// chordLimit returns the largest accepted chord of a step from s to c:
+// ChordTolerance × the view's half-diagonal within chordHoldRadius
+// half-diagonals of the view's centre (the whole view and a margin
+// around it), growing as the fifth power of the distance beyond. Far from the
+// view a branch is nearly straight and off the plot, and a limit that
+// grows with the distance keeps the number of steps there bounded
+// (∫ dx/x⁵ converges) instead of growing with the logarithm of the range
+// end: at n = 2 it took ≈ 1550 steps per branch to match a 2000-gain grid's
+// chord, most of them outside the view.
+func (t *tracer) chordLimit(s, c complex128) float64 {
+	x := math.Min(cabs(s-t.centre), cabs(c-t.centre)) / (chordHoldRadius * t.scale)
+	if x <= 1 {
+		return t.chordAbs
+	}
+	return t.chordAbs * x * x * x * x * x
+}
+
+// chordHoldRadius is the radius, in half-diagonals of the view, of the
+// disc about the view's centre within which the chord limit is held.
+const chordHoldRadius = 1.25
+
+// tangentNoisy reports whether the derivative P′ = a′ + k·b′ at x is not
+// known to 10 % in double precision: its value is below ten times the
+// rounding bound 2n·u·(Σ|i·aᵢ||x|^(i−1) + |k|·Σ|i·bᵢ||x|^(i−1)) of its
+// evaluation (Higham 2002, Accuracy and Stability of Numerical
+// Algorithms, 2nd ed., §5.1), so the tangent direction is noise.
+func (t *tracer) tangentNoisy(x complex128, km kMap, tt float64) bool {
+	p := t.p
+	k, _ := km(tt)
+	_, df := p.eval(x, k)
+	ax := cabs(x)
+	m := absEval(p.ad, ax) + math.Abs(k)*absEval(p.bd, ax)
+	return cabs(df) <= 10*2*float64(p.order)*0x1p-53*m
+}
+
+// maxReseeds bounds the restarts from computed roots in one cont call.
+const maxReseeds = 8
+
+// reseed handles a continuation that is stuck (the step size underflowed)
+// because some roots are ill-conditioned: inside a tight cluster of roots
+// of a high-order a + k·b, double precision fixes the roots only to a
+// fraction of their spacing, and Newton's method from a predicted point
+// lands anywhere in the cluster. It computes every root of a + k·b afresh
+// (poly's root finder) a little further on, at t = tc + 1e-3·max(1, tEnd),
+// pairs them with the current positions by the nearest-set matching, adds
+// the new points and records a note. It reports false when the roots
+// cannot be computed or some position is not finite.
+func (t *tracer) reseed(km kMap, tc, tEnd float64, s []complex128, active []bool, paths [][]Point, tan []complex128, tanOK []bool, acc []complex128) bool {
+	for _, x := range s {
+		if cmplx.IsInf(x) || cmplx.IsNaN(x) {
+			return false
+		}
+	}
+	tn := math.Min(tc+1e-3*math.Max(1, tEnd), tEnd)
+	kn, _ := km(tn)
+	raw, err := fastRoots(t.p.charPoly(kn))
+	t.stats.RootSolves++
+	if err != nil || len(raw) != len(s) {
+		return false
+	}
+	perm, _ := matchSets(s, raw)
+	for i := range s {
+		s[i] = raw[perm[i]]
+		if active[i] {
+			paths[i] = append(paths[i], Point{Value: kn, S: s[i]})
+			t.traced++
+			tan[i], tanOK[i] = t.tangent(s[i], km, tn)
+			acc[i] = 0
+		}
+	}
+	t.reseedAt = tn
+	t.notes = append(t.notes, fmt.Sprintf("the roots near %s = %.6g are too ill-conditioned to follow by continuation in double precision; the trace continues from the roots computed at that value", t.p.variable, kn))
+	return true
+}
+
+// lastReseed returns the parameter of the last reseed.
+func (t *tracer) lastReseed() (float64, bool) { return t.reseedAt, true }
+
+// findMirrors sets mirror[i] to the index j of an active root with
+// s[j] = conj(s[i]) exactly, Im s[j] > 0, for every active root i in the
+// lower half plane (−1 otherwise, and for every root when off is true:
+// the first step out of a cluster follows Puiseux directions per member).
+// Each upper root mirrors at most one lower root.
+func findMirrors(s []complex128, active []bool, mirror []int, off bool) {
+	for i := range mirror {
+		mirror[i] = -1
+	}
+	if off {
+		return
+	}
+	for i, x := range s {
+		if !active[i] || imag(x) >= 0 {
+			continue
+		}
+		c := cmplx.Conj(x)
+		for j, y := range s {
+			if active[j] && y == c && !slices.Contains(mirror, j) {
+				mirror[i] = j
+				break
+			}
+		}
+	}
 }

@@ -29,6 +29,11 @@ var (
 	// ErrDegenerate reports a characteristic polynomial a + k·b that is
 	// identically zero at the requested value.
 	ErrDegenerate = errors.New("locus: characteristic polynomial is identically zero")
+	// ErrIllConditioned reports an analysis that double precision cannot
+	// carry out: a closed-loop pole lies within its rounding uncertainty of
+	// the stability boundary (for example 1/(s+1)^500, whose 500-fold pole
+	// is only known to about ε^(1/500)).
+	ErrIllConditioned = errors.New("locus: too ill-conditioned for double precision")
 	// ErrTraceFailed reports a continuation that could not follow the
 	// branches to the requested accuracy; the partial locus is returned.
 	ErrTraceFailed = errors.New("locus: tracing failed")

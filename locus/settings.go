@@ -33,7 +33,10 @@ type Settings struct {
 
 	// ChordTolerance is the largest step of a traced branch between two
 	// points, as a fraction of the scale of the plot (the half-diagonal of
-	// Locus.View), in (0, 1]. If zero, defaults to 0.02.
+	// Locus.View), in (0, 1]. It holds within 1.25 half-diagonals of the
+	// view's centre; beyond, the limit grows as the fifth power of the distance
+	// (branches far off the plot are nearly straight). If zero, defaults
+	// to 0.02.
 	ChordTolerance float64
 	// AngleToleranceDeg is the largest turn of a traced branch between two
 	// points, in degrees, in (0, 90]. If zero, defaults to 5.

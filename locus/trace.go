@@ -173,6 +173,7 @@ type tracer struct {
 	coef     []float64 // scratch coefficients of a + k·b
 	waysAll  []Crossing
 	traced   int
+	reseedAt float64 // parameter of the last reseed (see reseed)
 }
 
 func newTracer(p *problem, an Analysis, r resolved) *tracer {
@@ -547,10 +548,23 @@ func (t *tracer) traceLink(left, right node) (link, error) {
 
 // withinNoise reports whether every matched pair agrees within 1e-6 of the
 // scale or within 1e3 times the rounding noise of its roots (rootNoise).
+// pseudoRoot reports whether x is a root of a + k·b within the rounding
+// error of the working-precision evaluation that the continuation uses:
+// |a(x) + k·b(x)| ≤ 20n·u·(Σ|aᵢ||x|ⁱ + |k|·Σ|bᵢ||x|ⁱ) (Higham 2002,
+// Accuracy and Stability of Numerical Algorithms, 2nd ed., §5.1: Horner's
+// error bound is γ₂ₙ times that sum). Inside a tight cluster of roots of a
+// high-order polynomial every point of such a region is a root as far as
+// double precision can tell, and the first-order noise estimate rootNoise
+// (which assumes a simple, isolated root) is far too small.
+func (t *tracer) pseudoRoot(x complex128, k float64) bool {
+	f, _ := t.p.eval(x, k)
+	return cabs(f) <= 20*float64(t.p.order)*0x1p-53*t.p.magnitude(x, k)
+}
+
 func (t *tracer) withinNoise(a, b []complex128, perm []int, k float64) bool {
 	for i, j := range perm {
 		d := cabs(a[i] - b[j])
-		if d > 1e-6*t.scale && d > 1e3*(t.rootNoise(a[i], k)+t.rootNoise(b[j], k)) {
+		if d > 1e-6*t.scale && d > 1e3*(t.rootNoise(a[i], k)+t.rootNoise(b[j], k)) && !(t.pseudoRoot(a[i], k) && t.pseudoRoot(b[j], k)) {
 			return false
 		}
 	}

@@ -73,8 +73,10 @@ func X() Poly { return Poly{c: []float64{0, 1}} }
 // FromRoots returns the monic polynomial ∏(x − rᵢ). Complex roots must come
 // in conjugate pairs (matched within 1e-12 relative); each pair is multiplied
 // in as the real quadratic x² − 2Re(r)x + |r|², so the coefficients are real
-// by construction. It returns ErrNotFinite for NaN or infinite roots and an
-// error when a complex root has no conjugate partner.
+// by construction. It returns ErrNotFinite for NaN or infinite roots,
+// ErrOverflow (naming the roots) when a coefficient of the product exceeds
+// the float64 range, and an error when a complex root has no conjugate
+// partner.
 func FromRoots(roots []complex128) (Poly, error) {
 	used := make([]bool, len(roots))
 	p := Constant(1)
@@ -88,6 +90,9 @@ func FromRoots(roots []complex128) (Poly, error) {
 		used[i] = true
 		if imag(r) == 0 {
 			p = p.Mul(Poly{c: []float64{-real(r), 1}})
+			if !p.IsFinite() {
+				return Poly{}, fmt.Errorf("%w: the product of the factors of roots 0…%d has a coefficient beyond ±%g (largest root modulus %g)", ErrOverflow, i, math.MaxFloat64, maxModulus(roots))
+			}
 			continue
 		}
 		j := conjugatePartner(roots, used, r)
@@ -96,9 +101,25 @@ func FromRoots(roots []complex128) (Poly, error) {
 		}
 		used[j] = true
 		re, im := real(r), imag(r)
-		p = p.Mul(Poly{c: trim([]float64{re*re + im*im, -2 * re, 1})})
+		q := []float64{re*re + im*im, -2 * re, 1}
+		if math.IsInf(q[0], 0) || math.IsInf(q[1], 0) {
+			return Poly{}, fmt.Errorf("%w: the quadratic factor of roots %d and %d (%v) has a coefficient beyond ±%g", ErrOverflow, i, j, r, math.MaxFloat64)
+		}
+		p = p.Mul(Poly{c: trim(q)})
+		if !p.IsFinite() {
+			return Poly{}, fmt.Errorf("%w: the product of the factors of roots 0…%d has a coefficient beyond ±%g (largest root modulus %g)", ErrOverflow, i, math.MaxFloat64, maxModulus(roots))
+		}
 	}
 	return p, nil
+}
+
+// maxModulus returns the largest |r| of the roots.
+func maxModulus(roots []complex128) float64 {
+	m := 0.0
+	for _, r := range roots {
+		m = math.Max(m, abs(r))
+	}
+	return m
 }
 
 func conjugatePartner(roots []complex128, used []bool, r complex128) int {

@@ -75,10 +75,14 @@ type candidate struct {
 func rootsNonZero(c []float64, s *RootSettings) ([]Root, error) {
 	n := len(c) - 1
 	if n == 1 {
-		return []Root{{Value: complex(-c[0]/c[1], 0), Multiplicity: 1}}, nil
+		r := -c[0] / c[1]
+		if math.IsInf(r, 0) {
+			return nil, fmt.Errorf("%w: the root −(%g)/(%g) of the degree-1 polynomial is beyond ±%g", ErrOverflow, c[0], c[1], math.MaxFloat64)
+		}
+		return []Root{{Value: complex(r, 0), Multiplicity: 1}}, nil
 	}
 	sc, e := scaleToUnitRoots(c)
-	var z []complex128
+	var z, vals0 []complex128
 	tc := newTaylor(sc)
 	if n == 2 {
 		q := quadraticRoots(sc[2], sc[1], sc[0])
@@ -92,6 +96,7 @@ func rootsNonZero(c []float64, s *RootSettings) ([]Root, error) {
 			return nil, err
 		}
 		z = vals
+		vals0 = slices.Clone(vals)
 		aberth(tc, z)
 		if bad := unconverged(tc, z); len(bad) > 0 {
 			// Second chance: move the stragglers off their spot by a
@@ -102,11 +107,38 @@ func rootsNonZero(c []float64, s *RootSettings) ([]Root, error) {
 			}
 			aberth(tc, z)
 			if bad := unconverged(tc, z); len(bad) > 0 {
-				return nil, fmt.Errorf("%w: %d of %d roots of the degree-%d polynomial (for example near %v) did not converge", ErrNoConvergence, len(bad), n, n, complex(math.Ldexp(real(z[bad[0]]), e), math.Ldexp(imag(z[bad[0]]), e)))
+				// Third stage: the residual of a root far from the unit
+				// circle of the scaled variable can overflow float64
+				// (|z|ⁿ beyond 1e308 with coefficients spread over many
+				// decades), which stops the compensated iteration. Such
+				// roots are refined by Aberth steps whose ratio p/p′ is
+				// evaluated in math/big (its exponent range does not
+				// overflow), starting from the better of the eigenvalue
+				// and the current value; what does not converge keeps the
+				// better of the two, so the result is never worse than the
+				// plain eigenvalues.
+				for _, k := range bad {
+					z[k] = bigAberth(sc, z, k, vals0[k])
+				}
 			}
 		}
 	}
 	cands, err := finish(tc, z, s)
+	if err != nil && vals0 != nil {
+		// The refined set lost its conjugate symmetry (members of a huge
+		// unrecognised cluster, such as (x+1)⁵⁰⁰, wander in its disc):
+		// fall back on the eigenvalues, which come in exact conjugate
+		// pairs and are the roots of a polynomial within a small multiple
+		// of u·‖p‖ (Edelman & Murakami 1995): never fail where they do
+		// not.
+		cands = make([]candidate, len(vals0))
+		for i, v := range vals0 {
+			cands[i] = candidate{z: v, m: 1}
+		}
+		if symmetrize(tc, cands) == 0 {
+			err = nil
+		}
+	}
 	if err != nil {
 		return nil, err
 	}
@@ -131,6 +163,89 @@ func unconverged(tc *taylor, z []complex128) []int {
 	return bad
 }
 
+// bigAberth refines z[k] by Aberth steps zₖ ← zₖ − r/(1 − r·Σⱼ≠ₖ 1/(zₖ − zⱼ))
+// with r = p(zₖ)/p′(zₖ) evaluated in math/big (bigRatio), from the better
+// (smaller |r|) of z[k] and the eigenvalue e. It stops when the step falls
+// below 2u·|zₖ| or stops shrinking, and returns the value with the
+// smallest |r| seen.
+func bigAberth(c []float64, z []complex128, k int, e complex128) complex128 {
+	x := z[k]
+	best, bestR := x, math.Inf(1)
+	if r := abs(bigRatio(c, e)); r < bestR {
+		best, bestR = e, r
+	}
+	if r := abs(bigRatio(c, x)); r < bestR {
+		best, bestR = x, r
+	}
+	x = best
+	last := math.Inf(1)
+	for range maxAberthIterations {
+		r := bigRatio(c, x)
+		var sum complex128
+		for j, zj := range z {
+			if j != k && zj != x {
+				sum += 1 / (x - zj)
+			}
+		}
+		delta := r / (1 - r*sum)
+		ad := abs(delta)
+		if math.IsNaN(ad) || math.IsInf(ad, 0) || ad >= 2*last {
+			break
+		}
+		x -= delta
+		last = ad
+		if ar := abs(bigRatio(c, x)); ar < bestR {
+			best, bestR = x, ar
+		}
+		if ad <= 2*unitRoundoff*abs(x) {
+			break
+		}
+	}
+	return best
+}
+
+// bigRatio returns the Newton correction p(z)/p′(z) with p and p′
+// evaluated by Horner's scheme in math/big at bigPrecision bits (no
+// overflow for any double coefficients and argument).
+func bigRatio(c []float64, z complex128) complex128 {
+	n := len(c) - 1
+	nf := func() *big.Float { return new(big.Float).SetPrec(bigPrecision) }
+	zr, zi := nf().SetFloat64(real(z)), nf().SetFloat64(imag(z))
+	pr, pi := nf().SetFloat64(c[n]), nf()
+	dr, di := nf(), nf()
+	t1, t2, t3 := nf(), nf(), nf()
+	cmul := func(ar, ai *big.Float) { // (ar + i·ai) ← (ar + i·ai)·z
+		t1.Mul(ar, zr)
+		t2.Mul(ai, zi)
+		t3.Mul(ar, zi)
+		ai.Mul(ai, zr)
+		ai.Add(ai, t3)
+		ar.Sub(t1, t2)
+	}
+	for i := n - 1; i >= 0; i-- {
+		cmul(dr, di)
+		dr.Add(dr, pr)
+		di.Add(di, pi)
+		cmul(pr, pi)
+		pr.Add(pr, t1.SetFloat64(c[i]))
+	}
+	// (pr + i·pi)/(dr + i·di)
+	den := nf().Mul(dr, dr)
+	den.Add(den, t1.Mul(di, di))
+	if den.Sign() == 0 {
+		return complex(math.Inf(1), 0)
+	}
+	nr := nf().Mul(pr, dr)
+	nr.Add(nr, t1.Mul(pi, di))
+	ni := nf().Mul(pi, dr)
+	ni.Sub(ni, t1.Mul(pr, di))
+	nr.Quo(nr, den)
+	ni.Quo(ni, den)
+	r, _ := nr.Float64()
+	i, _ := ni.Float64()
+	return complex(r, i)
+}
+
 // finish turns refined approximations z of the roots of the scaled
 // polynomial sc into the final candidates: clusters, math/big fallback,
 // symmetry.
@@ -143,6 +258,13 @@ func finish(tc *taylor, z []complex128, s *RootSettings) ([]candidate, error) {
 		cands = make([]candidate, len(z))
 		for i, v := range z {
 			cands[i] = candidate{z: v, m: 1, noise: simpleNoise(tc, v)}
+		}
+	}
+	for i := range cands {
+		if c := &cands[i]; c.m == 1 && (math.IsNaN(c.noise) || math.IsInf(c.noise, 0)) {
+			// The compensated residual overflowed (see bigAberth): the
+			// uncertainty is the size of the Newton correction in math/big.
+			c.noise = abs(bigRatio(tc.c, c.z))
 		}
 	}
 	polishWithBig(tc, cands)

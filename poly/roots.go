@@ -123,6 +123,7 @@ func (s *RootSettings) clusterTolerance() float64 {
 //	p constant (non-zero)   no roots (empty result)
 //	p zero                  ErrZeroPolynomial
 //	a coefficient NaN/Inf   ErrNotFinite
+//	a root beyond ±MaxFloat64  ErrOverflow (5e-324·x + 1, say)
 //	(x−r)ᵐ exact in binary  one Root{r, m}
 //
 // It returns ErrBadTolerance for invalid settings and ErrNoConvergence if
@@ -152,6 +153,11 @@ func (p Poly) RootsWithSettings(s *RootSettings) ([]Root, error) {
 		rest, err := rootsNonZero(p.c[k:], s)
 		if err != nil {
 			return nil, err
+		}
+		for _, r := range rest {
+			if cmplxNotFinite(r.Value) {
+				return nil, fmt.Errorf("%w: a root of the degree-%d polynomial (coefficients %g … %g) is beyond ±%g", ErrOverflow, p.Degree(), p.c[len(p.c)-1], p.c[k], math.MaxFloat64)
+			}
 		}
 		roots = append(roots, rest...)
 	}

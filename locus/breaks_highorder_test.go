@@ -1,0 +1,115 @@
+package locus
+
+import (
+	"encoding/json"
+	"math"
+	"os"
+	"slices"
+	"strconv"
+	"testing"
+
+	"github.com/loopwise/loopwise/tf"
+)
+
+// TestBreakPointsHighOrder checks the real break points of loops of order
+// 12, 16 and 24 against mpmath (testdata/breaks_highorder.py, 50 digits):
+// s and k to 4u relative. Before the break points were polished against
+// the unexpanded a′b − ab′ (polishBreak), the order-24 loop's were 1.2e-7
+// off in s and 1.6e-10 in k.
+func TestBreakPointsHighOrder(t *testing.T) {
+	loops := loadHarnessLoops(t)
+	const tol = 4 * 0x1p-53
+	for _, l := range loops {
+		t.Run(l.Name, func(t *testing.T) {
+			an, err := Analyze(l.loop, &Settings{Range: Range{Min: l.Kmin, Max: l.Kmax}})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var real_ []BreakPoint
+			for _, b := range an.BreakPoints {
+				if imag(b.Point) == 0 {
+					real_ = append(real_, b)
+				}
+			}
+			if len(real_) != len(l.Breaks) {
+				t.Fatalf("%d real break points, want %d", len(real_), len(l.Breaks))
+			}
+			for _, w := range l.Breaks {
+				ws, _ := strconv.ParseFloat(w[0], 64)
+				wk, _ := strconv.ParseFloat(w[1], 64)
+				best := real_[0]
+				for _, b := range real_ {
+					if math.Abs(real(b.Point)-ws) < math.Abs(real(best.Point)-ws) {
+						best = b
+					}
+				}
+				if e := math.Abs(real(best.Point)-ws) / math.Abs(ws); e > tol {
+					t.Errorf("break point %v, want %v (rel. error %.2g)", real(best.Point), ws, e)
+				}
+				if e := math.Abs(best.Value-wk) / wk; e > tol {
+					t.Errorf("gain at %v: %v, want %v (rel. error %.2g)", ws, best.Value, wk, e)
+				}
+			}
+		})
+	}
+}
+
+// BenchmarkHarnessLoops times Analyze and Trace on the order-12, 16 and 24
+// loops of the project's performance harness (../shared/perf; the
+// coefficients are those of testdata/breaks_highorder.json) over their
+// gain span K0·[1e-4, 1e4], at the default chord tolerance.
+func BenchmarkHarnessLoops(b *testing.B) {
+	for _, l := range loadHarnessLoops(b) {
+		g := l.loop
+		set := &Settings{Range: Range{Min: l.Kmin, Max: l.Kmax}}
+		b.Run("Analyze/"+l.Name, func(b *testing.B) {
+			for b.Loop() {
+				if _, err := Analyze(g, set); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+		b.Run("Trace/"+l.Name, func(b *testing.B) {
+			var loc Locus
+			var err error
+			for b.Loop() {
+				if loc, err = Trace(g, set); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(loc.Stats.Points), "points/op")
+		})
+	}
+}
+
+// harnessLoop is a loop of testdata/breaks_highorder.json with its
+// transfer function and mpmath break points (s, k as decimal strings).
+type harnessLoop struct {
+	Name       string
+	N, D       []float64
+	Kmin, Kmax float64
+	Breaks     [][2]string
+	loop       tf.TF
+}
+
+// loadHarnessLoops reads testdata/breaks_highorder.json (ascending
+// coefficients) and builds each loop's transfer function.
+func loadHarnessLoops(tb testing.TB) []harnessLoop {
+	raw, err := os.ReadFile("testdata/breaks_highorder.json")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	var loops []harnessLoop
+	if err := json.Unmarshal(raw, &loops); err != nil {
+		tb.Fatal(err)
+	}
+	for i, l := range loops {
+		n, d := slices.Clone(l.N), slices.Clone(l.D)
+		slices.Reverse(n)
+		slices.Reverse(d)
+		if loops[i].loop, err = tf.New(n, d); err != nil {
+			tb.Fatal(err)
+		}
+	}
+	return loops
+}
