@@ -23,56 +23,27 @@ const (
 )
 
 // positiveRoots returns the real roots x > 0 of p, as candidates (see
-// candidateImagTol), ascending. The variable is scaled first so that the
-// geometric mean of the root moduli is 1, which balances the coefficients.
-// By Descartes' rule of signs (Descartes 1637; see Henrici 1974, Applied
-// and Computational Complex Analysis, vol. 1, §6.2) the number of positive
-// roots is the number of sign changes in the coefficient sequence minus an
-// even number: with no sign change there is no positive root, with one there
-// is exactly one, bracketed by 0 and a Cauchy bound and found by Brent's
-// method. Otherwise the roots come from the eigenvalues of the companion
-// matrix (poly.Roots).
+// candidateImagTol), ascending, by poly.RealRootsInWithSettings:
+// real-root isolation by Descartes' rule of signs and continued fractions
+// (Vincent–Collins–Akritas; Akritas & Strzeboński 2005) with a running
+// rounding-error bound on every transformed coefficient, each isolated root
+// found by Brent's method. It costs O(n²) per node of the search instead of
+// the O(n³) of all complex roots, and falls back to the companion
+// eigenvalues (cluster recognition off, near-real pairs kept as candidates)
+// when the isolation cannot separate roots, such as a nearly double root at
+// a tangency, which polishing then merges.
 func positiveRoots(p poly.Poly) []float64 {
 	if p.Degree() < 1 {
 		return nil
 	}
-	c := p.Ascending()
-	k := 0
-	for c[k] == 0 {
-		k++
-	}
-	q, _ := poly.FromAscending(c[k:])
-	n := q.Degree()
-	if n < 1 {
-		return nil
-	}
-	sigma := math.Pow(math.Abs(q.Coef(0)/q.Lead()), 1/float64(n))
-	if !(sigma > 0) || math.IsInf(sigma, 0) {
-		sigma = 1
-	}
-	qs := q.ScaleVariable(sigma)
-	switch signChanges(qs) {
-	case 0:
-		return nil
-	case 1:
-		if x, ok := uniquePositiveRoot(qs); ok {
-			return []float64{x * sigma}
-		}
-	}
-	// Cluster recognition is off: a nearly double root (a tangency) is
-	// reported as two nearby candidates, which polishing merges.
-	rs, err := qs.RootsWithSettings(&poly.RootSettings{ClusterTolerance: -1})
+	rs, err := poly.RealRootsInWithSettings(p, 0, math.Inf(1), &poly.RealRootSettings{CandidateImagTolerance: candidateImagTol})
 	if err != nil {
 		return nil
 	}
-	var out []float64
-	for _, rm := range rs {
-		r := rm.Value
-		if real(r) > 0 && math.Abs(imag(r)) <= candidateImagTol*real(r) {
-			out = append(out, real(r)*sigma)
-		}
+	out := make([]float64, len(rs))
+	for i, r := range rs {
+		out[i] = r.Value
 	}
-	slices.Sort(out)
 	return out
 }
 
