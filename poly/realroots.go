@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"sync"
 )
 
 // Real-root isolation by Descartes' rule of signs and continued fractions.
@@ -274,14 +275,23 @@ func gammaN(k int) float64 {
 // γ₂ₙ₊₂ (the binomials are exact integers up to n = 56 and rounded once
 // per Pascal step beyond; each sum adds n + 1 roundings).
 type shifter struct {
-	n     int
-	binom []float64 // binom[k*(n+1)+j] = C(j, k)
-	g     float64
-	work  []float64
+	n      int
+	stride int
+	binom  []float64 // binom[k*stride+j] = C(j, k)
+	g      float64
+	work   []float64
 }
 
-func newShifter(n int) *shifter {
-	s := &shifter{n: n, binom: make([]float64, (n+1)*(n+1)), g: gammaN(2*n + 2), work: make([]float64, n+1)}
+// sharedBinomialDegree is the degree up to which the binomial table is
+// built once and shared (read-only) by every call.
+const sharedBinomialDegree = 128
+
+var sharedBinomials = sync.OnceValue(func() []float64 { return binomials(sharedBinomialDegree) })
+
+// binomials returns C(j, k) at [k*(n+1)+j] for 0 ≤ k ≤ j ≤ n, by Pascal's
+// rule (exact up to n = 56).
+func binomials(n int) []float64 {
+	b := make([]float64, (n+1)*(n+1))
 	row := make([]float64, n+1) // C(j, ·) for the current j
 	for j := 0; j <= n; j++ {
 		for k := j; k > 0; k-- {
@@ -289,8 +299,18 @@ func newShifter(n int) *shifter {
 		}
 		row[0] = 1
 		for k := 0; k <= j; k++ {
-			s.binom[k*(n+1)+j] = row[k]
+			b[k*(n+1)+j] = row[k]
 		}
+	}
+	return b
+}
+
+func newShifter(n int) *shifter {
+	s := &shifter{n: n, g: gammaN(2*n + 2), work: make([]float64, n+1)}
+	if n <= sharedBinomialDegree {
+		s.binom, s.stride = sharedBinomials(), sharedBinomialDegree+1
+	} else {
+		s.binom, s.stride = binomials(n), n+1
 	}
 	return s
 }
@@ -304,7 +324,7 @@ func (s *shifter) shift1(dst, edst, c, e []float64) {
 		a[j] = e[j] + g*math.Abs(c[j])
 	}
 	for k := 0; k <= n; k++ {
-		b := s.binom[k*(n+1) : (k+1)*(n+1)]
+		b := s.binom[k*s.stride : k*s.stride+n+1]
 		var c0, c1, e0, e1 float64
 		j := k
 		for ; j < n; j += 2 {
@@ -329,14 +349,30 @@ func (s *shifter) shiftBy(dst, edst, c, e []float64, p int) {
 	tc := make([]float64, 2*(s.n+1))
 	te := tc[s.n+1:]
 	tc = tc[:s.n+1]
+	if p*s.n > 900 || p*s.n < -900 {
+		// Powers beyond the range of float64: scale with Ldexp.
+		for i := range c {
+			tc[i], te[i] = math.Ldexp(c[i], p*i), math.Ldexp(e[i], p*i)
+		}
+		s.shift1(dst, edst, tc, te)
+		for i := range dst {
+			dst[i], edst[i] = math.Ldexp(dst[i], -p*i), math.Ldexp(edst[i], -p*i)
+		}
+		return
+	}
+	// Powers of two within range: exact multiplications.
+	f, fi := math.Ldexp(1, p), math.Ldexp(1, -p)
+	x := 1.0
 	for i := range c {
-		tc[i] = math.Ldexp(c[i], p*i)
-		te[i] = math.Ldexp(e[i], p*i)
+		tc[i], te[i] = c[i]*x, e[i]*x
+		x *= f
 	}
 	s.shift1(dst, edst, tc, te)
+	x = 1
 	for i := range dst {
-		dst[i] = math.Ldexp(dst[i], -p*i)
-		edst[i] = math.Ldexp(edst[i], -p*i)
+		dst[i] *= x
+		edst[i] *= x
+		x *= fi
 	}
 }
 
@@ -345,13 +381,29 @@ func (s *shifter) shiftBy(dst, edst, c, e []float64, p int) {
 // may have either sign or be zero. known reports whether the first and
 // last coefficients have a known sign.
 func signVariations(c, e []float64) (vmin, vmax int, known bool) {
+	certain := true
+	last := 0.0
+	for i, x := range c {
+		if !(math.Abs(x) > e[i]) {
+			certain = false
+			break
+		}
+		if last != 0 && (x > 0) != (last > 0) {
+			vmin++
+		}
+		last = x
+	}
+	if certain {
+		return vmin, vmin, true
+	}
+	vmin = 0
 	// vmin: the unknown coefficients set to zero add no change. vmax:
 	// dynamic programming over the sign of the last non-zero coefficient
 	// (best[0] for +, best[1] for −; empty: all zero so far is possible).
 	const impossible = math.MinInt / 2
 	best := [2]int{impossible, impossible}
 	empty := true
-	last := 0.0
+	last = 0.0
 	for i, x := range c {
 		certain := math.Abs(x) > e[i]
 		allowed := [2]bool{true, true}
@@ -387,9 +439,7 @@ func signVariations(c, e []float64) (vmin, vmax int, known bool) {
 // polynomial (see positiveUpperBound). It returns +Inf when the reversed
 // polynomial has no sign change (no positive root).
 func positiveLowerBound(c []float64) float64 {
-	r := slices.Clone(c)
-	slices.Reverse(r)
-	ub := positiveUpperBound(r)
+	ub := lmqBound(c, true)
 	if ub == 0 {
 		return math.Inf(1)
 	}
@@ -405,40 +455,49 @@ func positiveLowerBound(c []float64) float64 {
 // cⱼ > 0, the j-th used for the t-th time at the weight 2^(−t), giving
 // (2^t·|cᵢ|/cⱼ)^(1/(j−i)); the bound is the largest over i of the smallest
 // over j. It is 0 when there is no sign change.
-func positiveUpperBound(c []float64) float64 {
+func positiveUpperBound(c []float64) float64 { return lmqBound(c, false) }
+
+// lmqBound is positiveUpperBound of c, or of c reversed when rev is set.
+func lmqBound(c []float64, rev bool) float64 {
 	n := len(c) - 1
-	sg := 1.0
-	if c[n] < 0 {
-		sg = -1
-	}
 	// Work with base-2 logarithms: (2^t·|cᵢ|/cⱼ)^(1/(j−i)) is
 	// 2^((t + lg|cᵢ| − lg|cⱼ|)/(j−i)), so the double loop needs no powers.
-	var buf [2 * 64]float64
-	var lg, times []float64
-	if 2*(n+1) <= len(buf) {
-		lg, times = buf[:n+1], buf[n+1:2*(n+1)]
+	var buf [3 * 64]float64
+	var v, lg, times []float64
+	if 3*(n+1) <= len(buf) {
+		v, lg, times = buf[:n+1], buf[n+1:2*(n+1)], buf[2*(n+1):3*(n+1)]
 	} else {
-		lg, times = make([]float64, n+1), make([]float64, n+1)
+		v, lg, times = make([]float64, n+1), make([]float64, n+1), make([]float64, n+1)
 	}
-	for j, x := range c {
-		if x != 0 {
+	copy(v, c)
+	if rev {
+		slices.Reverse(v)
+	}
+	if v[n] < 0 {
+		for i := range v {
+			v[i] = -v[i]
+		}
+	}
+	for j, x := range v {
+		if x > 0 {
 			lg[j] = roughLog2(x)
 		}
 		times[j] = 1
 	}
 	ub, any := math.Inf(-1), false
 	for i := n - 1; i >= 0; i-- {
-		if sg*c[i] >= 0 {
+		if v[i] >= 0 {
 			continue
 		}
+		lgi := roughLog2(v[i])
 		best, bj := math.Inf(1), -1
 		for j := i + 1; j <= n; j++ {
-			if sg*c[j] <= 0 {
+			if v[j] <= 0 {
 				continue
 			}
 			// roughLog2 errs by less than 0.01: the margin 0.02 keeps
 			// the bound valid (and at most 1.4 % looser).
-			if t := (times[j] + lg[i] - lg[j] + 0.02) * reciprocal(j-i); t < best {
+			if t := (times[j] + lgi - lg[j] + 0.02) * reciprocal(j-i); t < best {
 				best, bj = t, j
 			}
 		}
@@ -458,6 +517,26 @@ func roughLog2(x float64) float64 {
 	f, e := math.Frexp(math.Abs(x)) // f ∈ [0.5, 1)
 	m := 2*f - 1
 	return float64(e-1) + m*(1.3466-0.3466*m)
+}
+
+// kioustelidisBound returns the Kioustelidis bound on the positive roots
+// of c (ascending, leading coefficient non-zero; Kioustelidis 1986, J.
+// Comput. Appl. Math. 16, 241–244): 2·max over the coefficients of sign
+// opposite to the leading one of (|cᵢ|/|cₙ|)^(1/(n−i)), in O(n) (with
+// roughLog2 and a margin that keeps it valid).
+func kioustelidisBound(c []float64) float64 {
+	n := len(c) - 1
+	ln := roughLog2(c[n])
+	ub, any := math.Inf(-1), false
+	for i := 0; i < n; i++ {
+		if c[i] != 0 && (c[i] > 0) != (c[n] > 0) {
+			ub, any = math.Max(ub, (roughLog2(c[i])-ln+0.02)*reciprocal(n-i)), true
+		}
+	}
+	if !any {
+		return 0
+	}
+	return 2 * math.Exp2(ub)
 }
 
 // reciprocals holds 1/k for small k.
@@ -598,7 +677,7 @@ func isolatePositive(p0 Poly, q, e []float64, m mobius) (roots []float64, ok boo
 // ok is false when p does not change sign between the ends in floating
 // point (a root within rounding of an end).
 func rootIn(p Poly, nd isolationNode) (float64, bool) {
-	ub := positiveUpperBound(nd.c)
+	ub := kioustelidisBound(nd.c)
 	if !(ub > 0) || math.IsInf(ub, 0) {
 		return 0, false
 	}
