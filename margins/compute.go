@@ -310,8 +310,8 @@ func Compute(loop tf.TF, set *Settings) (Result, error) {
 		res.PeakComplementarySensitivity, res.PeakComplementarySensitivityRadPerSec = math.NaN(), math.NaN()
 		res.BandwidthRadPerSec = math.NaN()
 	case lp.tau == 0:
-		res.PeakSensitivity, res.PeakSensitivityRadPerSec = lp.rationalPeak(false)
-		res.PeakComplementarySensitivity, res.PeakComplementarySensitivityRadPerSec = lp.rationalPeak(true)
+		res.PeakSensitivity, res.PeakSensitivityRadPerSec = lp.rationalPeak(false, gains)
+		res.PeakComplementarySensitivity, res.PeakComplementarySensitivityRadPerSec = lp.rationalPeak(true, gains)
 		res.BandwidthRadPerSec = lp.rationalBandwidth()
 	default:
 		lp.delayPeaks(&res, gains)
