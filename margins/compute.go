@@ -334,7 +334,7 @@ func (lp *loop) checkWellPosed() error {
 func (lp *loop) closedLoopPoles() (z, p int, err error) {
 	ch := lp.den.Add(lp.num)
 	if !lp.discrete() {
-		if rhp, zero, ok := rightHalfPlaneRoots(ch); ok {
+		if rhp, zero, ok := countRightHalfPlane(ch); ok {
 			return rhp + zero, lp.openUnstable, nil
 		}
 	}
