@@ -107,57 +107,44 @@ func (lp *loop) peakPolys(complementary bool) (p, q poly.Poly) {
 const levelSetEta = 1e-2
 
 // levelSet returns the intervals of x = u² where P/Q > γ²·(1 − η), γ the
-// best value so far, updating γ (through consider) at the midpoints of the
-// intervals (a second round when it rose by more than η); ok is false when
-// the roots of the level polynomial could not be found.
+// best value so far; they hold every point where |S| (or |T|) exceeds that
+// level, the global maximum among them. The value at the midpoint of each
+// interval is offered to consider. ok is false when the roots of the level
+// polynomial could not be found.
 func (lp *loop) levelSet(p, q poly.Poly, gamma float64, val func(float64) float64, consider func(w, v float64)) ([][2]float64, bool) {
-	var out [][2]float64
-	for round := 0; ; round++ {
-		level := gamma * gamma * (1 - levelSetEta)
-		h := p.Sub(q.Scale(level))
-		if h.IsZero() {
-			return nil, false
-		}
-		rs, err := poly.RealRootsInWithSettings(h, 0, math.Inf(1), &poly.RealRootSettings{CandidateImagTolerance: candidateImagTol})
-		if err != nil {
-			return nil, false
-		}
-		bounds := []float64{0}
-		for _, r := range rs {
-			bounds = append(bounds, r.Value)
-		}
-		bounds = append(bounds, math.Inf(1))
-		out = out[:0]
-		raised := false
-		for i := 0; i+1 < len(bounds); i++ {
-			a, b := bounds[i], bounds[i+1]
-			var m float64
-			switch {
-			case math.IsInf(b, 1):
-				m = 2*a + 1
-			case a == 0:
-				m = b / 2
-			default:
-				m = math.Sqrt(a * b)
-			}
-			if !(h.Eval(m) > 0) {
-				continue
-			}
-			out = append(out, [2]float64{a, b})
-			w := lp.fromX(m)
-			if v := val(w); v > gamma {
-				consider(w, v)
-				// A second round narrows the intervals when γ rose
-				// noticeably; the last ones are valid either way (they
-				// hold every point above a level below the maximum).
-				raised = raised || v > gamma*(1+levelSetEta)
-				gamma = v
-			}
-		}
-		if !raised || round == 1 {
-			return out, true
-		}
+	h := p.Sub(q.Scale(gamma * gamma * (1 - levelSetEta)))
+	if h.IsZero() {
+		return nil, false
 	}
+	rs, err := poly.RealRootsInWithSettings(h, 0, math.Inf(1), &poly.RealRootSettings{CandidateImagTolerance: candidateImagTol})
+	if err != nil {
+		return nil, false
+	}
+	bounds := []float64{0}
+	for _, r := range rs {
+		bounds = append(bounds, r.Value)
+	}
+	bounds = append(bounds, math.Inf(1))
+	var out [][2]float64
+	for i := 0; i+1 < len(bounds); i++ {
+		a, b := bounds[i], bounds[i+1]
+		var m float64
+		switch {
+		case math.IsInf(b, 1):
+			m = 2*a + 1
+		case a == 0:
+			m = b / 2
+		default:
+			m = math.Sqrt(a * b)
+		}
+		if !(h.Eval(m) > 0) {
+			continue
+		}
+		out = append(out, [2]float64{a, b})
+		w := lp.fromX(m)
+		consider(w, val(w))
+	}
+	return out, true
 }
 
 // rationalBandwidth returns the lowest ω where |T| = |T(0)|/√2: the

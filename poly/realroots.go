@@ -129,8 +129,28 @@ func RealRootsInWithSettings(p Poly, lo, hi float64, set *RealRootSettings) ([]R
 	default:
 		m = mobius{hi, lo, 1, 1}
 	}
-	q, e := m.apply(p)
+	sh := newShifter(p.Degree())
+	q, e := m.apply(p, sh)
 	xs, ok := isolatePositive(p, q, e, m)
+	if !ok && m != (mobius{1, 0, 0, 1}) && (lo >= 0 || hi <= 0) {
+		// The image of a short interval far from the origin can be too
+		// ill-conditioned to decide; the whole half-line, reached by the
+		// search in well-conditioned steps, often is not.
+		half := mobius{1, 0, 0, 1}
+		if hi <= 0 {
+			half = mobius{-1, 0, 0, 1}
+		}
+		q, e = half.apply(p, sh)
+		if all, okAll := isolatePositive(p, q, e, half); okAll {
+			xs, ok = xs[:0], true
+			for _, x := range all {
+				if x > lo && x < hi {
+					xs = append(xs, x)
+				}
+			}
+			slices.Sort(xs)
+		}
+	}
 	if ok {
 		out := make([]RealRoot, len(xs))
 		for i, x := range xs {
@@ -194,21 +214,23 @@ func (m mobius) at(y float64) float64 {
 
 // apply returns (c·y + d)ⁿ·p(M(y)), ascending, with bounds on the
 // rounding errors of its coefficients, for the initial maps used: c = 0
-// (p(a·y + b)) or a = hi, b = lo, c = d = 1.
-func (m mobius) apply(p Poly) (q, e []float64) {
+// (p(a·y + b)) or a = hi, b = lo, c = d = 1. A shift by b ≠ 0 is done as
+// p(b·(1 + t)) with the binomial shift by 1 between two scalings.
+func (m mobius) apply(p Poly, sh *shifter) (q, e []float64) {
 	q = p.Ascending()
 	e = make([]float64, len(q))
-	taylorShift(q, e, m.b)
 	w := m.a
 	if m.c != 0 {
 		w = m.a - m.b
 	}
-	s := 1.0
-	for i := range q {
-		q[i] *= s
-		e[i] = e[i]*math.Abs(s) + 0x1p-53*math.Abs(q[i])
-		s *= w
+	if m.b != 0 {
+		scaleVariable(q, e, m.b)
+		t, te := make([]float64, len(q)), make([]float64, len(q))
+		sh.shift1(t, te, q, e)
+		q, e = t, te
+		w /= m.b
 	}
+	scaleVariable(q, e, w)
 	if m.c == 0 {
 		return q, e
 	}
@@ -216,49 +238,25 @@ func (m mobius) apply(p Poly) (q, e []float64) {
 	// reverse of shift₁(reverse r).
 	slices.Reverse(q)
 	slices.Reverse(e)
-	taylorShift(q, e, 1)
-	slices.Reverse(q)
-	slices.Reverse(e)
-	return q, e
+	t, te := make([]float64, len(q)), make([]float64, len(q))
+	sh.shift1(t, te, q, e)
+	slices.Reverse(t)
+	slices.Reverse(te)
+	return t, te
 }
 
-// taylorShift replaces c (ascending) by the coefficients of q(y + s) by
-// Horner's scheme (n(n+1)/2 steps cᵢ ← cᵢ + s·cᵢ₊₁), and e, when not nil,
-// by a bound on the error of the result given the bounds e on c. The
-// shift is linear with non-negative weights in |s|, so an error e in the
-// input becomes at most T(e) (T the shift by |s|), and the rounding of the
-// computed shift is at most γ₂ₙ·T(|c|) componentwise (each coefficient is a
-// sum of at most n products, formed in at most 2n roundings; Higham 2002,
-// §3.1 and §5.1): hence e ← T(e + γ₂ₙ·|c|), one more shift of a
-// non-negative vector, whose own rounding the factor 1 + γ₂ₙ covers.
-func taylorShift(c, e []float64, s float64) {
-	n := len(c) - 1
-	if s == 0 {
+// scaleVariable replaces c by the coefficients of q(s·y) and e by a bound
+// on the error of the result: the power sⁱ carries at most i roundings and
+// the product one more, γ_{i+1} relative.
+func scaleVariable(c, e []float64, s float64) {
+	if s == 1 {
 		return
 	}
-	if e != nil {
-		g := gammaN(2 * n)
-		for i := range e {
-			e[i] += g * math.Abs(c[i])
-		}
-	}
-	as := math.Abs(s)
-	for i := 0; i < n; i++ {
-		for j := n - 1; j >= i; j-- {
-			c[j] += s * c[j+1]
-		}
-	}
-	if e == nil {
-		return
-	}
-	for i := 0; i < n; i++ {
-		for j := n - 1; j >= i; j-- {
-			e[j] += as * e[j+1]
-		}
-	}
-	g := 1 + gammaN(2*n)
-	for i := range e {
-		e[i] *= g
+	x := 1.0
+	for i := range c {
+		c[i] *= x
+		e[i] = e[i]*math.Abs(x) + gammaN(i+1)*math.Abs(c[i])
+		x *= s
 	}
 }
 
@@ -271,9 +269,12 @@ func gammaN(k int) float64 {
 // shifter forms q(y + 1) of polynomials of one degree n as the binomial
 // sums q'ₖ = Σⱼ₌ₖⁿ C(j, k)·qⱼ: the same values as Horner's shift, but with
 // independent sums instead of one chain of dependent additions, so that it
-// runs several times faster. The error bound is that of taylorShift with
-// γ₂ₙ₊₂ (the binomials are exact integers up to n = 56 and rounded once
-// per Pascal step beyond; each sum adds n + 1 roundings).
+// runs several times faster. The shift is linear with non-negative weights,
+// so an error e in the input becomes at most T(e) (T the shift), and the
+// rounding of the sums is at most γ₂ₙ₊₂·T(|c|) (Higham 2002, §3.1):
+// hence e ← (1 + γ₂ₙ₊₂)·T(e + γ₂ₙ₊₂·|c|). The binomials are exact
+// integers up to n = 56 and rounded once per Pascal step beyond; each sum
+// adds n + 1 roundings, which γ₂ₙ₊₂ covers.
 type shifter struct {
 	n      int
 	stride int
@@ -316,7 +317,7 @@ func newShifter(n int) *shifter {
 }
 
 // shift1 writes q(y + 1) of c into dst and its error bound given the bound
-// e on c into edst (see taylorShift).
+// e on c into edst (see shifter).
 func (s *shifter) shift1(dst, edst, c, e []float64) {
 	n, g := s.n, s.g
 	a := s.work[:n+1]
