@@ -116,7 +116,9 @@ func (lp *loop) levelSet(p, q poly.Poly, gamma float64, val func(float64) float6
 	if h.IsZero() {
 		return nil, false
 	}
-	rs, err := poly.RealRootsInWithSettings(h, 0, math.Inf(1), &poly.RealRootSettings{CandidateImagTolerance: candidateImagTol})
+	// The bounds need not be exact: the level lies a relative η below the
+	// best value, so a bound off by 1e-10 relative cannot cut the maximum.
+	rs, err := poly.RealRootsInWithSettings(h, 0, math.Inf(1), &poly.RealRootSettings{CandidateImagTolerance: candidateImagTol, RelTolerance: 1e-10})
 	if err != nil {
 		return nil, false
 	}

@@ -59,6 +59,11 @@ type RealRootSettings struct {
 	// lost. If zero, only the roots that RootsWithMultiplicity reports as
 	// real are returned.
 	CandidateImagTolerance float64
+	// RelTolerance, in [0, 1e-3], is the relative width to which each
+	// isolated root is refined, for callers that need the roots only
+	// roughly (interval bounds, starting points of their own polishing).
+	// If zero, defaults to 4u (u = 2⁻⁵³): full accuracy.
+	RelTolerance float64
 }
 
 // RealRootsIn returns the real roots x of p with lo < x < hi, ascending,
@@ -101,6 +106,12 @@ func RealRootsInWithSettings(p Poly, lo, hi float64, set *RealRootSettings) ([]R
 		return nil, fmt.Errorf("%w: interval (%v, %v) is empty", ErrBadTolerance, lo, hi)
 	case set != nil && !(set.CandidateImagTolerance >= 0):
 		return nil, fmt.Errorf("%w: RealRootSettings.CandidateImagTolerance is %v, want ≥ 0", ErrBadTolerance, set.CandidateImagTolerance)
+	case set != nil && !(set.RelTolerance >= 0 && set.RelTolerance <= 1e-3):
+		return nil, fmt.Errorf("%w: RealRootSettings.RelTolerance is %v, want in [0, 1e-3]", ErrBadTolerance, set.RelTolerance)
+	}
+	tol := 4 * 0x1p-53
+	if set != nil && set.RelTolerance > tol {
+		tol = set.RelTolerance
 	}
 	if p.Degree() < 1 {
 		return nil, nil
@@ -131,7 +142,7 @@ func RealRootsInWithSettings(p Poly, lo, hi float64, set *RealRootSettings) ([]R
 	}
 	sh := newShifter(p.Degree())
 	q, e := m.apply(p, sh)
-	xs, ok := isolatePositive(p, q, e, m)
+	xs, ok := isolatePositive(p, q, e, m, tol)
 	if !ok && m != (mobius{1, 0, 0, 1}) && (lo >= 0 || hi <= 0) {
 		// The image of a short interval far from the origin can be too
 		// ill-conditioned to decide; the whole half-line, reached by the
@@ -141,7 +152,7 @@ func RealRootsInWithSettings(p Poly, lo, hi float64, set *RealRootSettings) ([]R
 			half = mobius{-1, 0, 0, 1}
 		}
 		q, e = half.apply(p, sh)
-		if all, okAll := isolatePositive(p, q, e, half); okAll {
+		if all, okAll := isolatePositive(p, q, e, half, tol); okAll {
 			xs, ok = xs[:0], true
 			for _, x := range all {
 				if x > lo && x < hi {
@@ -567,9 +578,10 @@ type isolationNode struct {
 const maxIsolationDepth = 400
 
 // isolatePositive returns the roots of p in the image of (0, ∞) under m,
-// ascending, given q = (c·y + d)ⁿ·p(M(y)) (ascending). ok is false when the
+// ascending, given q = (c·y + d)ⁿ·p(M(y)) (ascending), each refined to
+// the relative width tol. ok is false when the
 // search cannot decide (see the comment at the top of this file).
-func isolatePositive(p0 Poly, q, e []float64, m mobius) (roots []float64, ok bool) {
+func isolatePositive(p0 Poly, q, e []float64, m mobius, tol float64) (roots []float64, ok bool) {
 	n := len(q) - 1
 	for n > 0 && q[n] == 0 {
 		n-- // the image has lower degree (a root at the far end of the interval)
@@ -608,7 +620,7 @@ func isolatePositive(p0 Poly, q, e []float64, m mobius) (roots []float64, ok boo
 			continue
 		}
 		if known && vmin == 1 && vmax == 1 {
-			x, good := rootIn(p0, nd)
+			x, good := rootIn(p0, nd, tol)
 			if !good {
 				return nil, false
 			}
@@ -639,7 +651,7 @@ func isolatePositive(p0 Poly, q, e []float64, m mobius) (roots []float64, ok boo
 				return nil, false
 			}
 			if vmin == 1 && vmax == 1 {
-				x, good := rootIn(p0, nd)
+				x, good := rootIn(p0, nd, tol)
 				if !good {
 					return nil, false
 				}
@@ -674,10 +686,10 @@ func isolatePositive(p0 Poly, q, e []float64, m mobius) (roots []float64, ok boo
 // taken when it stays inside the bracket and at least halves it, otherwise
 // the bracket is bisected (geometrically while its ends differ by more than
 // a factor 4), so convergence is guaranteed and quadratic near the simple
-// root. It stops when the bracket or the step is a few ulps of the root.
+// root. It stops when the bracket or the step is below tol relative.
 // ok is false when p does not change sign between the ends in floating
 // point (a root within rounding of an end).
-func rootIn(p Poly, nd isolationNode) (float64, bool) {
+func rootIn(p Poly, nd isolationNode, tol float64) (float64, bool) {
 	ub := kioustelidisBound(nd.c)
 	if !(ub > 0) || math.IsInf(ub, 0) {
 		return 0, false
@@ -699,7 +711,6 @@ func rootIn(p Poly, nd isolationNode) (float64, bool) {
 	if flo == 0 || fhi == 0 || (flo > 0) == (fhi > 0) || math.IsNaN(flo) || math.IsNaN(fhi) {
 		return 0, false
 	}
-	const tol = 4 * 0x1p-53
 	x := 0.5 * (lo + hi)
 	if lo > 0 && hi > 4*lo {
 		x = math.Sqrt(lo * hi)

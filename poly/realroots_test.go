@@ -94,6 +94,14 @@ func TestRealRootsInBadInput(t *testing.T) {
 	if _, err := RealRootsInWithSettings(p, 0, 1, &RealRootSettings{CandidateImagTolerance: -1}); !errors.Is(err, ErrBadTolerance) {
 		t.Errorf("negative CandidateImagTolerance: error %v, want ErrBadTolerance", err)
 	}
+	if _, err := RealRootsInWithSettings(p, 0, 1, &RealRootSettings{RelTolerance: 0.1}); !errors.Is(err, ErrBadTolerance) {
+		t.Errorf("RelTolerance 0.1: error %v, want ErrBadTolerance", err)
+	}
+	// A coarse tolerance still brackets the root to that width.
+	rs, err := RealRootsInWithSettings(MustNew(1, 0, -2), 0, 2, &RealRootSettings{RelTolerance: 1e-6})
+	if err != nil || len(rs) != 1 || math.Abs(rs[0].Value-math.Sqrt2) > 2e-6*math.Sqrt2 {
+		t.Errorf("√2 to 1e-6: %v, %v", rs, err)
+	}
 }
 
 // TestRealRootsInRandom checks RealRootsIn on random polynomials of degree
