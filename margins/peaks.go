@@ -77,7 +77,7 @@ func (lp *loop) rationalPeak(complementary bool, hints []float64) (peak, freq fl
 		}
 	}
 	for _, iv := range search {
-		rs, err := poly.RealRootsInWithSettings(dd, iv[0], iv[1], &poly.RealRootSettings{CandidateImagTolerance: candidateImagTol})
+		rs, err := poly.RealRootsInWithSettings(dd, iv[0], iv[1], &poly.RealRootSettings{CandidateImagTolerance: candidateImagTol, RelTolerance: candidateRelTol})
 		if err != nil {
 			continue
 		}
@@ -168,7 +168,7 @@ func (lp *loop) rationalBandwidth() float64 {
 		dlnT := dlnL * d / (d + n*e) // d ln T/dω = (d ln L/dω)/(1 + L)
 		return math.Log(cmplx.Abs(t)) - target, real(dlnT)
 	}
-	for _, x := range positiveRoots(p.Scale(2).Sub(q.Scale(t0sq))) {
+	for _, x := range positiveCandidates(p.Scale(2).Sub(q.Scale(t0sq))) {
 		w0 := lp.fromX(x)
 		w, ok := newton(f, w0, 0, lp.nyquist())
 		if !ok {

@@ -33,10 +33,27 @@ const (
 // when the isolation cannot separate roots, such as a nearly double root at
 // a tangency, which polishing then merges.
 func positiveRoots(p poly.Poly) []float64 {
+	return positiveRootsTo(p, 0)
+}
+
+// candidateRelTol is the relative accuracy of candidates that are polished
+// afterwards on the directly evaluated loop (crossovers, bandwidth) or
+// whose value is stationary there (peaks): Newton's method from 1e-9
+// reaches full accuracy in one or two steps.
+const candidateRelTol = 1e-9
+
+// positiveCandidates is positiveRoots to the accuracy candidateRelTol.
+func positiveCandidates(p poly.Poly) []float64 {
+	return positiveRootsTo(p, candidateRelTol)
+}
+
+// positiveRootsTo is positiveRoots with the roots refined to the relative
+// accuracy tol (0: full accuracy).
+func positiveRootsTo(p poly.Poly, tol float64) []float64 {
 	if p.Degree() < 1 {
 		return nil
 	}
-	rs, err := poly.RealRootsInWithSettings(p, 0, math.Inf(1), &poly.RealRootSettings{CandidateImagTolerance: candidateImagTol})
+	rs, err := poly.RealRootsInWithSettings(p, 0, math.Inf(1), &poly.RealRootSettings{CandidateImagTolerance: candidateImagTol, RelTolerance: tol})
 	if err != nil {
 		return nil
 	}
