@@ -168,7 +168,21 @@ func (lp *loop) rationalBandwidth() float64 {
 		dlnT := dlnL * d / (d + n*e) // d ln T/dω = (d ln L/dω)/(1 + L)
 		return math.Log(cmplx.Abs(t)) - target, real(dlnT)
 	}
-	for _, x := range positiveCandidates(p.Scale(2).Sub(q.Scale(t0sq))) {
+	// The smallest candidate is almost always the bandwidth: look at it
+	// alone first (an ordered search that stops early), then at all.
+	h := p.Scale(2).Sub(q.Scale(t0sq))
+	first, err := poly.RealRootsInWithSettings(h, 0, math.Inf(1), &poly.RealRootSettings{CandidateImagTolerance: candidateImagTol, RelTolerance: candidateRelTol, MaxRoots: 1})
+	if err == nil && len(first) == 1 {
+		w0 := lp.fromX(first[0].Value)
+		w, ok := newton(f, w0, 0, lp.nyquist())
+		if !ok {
+			w = w0
+		}
+		if v, _ := f(w); math.Abs(v) <= 1e-7 {
+			return w
+		}
+	}
+	for _, x := range positiveCandidates(h) {
 		w0 := lp.fromX(x)
 		w, ok := newton(f, w0, 0, lp.nyquist())
 		if !ok {

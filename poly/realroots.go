@@ -64,6 +64,10 @@ type RealRootSettings struct {
 	// roughly (interval bounds, starting points of their own polishing).
 	// If zero, defaults to 4u (u = 2⁻⁵³): full accuracy.
 	RelTolerance float64
+	// MaxRoots, ≥ 0, limits the result to the MaxRoots smallest roots: the
+	// search then visits the interval in ascending order and stops early.
+	// If zero, every root is returned.
+	MaxRoots int
 }
 
 // RealRootsIn returns the real roots x of p with lo < x < hi, ascending,
@@ -106,12 +110,14 @@ func RealRootsInWithSettings(p Poly, lo, hi float64, set *RealRootSettings) ([]R
 		return nil, fmt.Errorf("%w: interval (%v, %v) is empty", ErrBadTolerance, lo, hi)
 	case set != nil && !(set.CandidateImagTolerance >= 0):
 		return nil, fmt.Errorf("%w: RealRootSettings.CandidateImagTolerance is %v, want ≥ 0", ErrBadTolerance, set.CandidateImagTolerance)
+	case set != nil && set.MaxRoots < 0:
+		return nil, fmt.Errorf("%w: RealRootSettings.MaxRoots is %d, want ≥ 0", ErrBadTolerance, set.MaxRoots)
 	case set != nil && !(set.RelTolerance >= 0 && set.RelTolerance <= 1e-3):
 		return nil, fmt.Errorf("%w: RealRootSettings.RelTolerance is %v, want in [0, 1e-3]", ErrBadTolerance, set.RelTolerance)
 	}
-	tol := 4 * 0x1p-53
-	if set != nil && set.RelTolerance > tol {
-		tol = set.RelTolerance
+	tol, limit := 4*0x1p-53, 0
+	if set != nil {
+		tol, limit = math.Max(tol, set.RelTolerance), set.MaxRoots
 	}
 	if p.Degree() < 1 {
 		return nil, nil
@@ -120,7 +126,15 @@ func RealRootsInWithSettings(p Poly, lo, hi float64, set *RealRootSettings) ([]R
 	var m mobius
 	switch {
 	case math.IsInf(lo, -1) && math.IsInf(hi, 1):
-		neg, err1 := RealRootsInWithSettings(p, lo, 0, set)
+		// The smallest roots are the most negative: the negative half is
+		// searched completely.
+		all := (*RealRootSettings)(nil)
+		if set != nil {
+			c := *set
+			c.MaxRoots = 0
+			all = &c
+		}
+		neg, err1 := RealRootsInWithSettings(p, lo, 0, all)
 		pos, err2 := RealRootsInWithSettings(p, 0, hi, set)
 		if err := firstErr(err1, err2); err != nil {
 			return nil, err
@@ -132,7 +146,11 @@ func RealRootsInWithSettings(p Poly, lo, hi float64, set *RealRootSettings) ([]R
 			}
 			neg = append(neg, RealRoot{Value: 0, Multiplicity: k})
 		}
-		return append(neg, pos...), nil
+		out := append(neg, pos...)
+		if set != nil && set.MaxRoots > 0 && len(out) > set.MaxRoots {
+			out = out[:set.MaxRoots]
+		}
+		return out, nil
 	case math.IsInf(hi, 1):
 		m = mobius{1, lo, 0, 1}
 	case math.IsInf(lo, -1):
@@ -142,7 +160,7 @@ func RealRootsInWithSettings(p Poly, lo, hi float64, set *RealRootSettings) ([]R
 	}
 	sh := newShifter(p.Degree())
 	q, e := m.apply(p, sh)
-	xs, ok := isolatePositive(p, q, e, m, tol)
+	xs, ok := isolatePositive(p, q, e, m, tol, limit)
 	if !ok && m != (mobius{1, 0, 0, 1}) && (lo >= 0 || hi <= 0) {
 		// The image of a short interval far from the origin can be too
 		// ill-conditioned to decide; the whole half-line, reached by the
@@ -152,7 +170,7 @@ func RealRootsInWithSettings(p Poly, lo, hi float64, set *RealRootSettings) ([]R
 			half = mobius{-1, 0, 0, 1}
 		}
 		q, e = half.apply(p, sh)
-		if all, okAll := isolatePositive(p, q, e, half, tol); okAll {
+		if all, okAll := isolatePositive(p, q, e, half, tol, 0); okAll {
 			xs, ok = xs[:0], true
 			for _, x := range all {
 				if x > lo && x < hi {
@@ -163,13 +181,20 @@ func RealRootsInWithSettings(p Poly, lo, hi float64, set *RealRootSettings) ([]R
 		}
 	}
 	if ok {
+		if limit > 0 && len(xs) > limit {
+			xs = xs[:limit]
+		}
 		out := make([]RealRoot, len(xs))
 		for i, x := range xs {
 			out[i] = RealRoot{Value: x, Multiplicity: 1}
 		}
 		return out, nil
 	}
-	return eigenRealRoots(p, lo, hi, set)
+	rs, err := eigenRealRoots(p, lo, hi, set)
+	if limit > 0 && len(rs) > limit {
+		rs = rs[:limit]
+	}
+	return rs, err
 }
 
 func firstErr(errs ...error) error {
@@ -581,7 +606,7 @@ const maxIsolationDepth = 400
 // ascending, given q = (c·y + d)ⁿ·p(M(y)) (ascending), each refined to
 // the relative width tol. ok is false when the
 // search cannot decide (see the comment at the top of this file).
-func isolatePositive(p0 Poly, q, e []float64, m mobius, tol float64) (roots []float64, ok bool) {
+func isolatePositive(p0 Poly, q, e []float64, m mobius, tol float64, limit int) (roots []float64, ok bool) {
 	n := len(q) - 1
 	for n > 0 && q[n] == 0 {
 		n-- // the image has lower degree (a root at the far end of the interval)
@@ -612,7 +637,7 @@ func isolatePositive(p0 Poly, q, e []float64, m mobius, tol float64) (roots []fl
 	}
 	sh := newShifter(deg)
 	stack := []isolationNode{{c: q, e: e, m: m}}
-	for len(stack) > 0 {
+	for len(stack) > 0 && (limit == 0 || len(roots) < limit) {
 		nd := stack[len(stack)-1]
 		stack = stack[:len(stack)-1]
 		vmin, vmax, known := signVariations(nd.c, nd.e)
@@ -673,7 +698,13 @@ func isolatePositive(p0 Poly, q, e []float64, m mobius, tol float64) (roots []fl
 		slices.Reverse(nd.e)
 		sh.shift1(left.c, left.e, nd.c, nd.e)
 		left.m = mobius{nd.m.b, nd.m.a + nd.m.b, nd.m.d, nd.m.c + nd.m.d}
-		stack = append(stack, left, right)
+		// Visit the children in ascending x (the last pushed is next):
+		// the left one first when M is increasing (a·d − b·c > 0).
+		if nd.m.a*nd.m.d-nd.m.b*nd.m.c > 0 {
+			stack = append(stack, right, left)
+		} else {
+			stack = append(stack, left, right)
+		}
 	}
 	slices.Sort(roots)
 	return roots, true

@@ -94,6 +94,9 @@ func TestRealRootsInBadInput(t *testing.T) {
 	if _, err := RealRootsInWithSettings(p, 0, 1, &RealRootSettings{CandidateImagTolerance: -1}); !errors.Is(err, ErrBadTolerance) {
 		t.Errorf("negative CandidateImagTolerance: error %v, want ErrBadTolerance", err)
 	}
+	if _, err := RealRootsInWithSettings(p, 0, 1, &RealRootSettings{MaxRoots: -1}); !errors.Is(err, ErrBadTolerance) {
+		t.Errorf("MaxRoots −1: error %v, want ErrBadTolerance", err)
+	}
 	if _, err := RealRootsInWithSettings(p, 0, 1, &RealRootSettings{RelTolerance: 0.1}); !errors.Is(err, ErrBadTolerance) {
 		t.Errorf("RelTolerance 0.1: error %v, want ErrBadTolerance", err)
 	}
@@ -146,6 +149,26 @@ func TestRealRootsInRandom(t *testing.T) {
 		got, err := RealRootsIn(p, math.Inf(-1), math.Inf(1))
 		if err != nil {
 			t.Fatal(err)
+		}
+		// The smallest two positive roots by the ordered search.
+		var wantPos []float64
+		for _, w := range want {
+			if w > 0 && len(wantPos) < 2 {
+				wantPos = append(wantPos, w)
+			}
+		}
+		first, err := RealRootsInWithSettings(p, 0, math.Inf(1), &RealRootSettings{MaxRoots: 2})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(first) != len(wantPos) {
+			t.Errorf("trial %d: MaxRoots 2 gives %v, want %v", trial, first, wantPos)
+		} else {
+			for i, w := range wantPos {
+				if math.Abs(first[i].Value-w) > 1e-9*w {
+					t.Errorf("trial %d: MaxRoots 2 gives %v, want %v", trial, first, wantPos)
+				}
+			}
 		}
 		if len(got) != len(want) {
 			t.Errorf("trial %d (degree %d): %d roots, want %d: %v vs %v", trial, n, len(got), len(want), got, want)
