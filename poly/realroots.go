@@ -473,7 +473,7 @@ func signVariations(c, e []float64) (vmin, vmax int, known bool) {
 
 // positiveLowerBound returns a lower bound of the positive roots of c
 // (ascending, c[0] ≠ 0): the reciprocal of the upper bound of the reversed
-// polynomial (see positiveUpperBound). It returns +Inf when the reversed
+// polynomial (see lmqBound). It returns +Inf when the reversed
 // polynomial has no sign change (no positive root).
 func positiveLowerBound(c []float64) float64 {
 	ub := lmqBound(c, true)
@@ -483,7 +483,7 @@ func positiveLowerBound(c []float64) float64 {
 	return 1 / ub
 }
 
-// positiveUpperBound returns the local-max quadratic bound on the positive
+// lmqBound returns the local-max quadratic bound on the positive
 // roots of c (ascending, leading coefficient non-zero; Akritas, Strzeboński
 // & Vigklas 2008, "Improving the performance of the continued fractions
 // method using new bounds of positive roots", Nonlinear Analysis:
@@ -492,9 +492,8 @@ func positiveLowerBound(c []float64) float64 {
 // cⱼ > 0, the j-th used for the t-th time at the weight 2^(−t), giving
 // (2^t·|cᵢ|/cⱼ)^(1/(j−i)); the bound is the largest over i of the smallest
 // over j. It is 0 when there is no sign change.
-func positiveUpperBound(c []float64) float64 { return lmqBound(c, false) }
-
-// lmqBound is positiveUpperBound of c, or of c reversed when rev is set.
+//
+// lmqBound applies it to c, or to c reversed when rev is set.
 func lmqBound(c []float64, rev bool) float64 {
 	n := len(c) - 1
 	// Work with base-2 logarithms: (2^t·|cᵢ|/cⱼ)^(1/(j−i)) is
