@@ -26,9 +26,10 @@ type Settings struct {
 	OmegaMaxRadPerSec float64
 
 	// SkipPeaks leaves out Ms, Mt and the bandwidth (their fields are NaN),
-	// which for rational loops cost two polynomial root problems of degree
-	// 2n−2 in ω²: for fast repeated margin checks. If false (the default),
-	// everything is computed.
+	// which for rational loops cost about two thirds of the time (real-root
+	// problems of degree n and, on short intervals, 2n−2 in ω²): for fast
+	// repeated margin checks. If false (the default), everything is
+	// computed.
 	SkipPeaks bool
 }
 
@@ -146,9 +147,10 @@ type Result struct {
 	OmegaMaxRadPerSec float64
 
 	// SkipPeaks leaves out Ms, Mt and the bandwidth (their fields are NaN),
-	// which for rational loops cost two polynomial root problems of degree
-	// 2n−2 in ω²: for fast repeated margin checks. If false (the default),
-	// everything is computed.
+	// which for rational loops cost about two thirds of the time (real-root
+	// problems of degree n and, on short intervals, 2n−2 in ω²): for fast
+	// repeated margin checks. If false (the default), everything is
+	// computed.
 	SkipPeaks bool
 }
 
@@ -177,24 +179,27 @@ func checkSettings(set *Settings) (Settings, error) {
 //
 // Without dead time, the gain crossovers are the positive real roots of
 // |N(jω)|² − |D(jω)|² and the phase crossovers those of Im(N·conj D), both
-// polynomials in ω²; the roots (eigenvalues of the balanced companion
-// matrix) are polished by Newton's method on the directly evaluated L, so
-// frequencies and margins are accurate to a few ulps of the conditioning of
-// the crossover, and no crossover can be missed between grid points.
-// Discrete loops are mapped to such polynomials exactly by the bilinear
-// substitution z = (1+w)/(1−w). With dead time, the gain crossovers are
-// unchanged and the phase crossovers are found by the guaranteed search of
-// delayPhaseCrossovers (monotone pieces, Brent 1973).
+// polynomials in ω²; the roots (real-root isolation by Descartes' rule and
+// continued fractions, poly.RealRootsIn) are polished by Newton's method on
+// the directly evaluated L, so frequencies and margins are accurate to a
+// few ulps of the conditioning of the crossover, and no crossover can be
+// missed between grid points. Discrete loops are mapped to such
+// polynomials exactly by the bilinear substitution z = (1+w)/(1−w). With
+// dead time, the gain crossovers are unchanged and the phase crossovers
+// are found by the guaranteed search of delayPhaseCrossovers (monotone
+// pieces, Brent 1973); zeros of L on the axis are points where L = 0 and
+// the phase jumps, and are cut out like poles.
 //
 // Ms and Mt are the largest of |S| and |T| at the stationary points, the
-// roots of P′Q − PQ′ for |S|² = P/Q (rational loops), or found by
+// roots of P′Q − PQ′ for |S|² = P/Q inside the level set above the best
+// value found (rational loops; see the package documentation), or found by
 // golden-section refinement (Kiefer 1953) of the local maxima of a scan
 // with dead time: 60 points per decade and at most π/(16τ) apart, up to
 // where |L| ≤ 10⁻³; the frequency of a peak is then good to about √eps.
 // Closed-loop stability: the Routh array of den + num with a running error
-// bound, or its roots (rational loops); with dead time, the Nyquist
-// criterion counted from the exact phase crossovers (see the package
-// documentation).
+// bound, the winding count along the axis, or its roots (rational loops);
+// with dead time, the Nyquist criterion counted from the exact phase
+// crossovers (see the package documentation).
 //
 // Errors: ErrZeroLoop, ErrImproper, ErrDegenerate, ErrIllPosed,
 // ErrUnsupported, ErrBadSettings.
@@ -310,8 +315,8 @@ func Compute(loop tf.TF, set *Settings) (Result, error) {
 		res.PeakComplementarySensitivity, res.PeakComplementarySensitivityRadPerSec = math.NaN(), math.NaN()
 		res.BandwidthRadPerSec = math.NaN()
 	case lp.tau == 0:
-		res.PeakSensitivity, res.PeakSensitivityRadPerSec = lp.rationalPeak(false)
-		res.PeakComplementarySensitivity, res.PeakComplementarySensitivityRadPerSec = lp.rationalPeak(true)
+		res.PeakSensitivity, res.PeakSensitivityRadPerSec = lp.rationalPeak(false, gains)
+		res.PeakComplementarySensitivity, res.PeakComplementarySensitivityRadPerSec = lp.rationalPeak(true, gains)
 		res.BandwidthRadPerSec = lp.rationalBandwidth()
 	default:
 		lp.delayPeaks(&res, gains)
@@ -334,7 +339,7 @@ func (lp *loop) checkWellPosed() error {
 func (lp *loop) closedLoopPoles() (z, p int, err error) {
 	ch := lp.den.Add(lp.num)
 	if !lp.discrete() {
-		if rhp, zero, ok := rightHalfPlaneRoots(ch); ok {
+		if rhp, zero, ok := countRightHalfPlane(ch); ok {
 			return rhp + zero, lp.openUnstable, nil
 		}
 	}

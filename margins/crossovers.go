@@ -39,7 +39,7 @@ func (lp *loop) gainCrossovers() ([]float64, error) {
 		return real(v), real(d)
 	}
 	var out []float64
-	for _, x := range positiveRoots(m) {
+	for _, x := range positiveCandidates(m) {
 		w0 := lp.fromX(x)
 		w, ok := newton(f, w0, 0, lp.nyquist())
 		if !ok {
@@ -133,7 +133,7 @@ func (lp *loop) rationalPhaseCrossovers() ([]crossing, error) {
 		return nil, nil
 	}
 	var out []crossing
-	for _, x := range positiveRoots(j) {
+	for _, x := range positiveCandidates(j) {
 		if c, ok := lp.polishPhaseCrossing(lp.fromX(x)); ok {
 			out = append(out, c)
 		}

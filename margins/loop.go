@@ -411,11 +411,12 @@ func (lp *loop) onAxisFrequencies(includeZeros bool) []float64 {
 
 // countOpenLoop sets lp.openUnstable, the number of poles of L with
 // Re s > 0 (|z| > 1), and lp.openIntegrators, the number at s = 0 (z = 1):
-// by the Routh array for continuous loops when it is regular, otherwise
+// by the Routh array or the winding count for continuous loops when one is
+// conclusive, otherwise
 // from the poles.
 func (lp *loop) countOpenLoop() error {
 	if !lp.discrete() {
-		if rhp, z, ok := rightHalfPlaneRoots(lp.ad); ok {
+		if rhp, z, ok := countRightHalfPlane(lp.ad); ok {
 			lp.openUnstable, lp.openIntegrators = rhp, z
 			return nil
 		}

@@ -3,6 +3,8 @@ package margins
 import (
 	"math"
 	"math/cmplx"
+
+	"github.com/loopwise/loopwise/poly"
 )
 
 // sensitivities returns |S| and |T| at ω, S = 1/(1 + L), T = L/(1 + L),
@@ -20,17 +22,24 @@ func (lp *loop) sensitivities(w float64) (s, t float64) {
 // rationalPeak returns max |S| (complementary = false) or max |T| over the
 // frequency axis of a loop without dead time, with its frequency. With
 // |S(jv)|² = P(x)/Q(x), P = |ad|², Q = |ad + an|², x = v², the candidates
-// are x = 0, the positive roots of P′Q − PQ′ and x = ∞; the largest value,
-// evaluated directly from num and den, wins (a later candidate must exceed
-// the earlier by a relative 1e-13 to replace it, so a maximum at ω = 0 or
-// at a finite ω is preferred to an equal limit).
-func (lp *loop) rationalPeak(complementary bool) (peak, freq float64) {
-	cr, ci := axisParts(lp.sad.Add(lp.san))
-	q := squaredModulus(cr, ci)
-	p := squaredModulus(lp.dr, lp.di)
-	if complementary {
-		p = squaredModulus(lp.nr, lp.ni)
-	}
+// are x = 0, the positive roots of P′Q − PQ′ (the stationary points) and
+// x = ∞; the largest value, evaluated directly from num and den, wins (a
+// later candidate must exceed the earlier by a relative 1e-13 to replace
+// it, so a maximum at ω = 0 or at a finite ω is preferred to an equal
+// limit).
+//
+// The stationary points are only sought where they can matter, by a
+// level-set step in the manner of the bisection method for the H∞ norm
+// (Boyd, Balakrishnan & Kabamba 1989, Math. Control Signals Systems 2,
+// 207–219): with γ the best value found so far (at x = 0, ∞, the hint
+// frequencies and the midpoints of earlier level sets), the set where
+// |S|² > γ²·(1 − η), η = 10⁻², is a union of intervals bounded by the positive roots
+// of P − γ²(1 − η)·Q, a polynomial of degree n instead of 2n − 2. The
+// global maximum lies in one of them, so the roots of P′Q − PQ′ are
+// isolated in those intervals only (poly.RealRootsIn), which is exact and
+// several times cheaper than isolating them on (0, ∞).
+func (lp *loop) rationalPeak(complementary bool, hints []float64) (peak, freq float64) {
+	p, q := lp.peakPolys(complementary)
 	val := func(w float64) float64 {
 		s, t := lp.sensitivities(w)
 		if complementary {
@@ -51,18 +60,93 @@ func (lp *loop) rationalPeak(complementary bool) (peak, freq float64) {
 			peak, freq = v, w
 		}
 	}
-	dd := p.Derivative().Mul(q).Sub(p.Mul(q.Derivative()))
-	for _, x := range positiveRoots(dd) {
-		w := lp.fromX(x)
-		consider(w, val(w))
-	}
 	// ω → ∞ (continuous) or ω = π/T (discrete).
 	if lp.discrete() {
 		consider(lp.nyquist(), val(lp.nyquist()))
 	} else if q.Degree() == p.Degree() && !q.IsZero() {
 		consider(math.Inf(1), math.Sqrt(p.Lead()/q.Lead()))
 	}
+	for _, w := range hints {
+		consider(w, val(w))
+	}
+	dd := p.Derivative().Mul(q).Sub(p.Mul(q.Derivative()))
+	search := [][2]float64{{0, math.Inf(1)}}
+	if peak > 0 && !math.IsInf(peak, 0) && !math.IsNaN(peak) {
+		if iv, ok := lp.levelSet(p, q, peak, val, consider); ok {
+			search = iv
+		}
+	}
+	for _, iv := range search {
+		rs, err := poly.RealRootsInWithSettings(dd, iv[0], iv[1], &poly.RealRootSettings{CandidateImagTolerance: candidateImagTol, RelTolerance: candidateRelTol})
+		if err != nil {
+			continue
+		}
+		for _, r := range rs {
+			w := lp.fromX(r.Value)
+			consider(w, val(w))
+		}
+	}
 	return peak, freq
+}
+
+// peakPolys returns P and Q with |S|² = P/Q (|T|² when complementary) as
+// polynomials in x = u².
+func (lp *loop) peakPolys(complementary bool) (p, q poly.Poly) {
+	cr, ci := axisParts(lp.sad.Add(lp.san))
+	q = squaredModulus(cr, ci)
+	p = squaredModulus(lp.dr, lp.di)
+	if complementary {
+		p = squaredModulus(lp.nr, lp.ni)
+	}
+	return p, q
+}
+
+// levelSetEta is the relative margin η of the level set in rationalPeak:
+// small enough that the intervals are narrow, large enough that the level
+// polynomial's roots near the best point stay well separated.
+const levelSetEta = 1e-2
+
+// levelSet returns the intervals of x = u² where P/Q > γ²·(1 − η), γ the
+// best value so far; they hold every point where |S| (or |T|) exceeds that
+// level, the global maximum among them. The value at the midpoint of each
+// interval is offered to consider. ok is false when the roots of the level
+// polynomial could not be found.
+func (lp *loop) levelSet(p, q poly.Poly, gamma float64, val func(float64) float64, consider func(w, v float64)) ([][2]float64, bool) {
+	h := p.Sub(q.Scale(gamma * gamma * (1 - levelSetEta)))
+	if h.IsZero() {
+		return nil, false
+	}
+	// The bounds need not be exact: the level lies a relative η below the
+	// best value, so a bound off by 1e-10 relative cannot cut the maximum.
+	rs, err := poly.RealRootsInWithSettings(h, 0, math.Inf(1), &poly.RealRootSettings{CandidateImagTolerance: candidateImagTol, RelTolerance: 1e-10})
+	if err != nil {
+		return nil, false
+	}
+	bounds := []float64{0}
+	for _, r := range rs {
+		bounds = append(bounds, r.Value)
+	}
+	bounds = append(bounds, math.Inf(1))
+	var out [][2]float64
+	for i := 0; i+1 < len(bounds); i++ {
+		a, b := bounds[i], bounds[i+1]
+		var m float64
+		switch {
+		case math.IsInf(b, 1):
+			m = 2*a + 1
+		case a == 0:
+			m = b / 2
+		default:
+			m = math.Sqrt(a * b)
+		}
+		if !(h.Eval(m) > 0) {
+			continue
+		}
+		out = append(out, [2]float64{a, b})
+		w := lp.fromX(m)
+		consider(w, val(w))
+	}
+	return out, true
 }
 
 // rationalBandwidth returns the lowest ω where |T| = |T(0)|/√2: the
@@ -84,7 +168,21 @@ func (lp *loop) rationalBandwidth() float64 {
 		dlnT := dlnL * d / (d + n*e) // d ln T/dω = (d ln L/dω)/(1 + L)
 		return math.Log(cmplx.Abs(t)) - target, real(dlnT)
 	}
-	for _, x := range positiveRoots(p.Scale(2).Sub(q.Scale(t0sq))) {
+	// The smallest candidate is almost always the bandwidth: look at it
+	// alone first (an ordered search that stops early), then at all.
+	h := p.Scale(2).Sub(q.Scale(t0sq))
+	first, err := poly.RealRootsInWithSettings(h, 0, math.Inf(1), &poly.RealRootSettings{CandidateImagTolerance: candidateImagTol, RelTolerance: candidateRelTol, MaxRoots: 1})
+	if err == nil && len(first) == 1 {
+		w0 := lp.fromX(first[0].Value)
+		w, ok := newton(f, w0, 0, lp.nyquist())
+		if !ok {
+			w = w0
+		}
+		if v, _ := f(w); math.Abs(v) <= 1e-7 {
+			return w
+		}
+	}
+	for _, x := range positiveCandidates(h) {
 		w0 := lp.fromX(x)
 		w, ok := newton(f, w0, 0, lp.nyquist())
 		if !ok {

@@ -2,6 +2,7 @@ package margins
 
 import (
 	"math"
+	"slices"
 
 	"github.com/loopwise/loopwise/poly"
 )
@@ -67,4 +68,117 @@ func rightHalfPlaneRoots(p poly.Poly) (rhp, atZero int, ok bool) {
 		e0, e1 = e1, en
 	}
 	return changes, atZero, true
+}
+
+// countRightHalfPlane returns the numbers of roots of p with Re s > 0 and
+// at s = 0 by the Routh array, or, when that is inconclusive, by the
+// winding count; ok is false when both are (the caller then counts from
+// the roots).
+func countRightHalfPlane(p poly.Poly) (rhp, atZero int, ok bool) {
+	if rhp, atZero, ok = rightHalfPlaneRoots(p); ok {
+		return rhp, atZero, true
+	}
+	return windingRoots(p)
+}
+
+// windingRoots counts like rightHalfPlaneRoots, for when the Routh array is
+// inconclusive at high degree (its running error bound grows with every
+// row): by the argument principle, as ω runs from 0 to ∞ the phase of
+// p(jω) changes by Δ = (n_L − n_R)·π/2, n_L + n_R = n for a polynomial
+// without roots on the imaginary axis (the Hermite–Biehler view of the
+// Routh–Hurwitz problem; Gantmacher 1959, The Theory of Matrices, vol. 2,
+// ch. XV, §6). With p(jω) = R(x) + jω·I(x), x = ω², the curve crosses the
+// axes only at the positive roots of R and of I, polynomials of degree about
+// n/2 found by real-root isolation (poly.RealRootsIn); between them it
+// stays in one quadrant, read from the signs of R and I at a midpoint.
+// Each step between neighbouring quadrants or axes is ±π/2 or ±π/4, so Δ
+// is counted exactly. ok is false when a sign is within the rounding of its
+// evaluation (a root on or near the axis) or two crossings coincide.
+func windingRoots(p poly.Poly) (rhp, atZero int, ok bool) {
+	c := p.Ascending()
+	for atZero < len(c) && c[atZero] == 0 {
+		atZero++
+	}
+	q, err := poly.FromAscending(c[atZero:])
+	if err != nil {
+		return 0, atZero, false
+	}
+	n := q.Degree()
+	if n <= 0 {
+		return 0, atZero, n == 0
+	}
+	re, im := axisParts(q)
+	var xs []float64
+	for _, part := range []poly.Poly{re, im} {
+		if part.Degree() < 1 {
+			continue
+		}
+		rs, err := poly.RealRootsIn(part, 0, math.Inf(1))
+		if err != nil {
+			return 0, atZero, false
+		}
+		for _, r := range rs {
+			xs = append(xs, r.Value)
+		}
+	}
+	slices.Sort(xs)
+	for i := 1; i < len(xs); i++ {
+		if xs[i]-xs[i-1] <= 1e-9*xs[i] {
+			return 0, atZero, false // a root on (or very near) the axis
+		}
+	}
+	sign := func(part poly.Poly, x float64) float64 {
+		v, bound := part.EvalCompensated(x)
+		if !(math.Abs(v) > 4*bound) || v == 0 {
+			return 0
+		}
+		return math.Copysign(1, v)
+	}
+	angle := 0.0 // arg p(0) = arg R(0)
+	if re.Coef(0) < 0 {
+		angle = math.Pi
+	}
+	step := func(target float64) bool {
+		d := math.Remainder(target-angle, 2*math.Pi)
+		if math.Abs(d) > math.Pi/2+1e-9 {
+			return false // opposite quadrants: a crossing was missed
+		}
+		angle += d
+		return true
+	}
+	for i := 0; i <= len(xs); i++ {
+		var mid float64
+		switch {
+		case len(xs) == 0:
+			mid = 1
+		case i == 0:
+			mid = xs[0] / 2
+		case i == len(xs):
+			mid = 2 * xs[i-1]
+		default:
+			mid = math.Sqrt(xs[i-1] * xs[i])
+		}
+		sr, si := sign(re, mid), sign(im, mid)
+		if sr == 0 || si == 0 || !step(math.Atan2(si, sr)) {
+			return 0, atZero, false
+		}
+	}
+	// ω → ∞: p(jω) ≈ lead·(jω)ⁿ.
+	end := float64(n) * math.Pi / 2
+	if q.Lead() < 0 {
+		end += math.Pi
+	}
+	if !step(end) {
+		return 0, atZero, false
+	}
+	start := 0.0
+	if re.Coef(0) < 0 {
+		start = math.Pi
+	}
+	nr := (float64(n) - 2*(angle-start)/math.Pi) / 2
+	r := math.Round(nr)
+	if math.Abs(nr-r) > 1e-6 || r < 0 || r > float64(n) {
+		return 0, atZero, false
+	}
+	return int(r), atZero, true
 }

@@ -23,56 +23,44 @@ const (
 )
 
 // positiveRoots returns the real roots x > 0 of p, as candidates (see
-// candidateImagTol), ascending. The variable is scaled first so that the
-// geometric mean of the root moduli is 1, which balances the coefficients.
-// By Descartes' rule of signs (Descartes 1637; see Henrici 1974, Applied
-// and Computational Complex Analysis, vol. 1, §6.2) the number of positive
-// roots is the number of sign changes in the coefficient sequence minus an
-// even number: with no sign change there is no positive root, with one there
-// is exactly one, bracketed by 0 and a Cauchy bound and found by Brent's
-// method. Otherwise the roots come from the eigenvalues of the companion
-// matrix (poly.Roots).
+// candidateImagTol), ascending, by poly.RealRootsInWithSettings:
+// real-root isolation by Descartes' rule of signs and continued fractions
+// (Vincent–Collins–Akritas; Akritas & Strzeboński 2005) with a running
+// rounding-error bound on every transformed coefficient, each isolated root
+// found by Brent's method. It costs O(n²) per node of the search instead of
+// the O(n³) of all complex roots, and falls back to the companion
+// eigenvalues (cluster recognition off, near-real pairs kept as candidates)
+// when the isolation cannot separate roots, such as a nearly double root at
+// a tangency, which polishing then merges.
 func positiveRoots(p poly.Poly) []float64 {
+	return positiveRootsTo(p, 0)
+}
+
+// candidateRelTol is the relative accuracy of candidates that are polished
+// afterwards on the directly evaluated loop (crossovers, bandwidth) or
+// whose value is stationary there (peaks): Newton's method from 1e-9
+// reaches full accuracy in one or two steps.
+const candidateRelTol = 1e-9
+
+// positiveCandidates is positiveRoots to the accuracy candidateRelTol.
+func positiveCandidates(p poly.Poly) []float64 {
+	return positiveRootsTo(p, candidateRelTol)
+}
+
+// positiveRootsTo is positiveRoots with the roots refined to the relative
+// accuracy tol (0: full accuracy).
+func positiveRootsTo(p poly.Poly, tol float64) []float64 {
 	if p.Degree() < 1 {
 		return nil
 	}
-	c := p.Ascending()
-	k := 0
-	for c[k] == 0 {
-		k++
-	}
-	q, _ := poly.FromAscending(c[k:])
-	n := q.Degree()
-	if n < 1 {
-		return nil
-	}
-	sigma := math.Pow(math.Abs(q.Coef(0)/q.Lead()), 1/float64(n))
-	if !(sigma > 0) || math.IsInf(sigma, 0) {
-		sigma = 1
-	}
-	qs := q.ScaleVariable(sigma)
-	switch signChanges(qs) {
-	case 0:
-		return nil
-	case 1:
-		if x, ok := uniquePositiveRoot(qs); ok {
-			return []float64{x * sigma}
-		}
-	}
-	// Cluster recognition is off: a nearly double root (a tangency) is
-	// reported as two nearby candidates, which polishing merges.
-	rs, err := qs.RootsWithSettings(&poly.RootSettings{ClusterTolerance: -1})
+	rs, err := poly.RealRootsInWithSettings(p, 0, math.Inf(1), &poly.RealRootSettings{CandidateImagTolerance: candidateImagTol, RelTolerance: tol})
 	if err != nil {
 		return nil
 	}
-	var out []float64
-	for _, rm := range rs {
-		r := rm.Value
-		if real(r) > 0 && math.Abs(imag(r)) <= candidateImagTol*real(r) {
-			out = append(out, real(r)*sigma)
-		}
+	out := make([]float64, len(rs))
+	for i, r := range rs {
+		out[i] = r.Value
 	}
-	slices.Sort(out)
 	return out
 }
 
@@ -128,59 +116,4 @@ func brent(f func(float64) float64, a, b, fa, fb float64) float64 {
 // smooth maximum cannot be located more finely in double precision.
 func goldenMax(f func(float64) float64, a, b float64) (x, fx float64) {
 	return rootfind.GoldenMax(f, a, b, 200, 1e-10)
-}
-
-// signChanges returns the number of sign changes in the coefficients of p,
-// zeros skipped.
-func signChanges(p poly.Poly) int {
-	v, last := 0, 0.0
-	for _, c := range p.Ascending() {
-		if c == 0 {
-			continue
-		}
-		if last != 0 && (c > 0) != (last > 0) {
-			v++
-		}
-		last = c
-	}
-	return v
-}
-
-// uniquePositiveRoot returns the positive root of p when p has exactly one
-// sign change (hence exactly one positive root, which is simple), by
-// Brent's method between the Cauchy bounds 1/(1 + max|cᵢ/c₀|) and
-// 1 + max|cᵢ/cₙ| on the moduli of the roots.
-func uniquePositiveRoot(p poly.Poly) (float64, bool) {
-	c := p.Ascending()
-	n := len(c) - 1
-	if n < 1 || c[0] == 0 {
-		return 0, false
-	}
-	hiB, loB := 0.0, 0.0
-	for i := 0; i < n; i++ {
-		hiB = math.Max(hiB, math.Abs(c[i]/c[n]))
-	}
-	for i := 1; i <= n; i++ {
-		loB = math.Max(loB, math.Abs(c[i]/c[0]))
-	}
-	lo, hi := 1/(1+loB), 1+hiB
-	flo, fhi := p.Eval(lo), p.Eval(hi)
-	if math.IsInf(hi, 0) || math.IsNaN(flo) || math.IsNaN(fhi) || flo == 0 || fhi == 0 || (flo > 0) == (fhi > 0) {
-		return 0, false
-	}
-	// Bisect geometrically until the bracket spans at most a factor 2, so
-	// that Brent's method works on a well-scaled interval.
-	for hi > 2*lo {
-		m := math.Sqrt(lo * hi)
-		fm := p.Eval(m)
-		if fm == 0 {
-			return m, true
-		}
-		if (fm > 0) == (flo > 0) {
-			lo, flo = m, fm
-		} else {
-			hi, fhi = m, fm
-		}
-	}
-	return brent(p.Eval, lo, hi, flo, fhi), true
 }
