@@ -103,7 +103,10 @@ func TestControllerBadParameters(t *testing.T) {
 	}{
 		{func() error { _, err := PID{Gain: 0, IntegralTimeSec: 1}.TF(); return err }(), "gain"},
 		{func() error { _, err := PID{Gain: 1, IntegralTimeSec: -1}.TF(); return err }(), "integral time"},
-		{func() error { _, err := PID{Gain: 1, IntegralTimeSec: 1, DerivativeTimeSec: math.NaN()}.TF(); return err }(), "derivative time"},
+		{func() error {
+			_, err := PID{Gain: 1, IntegralTimeSec: 1, DerivativeTimeSec: math.NaN()}.TF()
+			return err
+		}(), "derivative time"},
 		{func() error { _, err := PID{Gain: 1, IntegralTimeSec: 1, DerivativeFilter: -3}.TF(); return err }(), "derivative filter"},
 		{func() error { _, err := NewPI(1, 0); return err }(), "integral time"},
 		{func() error { _, err := (LeadLag{0, 30}).TF(); return err }(), "centre frequency"},
