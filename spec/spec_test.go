@@ -213,8 +213,8 @@ func TestKeysRoundTrip(t *testing.T) {
 		t.Fatalf("%d keys", len(keys))
 	}
 	for _, k := range keys {
-		r, err := spec.ByKey(k, 1.5)
-		if err != nil || r.Key() != k || r.Limit() != 1.5 {
+		r, err := spec.ByKey(k, 0.5)
+		if err != nil || r.Key() != k || r.Limit() != 0.5 {
 			t.Errorf("ByKey(%q): %v %v", k, r, err)
 		}
 		if strings.HasPrefix(k, "min_") != strings.HasPrefix(r.Name(), "minimum ") {
@@ -383,5 +383,39 @@ func TestWholeLoopRequirements(t *testing.T) {
 	r := spec.Check(loop, spec.Requirements{spec.MaxDisturbancePeak(1)}).Results[0]
 	if r.Pass || !errors.Is(r.Err, spec.ErrInvalidSettings) || !strings.Contains(r.Message, "Settings.Loop") {
 		t.Errorf("without parts: %+v", r)
+	}
+}
+
+// TestLimitsOutsideTheQuantity checks that ByKey rejects limits the
+// quantity cannot have (issue 11, item 13): a negative overshoot, a phase
+// margin of −1e308°, a damping ratio above 1 (ζ ≤ 1 for every pole).
+func TestLimitsOutsideTheQuantity(t *testing.T) {
+	for _, test := range []struct {
+		key   string
+		limit float64
+	}{
+		{"max_overshoot_pct", -5},
+		{"min_phase_margin_deg", -1e308},
+		{"min_phase_margin_deg", 181},
+		{"min_gain_margin_db", -1},
+		{"min_delay_margin_sec", -0.1},
+		{"max_peak_sensitivity", -2},
+		{"min_damping_ratio", 1.5},
+		{"max_rise_time_sec", -1},
+		{"max_settling_time_sec", -1},
+		{"max_steady_state_error", -0.01},
+		{"max_disturbance_peak", -0.1},
+		{"max_recovery_time_sec", -1},
+		{"max_control_peak", -1},
+		{"max_integrated_absolute_error", -1},
+		{"max_noise_to_control_gain", -3},
+	} {
+		_, err := spec.ByKey(test.key, test.limit)
+		if !errors.Is(err, spec.ErrInvalidRequirement) {
+			t.Errorf("ByKey(%q, %g): err = %v, want ErrInvalidRequirement", test.key, test.limit, err)
+		}
+	}
+	if rep := spec.Check(secondOrder, spec.Requirements{spec.MaxOvershootPct(-5)}); !errors.Is(rep.Results[0].Err, spec.ErrInvalidRequirement) {
+		t.Errorf("Check of max overshoot −5 %%: %+v", rep.Results[0])
 	}
 }
