@@ -1,0 +1,163 @@
+package chart
+
+import (
+	"fmt"
+	"image/color"
+	"math"
+
+	"github.com/loopwise/loopwise/closedloop"
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+)
+
+// ClosedLoopSettings controls ClosedLoopMagnitudes. A nil
+// *ClosedLoopSettings means the defaults.
+type ClosedLoopSettings struct {
+	// Size is the output size. Its zero value gives 16 × 12 cm at 150 dpi.
+	Size
+	// Theme is the look. If nil, defaults to DefaultTheme().
+	Theme *Theme
+	// Title is the figure title. If empty, defaults to "The four closed-loop
+	// functions".
+	Title string
+	// SampleTimeSec is the sample period of a discrete loop (≥ 0); if
+	// positive, a dashed line marks the Nyquist frequency π/T.
+	SampleTimeSec float64
+}
+
+// ClosedLoopMagnitudes draws the magnitudes (dB) of the four closed-loop
+// functions of a loop on one logarithmic frequency axis: the sensitivity
+// |S| (disturbance rejection; its peak Ms), the complementary sensitivity
+// |T| (noise on the output and robustness to model errors; Mt), the load
+// disturbance → output |G·S| and the measurement noise → control |C·S|.
+// With the metrics m (from Functions.Analyze) each function's peak is
+// marked with a dot of its colour and the peaks are written in words under
+// the panel. ErrNoData for no samples, ErrLength for slices of different
+// lengths, ErrFrequency for a frequency that is not positive and finite.
+func ClosedLoopMagnitudes(mag closedloop.Magnitudes, m *closedloop.Metrics, set *ClosedLoopSettings) (*Figure, error) {
+	if set != nil {
+		if set.SampleTimeSec < 0 || !finite(set.SampleTimeSec) {
+			return nil, fmt.Errorf("%w: SampleTimeSec = %g, want 0 or a finite value > 0", ErrSettings, set.SampleTimeSec)
+		}
+		if err := set.Size.check(); err != nil {
+			return nil, err
+		}
+	}
+	w := mag.FrequencyRadPerSec
+	n := len(w)
+	if n == 0 {
+		return nil, fmt.Errorf("%w: closed-loop magnitudes have no samples", ErrNoData)
+	}
+	series := []struct {
+		name  string
+		v     []float64
+		color color.Color
+		dash  []vg.Length
+		peak  *closedloop.FrequencyPeak
+	}{
+		{"sensitivity |S|", mag.Sensitivity, okBlue, nil, nil},
+		{"complementary sensitivity |T|", mag.Complementary, okVermillion, []vg.Length{vg.Points(5), vg.Points(2.5)}, nil},
+		{"load disturbance → output |G·S|", mag.LoadToOutput, okBluishGreen, nil, nil},
+		{"measurement noise → control |C·S|", mag.NoiseToControl, okReddishPurple, []vg.Length{vg.Points(1.5), vg.Points(2)}, nil},
+	}
+	if m != nil {
+		series[0].peak, series[1].peak = &m.SensitivityPeak, &m.ComplementaryPeak
+		series[2].peak, series[3].peak = &m.LoadToOutputPeak, &m.NoiseToControlPeak
+	}
+	for _, s := range series {
+		if len(s.v) != n {
+			return nil, fmt.Errorf("%w: %d frequencies, %d values of %s", ErrLength, n, len(s.v), s.name)
+		}
+	}
+	for i, x := range w {
+		if !(x > 0) || !finite(x) {
+			return nil, fmt.Errorf("%w: FrequencyRadPerSec[%d] = %g", ErrFrequency, i, x)
+		}
+	}
+	th := DefaultTheme()
+	size := Size{}
+	title := "The four closed-loop functions"
+	if set != nil {
+		if set.Theme != nil {
+			th = set.Theme.withDefaults()
+		}
+		if set.Title != "" {
+			title = set.Title
+		}
+		size = set.Size
+	}
+	p := newPanel(th, title, "frequency ω (rad/s)", "magnitude (dB)")
+	p.X.Scale = plot.LogScale{}
+	p.X.Tick.Marker = logTicks{}
+	p.Add(&hLine{Y: 0, LineStyle: draw.LineStyle{Color: th.Axis, Width: th.GuideWidth}})
+	avoid := &obstacles{}
+	var key []keyEntry
+	var notes []note
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, s := range series {
+		db := make([]float64, n)
+		for i, v := range s.v {
+			db[i] = 20 * math.Log10(v)
+		}
+		pieces := finitePieces(w, db)
+		for _, pc := range pieces {
+			c, _ := NewCurve(pc[0], pc[1])
+			c.Color, c.Width, c.Dashes = s.color, th.LineWidth, s.dash
+			p.Add(c)
+			avoid.addCurve(pc[0], pc[1])
+			lo, hi = math.Min(lo, minOf(pc[1])), math.Max(hi, maxOf(pc[1]))
+		}
+		ls := draw.LineStyle{Color: s.color, Width: th.LineWidth, Dashes: s.dash}
+		key = append(key, keyEntry{Text: s.name, Line: &ls})
+		if s.peak != nil && finite(s.peak.Value) && s.peak.Value > 0 && s.peak.FrequencyRadPerSec > 0 && finite(s.peak.FrequencyRadPerSec) &&
+			s.peak.FrequencyRadPerSec >= w[0] && s.peak.FrequencyRadPerSec <= w[n-1] {
+			y := 20 * math.Log10(s.peak.Value)
+			mk, _ := NewMarks([]float64{s.peak.FrequencyRadPerSec}, []float64{y})
+			mk.GlyphStyle = draw.GlyphStyle{Color: s.color, Radius: vg.Points(3), Shape: dotGlyph{}}
+			p.Add(mk)
+			avoid.addPoint(s.peak.FrequencyRadPerSec, y)
+			notes = append(notes, note{X: s.peak.FrequencyRadPerSec, Y: y, Text: formatNumber(s.peak.Value, 3), Color: s.color})
+		}
+	}
+	if math.IsInf(lo, 1) {
+		return nil, fmt.Errorf("%w: no finite magnitudes", ErrNoData)
+	}
+	lo = math.Max(lo, hi-120)
+	lo, hi = math.Min(lo, -10), math.Max(hi, 10)
+	if set != nil && set.SampleTimeSec > 0 {
+		wn := math.Pi / set.SampleTimeSec
+		if wn > w[0] && wn <= w[n-1]*(1+1e-9) {
+			ny := draw.LineStyle{Color: th.Axis, Width: th.GuideWidth, Dashes: dashGuide}
+			p.Add(&vLine{X: math.Min(wn, w[n-1]), LineStyle: ny})
+			key = append(key, keyEntry{Text: "Nyquist frequency π/T = " + formatNumber(wn, 3) + " rad/s", Line: &ny})
+		}
+	}
+	noteStyle := th.textStyle(th.FontSizeNote, false, draw.XLeft, draw.YBottom)
+	layer := &textLayer{Notes: []*annotations{{Notes: notes, Style: noteStyle,
+		Leader: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.5)}, Avoid: avoid}}}
+	p.Add(layer)
+	pad := 0.06 * (hi - lo)
+	p.Y.Min, p.Y.Max = lo-pad, hi+pad
+	p.X.Min, p.X.Max = w[0], w[n-1]
+	f := newFigure(p, size, th)
+	f.setSideKey(&cornerBox{Entries: key, Style: noteStyle, Border: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.4)}}, set == nil || set.WidthCm == 0)
+	if m != nil {
+		f.Notes = []string{
+			fmt.Sprintf("peak sensitivity Ms = %s at %s; peak complementary sensitivity Mt = %s at %s",
+				formatNumber(m.SensitivityPeak.Value, 4), freqWords(m.SensitivityPeak.FrequencyRadPerSec),
+				formatNumber(m.ComplementaryPeak.Value, 4), freqWords(m.ComplementaryPeak.FrequencyRadPerSec)),
+			fmt.Sprintf("peak load disturbance → output %s at %s; peak noise → control %s at %s",
+				formatNumber(m.LoadToOutputPeak.Value, 4), freqWords(m.LoadToOutputPeak.FrequencyRadPerSec),
+				formatNumber(m.NoiseToControlPeak.Value, 4), freqWords(m.NoiseToControlPeak.FrequencyRadPerSec)),
+		}
+	}
+	return f, nil
+}
+
+func freqWords(w float64) string {
+	if math.IsInf(w, 1) {
+		return "high frequency (ω → ∞)"
+	}
+	return formatNumber(w, 4) + " rad/s"
+}
