@@ -29,7 +29,6 @@ func closedLoopFigure(t *testing.T) *chart.Figure {
 	return must(chart.ClosedLoopMagnitudes(mag, &m, nil))
 }
 
-
 // TestClosedLoopGolden compares the figure with the image checked by eye
 // (regenerate with -regen, as TestGolden).
 func TestClosedLoopGolden(t *testing.T) {
