@@ -6,6 +6,7 @@ import (
 	"math"
 
 	"github.com/loopwise/loopwise/closedloop"
+	"github.com/loopwise/loopwise/response"
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
@@ -160,4 +161,177 @@ func freqWords(w float64) string {
 		return "high frequency (ω → ∞)"
 	}
 	return formatNumber(w, 4) + " rad/s"
+}
+
+// SignalSettings controls LoadDisturbanceResponse and ControlSignal. A nil
+// *SignalSettings means the defaults.
+type SignalSettings struct {
+	// Size is the output size. Its zero value gives 16 × 12 cm at 150 dpi.
+	Size
+	// Theme is the look. If nil, defaults to DefaultTheme().
+	Theme *Theme
+	// Title is the figure title. If empty, each function has its own.
+	Title string
+	// OutputLabel names the signal and its unit on the vertical axis. If
+	// empty, each function has its own.
+	OutputLabel string
+	// EndTimeSec is the right end of the time axis in seconds (> 0). If
+	// zero, the axis ends at 1.5 times the last marked time, but not after
+	// the last sample.
+	EndTimeSec float64
+}
+
+// signalMark is a point marked on a signal with its words.
+type signalMark struct {
+	t, y float64
+	text string
+	c    color.Color
+}
+
+// LoadDisturbanceResponse draws the output after a unit load-disturbance
+// step (r from response.Step of the load disturbance → output function),
+// with the metrics d of closedloop.StepDeviation: the peak deviation
+// marked, the recovery band (±fraction of the peak around the final value,
+// shaded) and the recovery time as a dashed line. recoveryBandFraction is
+// the band the metrics were computed with (0 = 0.02).
+func LoadDisturbanceResponse(r response.Response, d *closedloop.StepDeviation, recoveryBandFraction float64, set *SignalSettings) (*Figure, error) {
+	band := recoveryBandFraction
+	if band == 0 {
+		band = 0.02
+	}
+	if !(band > 0 && band < 1) {
+		return nil, fmt.Errorf("%w: recovery band fraction %g, want a value in (0, 1)", ErrSettings, band)
+	}
+	var marks []signalMark
+	var key []keyEntry
+	var bandLoHi *[2]float64
+	var lines []float64
+	if d != nil {
+		if !finite(d.PeakDeviation) || !finite(d.FinalValue) {
+			return nil, fmt.Errorf("%w: peak deviation %g, final value %g", ErrNotFinite, d.PeakDeviation, d.FinalValue)
+		}
+		marks = append(marks, signalMark{d.PeakTimeSec, d.PeakDeviation, "peak " + formatNumber(d.PeakDeviation, 3) + " at " + formatNumber(d.PeakTimeSec, 3) + " s", okReddishPurple})
+		w := band * math.Abs(d.PeakDeviation)
+		bandLoHi = &[2]float64{d.FinalValue - w, d.FinalValue + w}
+		key = append(key, keyEntry{Text: fmt.Sprintf("recovery band ±%s %% of the peak", formatNumber(100*band, 3)), Fill: DefaultTheme().Stable})
+		if finite(d.RecoveryTimeSec) && d.RecoveryTimeSec > 0 {
+			lines = append(lines, d.RecoveryTimeSec)
+			key = append(key, keyEntry{Text: "recovered at " + formatNumber(d.RecoveryTimeSec, 3) + " s",
+				Line: &draw.LineStyle{Color: okBluishGreen, Width: vg.Points(0.8), Dashes: dashGuide}})
+		}
+		key = append(key, keyEntry{Text: "final value (residual offset) " + formatNumber(d.FinalValue, 3)})
+	}
+	return signalFigure(r, marks, key, bandLoHi, lines, set, "Output after a unit load-disturbance step", "output deviation")
+}
+
+// ControlSignal draws the control signal u after a unit step of one input
+// (r from response.Step of the input → control function) with the effort
+// c of closedloop.ControlEffort: u(0+), the peak |u| and the final value.
+func ControlSignal(r response.Response, c *closedloop.ControlEffort, set *SignalSettings) (*Figure, error) {
+	var marks []signalMark
+	var key []keyEntry
+	if c != nil {
+		for _, v := range []float64{c.InitialValue, c.PeakValue, c.PeakTimeSec, c.FinalValue} {
+			if !finite(v) {
+				return nil, fmt.Errorf("%w: control effort %+v", ErrNotFinite, *c)
+			}
+		}
+		marks = append(marks, signalMark{0, c.InitialValue, "u(0+) = " + formatNumber(c.InitialValue, 3), okVermillion})
+		if c.PeakTimeSec > 0 {
+			marks = append(marks, signalMark{c.PeakTimeSec, c.PeakValue, "peak " + formatNumber(c.PeakValue, 3) + " at " + formatNumber(c.PeakTimeSec, 3) + " s", okReddishPurple})
+		} else {
+			key = append(key, keyEntry{Text: "the peak |u| is the initial kick"})
+		}
+		key = append(key, keyEntry{Text: "final value " + formatNumber(c.FinalValue, 4)})
+	}
+	return signalFigure(r, marks, key, nil, nil, set, "Control signal after a unit reference step", "control signal u")
+}
+
+func signalFigure(r response.Response, marks []signalMark, key []keyEntry, band *[2]float64, lines []float64, set *SignalSettings, title, ylabel string) (*Figure, error) {
+	if err := checkXY("response", r.TimeSec, r.Output); err != nil {
+		return nil, err
+	}
+	th := DefaultTheme()
+	size := Size{}
+	end := 0.0
+	if set != nil {
+		if err := set.Size.check(); err != nil {
+			return nil, err
+		}
+		if set.EndTimeSec < 0 || !finite(set.EndTimeSec) {
+			return nil, fmt.Errorf("%w: EndTimeSec = %g, want 0 (automatic) or a finite value > 0", ErrSettings, set.EndTimeSec)
+		}
+		if set.Theme != nil {
+			th = set.Theme.withDefaults()
+		}
+		if set.Title != "" {
+			title = set.Title
+		}
+		if set.OutputLabel != "" {
+			ylabel = set.OutputLabel
+		}
+		size, end = set.Size, set.EndTimeSec
+	}
+	tEnd := r.TimeSec[len(r.TimeSec)-1]
+	if end == 0 {
+		for _, m := range marks {
+			end = math.Max(end, 1.5*m.t)
+		}
+		for _, t := range lines {
+			end = math.Max(end, 1.5*t)
+		}
+		if end == 0 || end > tEnd {
+			end = tEnd
+		}
+	}
+	p := newPanel(th, title, "time t (s)", ylabel)
+	avoid := &obstacles{}
+	ymin, ymax := math.Inf(1), math.Inf(-1)
+	var ts, ys []float64
+	for i, t := range r.TimeSec {
+		if t <= end*(1+1e-12) && finite(r.Output[i]) {
+			ts, ys = append(ts, t), append(ys, r.Output[i])
+			ymin, ymax = math.Min(ymin, r.Output[i]), math.Max(ymax, r.Output[i])
+		}
+	}
+	if len(ts) == 0 {
+		return nil, fmt.Errorf("%w: no finite samples before %g s", ErrNoData, end)
+	}
+	if band != nil {
+		p.Add(&Band{Lo: band[0], Hi: band[1], Color: th.Stable, Edge: draw.LineStyle{Color: alpha(okBluishGreen, 0x80), Width: vg.Points(0.5)}})
+		ymin, ymax = math.Min(ymin, band[0]), math.Max(ymax, band[1])
+	}
+	p.Add(&hLine{Y: 0, LineStyle: draw.LineStyle{Color: th.Axis, Width: th.GuideWidth}})
+	for _, t := range lines {
+		p.Add(&vLine{X: t, LineStyle: draw.LineStyle{Color: okBluishGreen, Width: vg.Points(0.8), Dashes: dashGuide}})
+	}
+	c, _ := NewCurve(ts, ys)
+	c.Color, c.Width = okBlue, th.LineWidth
+	p.Add(c)
+	avoid.addCurve(ts, ys)
+	var notes []note
+	for _, m := range marks {
+		mk, _ := NewMarks([]float64{m.t}, []float64{m.y})
+		mk.GlyphStyle = draw.GlyphStyle{Color: m.c, Radius: vg.Points(3), Shape: dotGlyph{}}
+		p.Add(mk)
+		avoid.addPoint(m.t, m.y)
+		notes = append(notes, note{X: m.t, Y: m.y, Text: m.text, Color: m.c})
+		ymin, ymax = math.Min(ymin, m.y), math.Max(ymax, m.y)
+	}
+	ymin, ymax = math.Min(ymin, 0), math.Max(ymax, 0)
+	noteStyle := th.textStyle(th.FontSizeNote, false, draw.XLeft, draw.YBottom)
+	layer := &textLayer{Notes: []*annotations{{Notes: notes, Style: noteStyle,
+		Leader: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.5)}, Avoid: avoid}}}
+	if len(key) > 0 {
+		layer.Boxes = append(layer.Boxes, &cornerBox{Entries: key, Style: noteStyle,
+			Border: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.4)}, Avoid: avoid})
+	}
+	p.Add(layer)
+	pad := 0.1 * (ymax - ymin)
+	if pad == 0 {
+		pad = 1
+	}
+	p.Y.Min, p.Y.Max = ymin-pad, ymax+pad
+	p.X.Min, p.X.Max = 0, end
+	return newFigure(p, size, th), nil
 }

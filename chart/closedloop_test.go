@@ -9,6 +9,7 @@ import (
 
 	"github.com/loopwise/loopwise/chart"
 	"github.com/loopwise/loopwise/closedloop"
+	"github.com/loopwise/loopwise/response"
 	"github.com/loopwise/loopwise/tf"
 	"gonum.org/v1/plot/cmpimg"
 )
@@ -79,6 +80,48 @@ func TestClosedLoopMagnitudesBadInput(t *testing.T) {
 	} {
 		if _, err := chart.ClosedLoopMagnitudes(c.mag, nil, c.set); !errors.Is(err, c.want) {
 			t.Errorf("got %v, want %v", err, c.want)
+		}
+	}
+}
+
+// signalFigures are the load-disturbance response and the control signal
+// of the loop of closedLoopFigure, sampled on a fixed grid of 601 points
+// over 12 s.
+func signalFigures(t *testing.T) (*chart.Figure, *chart.Figure) {
+	pid := must(tf.PID{Gain: 3, IntegralTimeSec: 1.2, DerivativeTimeSec: 0.25, DerivativeFilter: 10}.TF())
+	fs := must(closedloop.Of(closedloop.Loop{
+		Plant:      tf.MustParse("2/((s+1)(s+2)(s+4))"),
+		Controller: pid,
+		Sensor:     tf.MustParse("1/(0.05s+1)"),
+	}, nil))
+	m := must(fs.Analyze(nil))
+	set := &response.Settings{HorizonSec: 12, StepSec: 0.02}
+	load := must(response.Step(fs.Function(closedloop.LoadDisturbance, closedloop.ProcessOutput).TF, set))
+	ctrl := must(response.Step(fs.Function(closedloop.Reference, closedloop.Control).TF, set))
+	return must(chart.LoadDisturbanceResponse(load, &m.LoadDisturbance, 0, nil)), must(chart.ControlSignal(ctrl, &m.ReferenceControl, nil))
+}
+
+func TestSignalGolden(t *testing.T) {
+	a, b := signalFigures(t)
+	for name, f := range map[string]*chart.Figure{"load_disturbance": a, "control_signal": b} {
+		f.DPI = 72
+		var buf bytes.Buffer
+		if err := f.Render(&buf, chart.FormatPNG); err != nil {
+			t.Fatal(err)
+		}
+		path := filepath.Join("testdata", name+"_golden.png")
+		if *cmpimg.GenerateTestData {
+			if err := os.WriteFile(path, buf.Bytes(), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			continue
+		}
+		raw, err := os.ReadFile(path)
+		if err != nil {
+			t.Fatalf("%v (run with -regen to create it)", err)
+		}
+		if ok, err := cmpimg.EqualApprox("png", buf.Bytes(), raw, goldenDelta); err != nil || !ok {
+			t.Errorf("%s differs from the rendered figure (%v)", path, err)
 		}
 	}
 }
