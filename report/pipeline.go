@@ -30,6 +30,7 @@ var pipeline = []section{
 	marginsSection,      // margins
 	stepSection,         // step
 	steadyStateSection,  // steady_state
+	closedLoopSection,   // load_disturbance, control_effort, noise
 	requirementsSection, // requirements
 	robustSection,       // robust (uncertain parameters)
 }

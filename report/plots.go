@@ -117,6 +117,7 @@ func (a *analysis) plots() []Figure {
 			}
 			return chart.PoleZero(l, &chart.PlaneSettings{Grid: true, Title: "Pole–zero map of the open loop L"})
 		})
-	a.robustPlots(add) // robust.go
+	a.closedLoopPlots(add) // closedloop.go
+	a.robustPlots(add)     // robust.go
 	return figs
 }

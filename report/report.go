@@ -65,6 +65,11 @@ type Report struct {
 	DiscreteLoop *DiscreteLoopResult `json:"discrete_loop,omitempty"`
 	// Requirements are the verdicts on the loop's requirements.
 	Requirements []RequirementResult `json:"requirements"`
+	// LoadDisturbance, ControlEffort and Noise are the whole loop's
+	// metrics (closedloop.go); null when they could not be computed.
+	LoadDisturbance *LoadDisturbanceResult `json:"load_disturbance"`
+	ControlEffort   *ControlEffortResult   `json:"control_effort"`
+	Noise           *NoiseResult           `json:"noise"`
 	// Robust is the loop over its uncertain parameters (robust.go); null
 	// without the loop file's "uncertain" key.
 	Robust *RobustResult `json:"robust"`

@@ -50,7 +50,7 @@ var quantities = map[quantity]quantityInfo{
 	recoveryTime:            {"max_recovery_time_sec", "recovery time after a unit load-disturbance step (2 % of the peak deviation)", " s", false},
 	controlPeak:             {"max_control_peak", "peak control signal after a unit reference step", "", false},
 	integratedAbsoluteError: {"max_integrated_absolute_error", "integrated absolute error after a unit load-disturbance step", " s", false},
-	noiseToControlGain:      {"max_noise_to_control_gain", "largest gain from measurement noise to the control signal", "", false},
+	noiseToControlGain:      {"max_noise_to_control_gain", "gain from measurement noise to the control signal (largest over frequency)", "", false},
 }
 
 // Requirement is one limit on a quantity of the loop. Make it with
