@@ -1,7 +1,9 @@
 package closedloop
 
 import (
+	"runtime"
 	"testing"
+	"time"
 
 	"github.com/loopwise/loopwise/response"
 	"github.com/loopwise/loopwise/tf"
@@ -70,4 +72,50 @@ func BenchmarkWholeLoopOrder10(b *testing.B) {
 			}
 		}
 	})
+}
+
+// BenchmarkRatio runs, interleaved in one loop and timed on the thread's
+// CPU clock, the whole-loop analysis (Of + Analyze) and one
+// response.StepMetrics of the reference → output function, for the
+// 6th-order reference loop and the 10th-order loop, and reports their
+// ratio (the target: under 20):
+//
+//	go test ./closedloop -cpu 1 -run '^$' -bench Ratio -benchtime 30x -count 3
+func BenchmarkRatio(b *testing.B) {
+	l6 := referenceLoop(b)
+	l10 := referenceLoop(b)
+	l10.Plant, _ = l10.Plant.Series(tf.MustNew([]float64{1}, []float64{1.0 / 3840, 1.0 / 128, 1.0 / 12, 1, 1}))
+	for _, c := range []struct {
+		name string
+		l    Loop
+	}{{"order=6", l6}, {"order=10", l10}} {
+		b.Run(c.name, func(b *testing.B) {
+			fs, err := Of(c.l, nil)
+			if err != nil {
+				b.Fatal(err)
+			}
+			t := fs.Function(Reference, ProcessOutput).TF
+			runtime.LockOSThread()
+			defer runtime.UnlockOSThread()
+			var whole, step time.Duration
+			for b.Loop() {
+				t0 := threadCPU()
+				fs, err := Of(c.l, nil)
+				if err != nil {
+					b.Fatal(err)
+				}
+				if _, err := fs.Analyze(nil); err != nil {
+					b.Fatal(err)
+				}
+				t1 := threadCPU()
+				if _, err := response.StepMetrics(t, nil); err != nil {
+					b.Fatal(err)
+				}
+				whole, step = whole+t1-t0, step+threadCPU()-t1
+			}
+			b.ReportMetric(float64(whole)/float64(step), "whole/stepmetrics")
+			b.ReportMetric(float64(whole.Microseconds())/float64(b.N), "whole-µs/op")
+			b.ReportMetric(float64(step.Microseconds())/float64(b.N), "stepmetrics-µs/op")
+		})
+	}
 }

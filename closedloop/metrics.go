@@ -14,7 +14,9 @@ import (
 // unit step.
 type StepDeviation struct {
 	// PeakDeviation is the value of the response of largest magnitude
-	// (signed), and PeakTimeSec its time.
+	// (signed), and PeakTimeSec its time; for a response that creeps
+	// monotonically to its final value they are FinalValue and +Inf (the
+	// supremum, approached as t → ∞).
 	PeakDeviation, PeakTimeSec float64
 	// RecoveryTimeSec is the last time the output is
 	// RecoveryBandFraction·|PeakDeviation| away from its final value; after
@@ -39,7 +41,8 @@ type ControlEffort struct {
 	// direct feedthrough of the function; in discrete time u[0]).
 	InitialValue float64
 	// PeakValue is the value of u of largest magnitude (signed) and
-	// PeakTimeSec its time.
+	// PeakTimeSec its time (FinalValue and +Inf when |u| creeps
+	// monotonically up to its final value).
 	PeakValue, PeakTimeSec float64
 	// FinalValue is u(∞), exact.
 	FinalValue float64
@@ -130,7 +133,7 @@ func (fs *Functions) StepDeviation(from Input, to Output, set *Settings) (StepDe
 		return StepDeviation{}, err
 	}
 	g := fs.fns[from][to].TF
-	tr, err := newTrajectory(g)
+	tr, err := newTrajectory(g, true)
 	if err != nil {
 		return StepDeviation{}, fmt.Errorf("%v → %v: %w", from, to, err)
 	}
@@ -160,7 +163,7 @@ func (fs *Functions) ControlEffort(from Input) (ControlEffort, error) {
 		return ControlEffort{}, err
 	}
 	g := fs.fns[from][Control].TF
-	tr, err := newTrajectory(g)
+	tr, err := newTrajectory(g, false)
 	if err != nil {
 		return ControlEffort{}, fmt.Errorf("%v → control signal: %w", from, err)
 	}
@@ -185,7 +188,7 @@ func (fs *Functions) ErrorIntegrals(from Input) (IntegralCriteria, error) {
 		return IntegralCriteria{}, err
 	}
 	g := fs.fns[from][Error].TF
-	tr, err := newTrajectory(g)
+	tr, err := newTrajectory(g, true)
 	if err != nil {
 		return IntegralCriteria{}, fmt.Errorf("%v → error: %w", from, err)
 	}

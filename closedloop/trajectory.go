@@ -50,8 +50,12 @@ const (
 	// decayTimeConstants sets the horizon: the slowest mode has decayed to
 	// e^(−30) ≈ 1e-13 of its size, so the tail beyond is below rounding.
 	decayTimeConstants = 30
+	// peakTimeConstants is the horizon for peaks and band crossings, as in
+	// package response: e^(−10) ≈ 4.5e-5 of the slowest mode remains, so
+	// no later extremum can matter against a peak of the response.
+	peakTimeConstants = 10
 	minIntervals       = 400
-	perFastest         = 0.1 // ≥ 62 samples per period of the fastest mode
+	perFastest         = 0.25 // ≥ 25 samples per period of the fastest mode, ≥ 12 between extrema
 	maxIntervals       = 12000
 	// noiseFloor is the relative size below which the response or its
 	// derivative is rounding noise of the realisation (about 1e-13 for
@@ -61,8 +65,10 @@ const (
 )
 
 // newTrajectory computes the samples of the step response of g (stable,
-// proper; the caller checks) and locates its extrema.
-func newTrajectory(g tf.TF) (*trajectory, error) {
+// proper; the caller checks) and locates its extrema. forIntegrals
+// extends the horizon from peakTimeConstants to decayTimeConstants of the
+// slowest mode, which the integral criteria need and the peak does not.
+func newTrajectory(g tf.TF, forIntegrals bool) (*trajectory, error) {
 	if !g.IsProper() {
 		return nil, fmt.Errorf("%w: %v (a step input gives an impulse)", ErrImproper, g)
 	}
@@ -104,7 +110,10 @@ func newTrajectory(g tf.TF) (*trajectory, error) {
 		}
 	}
 	tr.sigma = sigma
-	H := decayTimeConstants / sigma
+	H := peakTimeConstants / sigma
+	if forIntegrals {
+		H = decayTimeConstants / sigma
+	}
 	if tr.discrete {
 		return tr, tr.sampleDiscrete(H)
 	}
@@ -274,12 +283,19 @@ func (tr *trajectory) yAt(t float64) float64 { return tr.value(tr.at(t)) }
 // peak returns the value of y of largest magnitude and its time (dead time
 // included). For a continuous response the largest |y| lies at t = 0+, at
 // an extremum or at the end of the horizon, all of which are points.
+//
+// When the largest |y| is at the end of the horizon the response creeps
+// monotonically towards its final value: the supremum is the final value,
+// approached as t → ∞, and (FinalValue, +Inf) is returned.
 func (tr *trajectory) peak() (value, timeSec float64) {
-	best := tr.pts[0]
-	for _, p := range tr.pts[1:] {
+	best, bi := tr.pts[0], 0
+	for i, p := range tr.pts[1:] {
 		if math.Abs(p.y) > math.Abs(best.y)*(1+1e-13) {
-			best = p
+			best, bi = p, i+1
 		}
+	}
+	if bi == len(tr.pts)-1 && bi > 0 {
+		return tr.final, math.Inf(1)
 	}
 	return best.y, best.t + tr.delay
 }
