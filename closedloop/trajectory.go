@@ -54,9 +54,9 @@ const (
 	// package response: e^(−10) ≈ 4.5e-5 of the slowest mode remains, so
 	// no later extremum can matter against a peak of the response.
 	peakTimeConstants = 10
-	minIntervals       = 400
-	perFastest         = 0.25 // ≥ 25 samples per period of the fastest mode, ≥ 12 between extrema
-	maxIntervals       = 12000
+	minIntervals      = 400
+	perFastest        = 0.25 // ≥ 25 samples per period of the fastest mode, ≥ 12 between extrema
+	maxIntervals      = 12000
 	// noiseFloor is the relative size below which the response or its
 	// derivative is rounding noise of the realisation (about 1e-13 for
 	// the orders of interest); crossings below it are not located, and the
