@@ -452,24 +452,39 @@ func (fs *Functions) FrequencyResponse(from Input, to Output, omegaRadPerSec flo
 }
 
 // eval returns the function at the point x (s or z) from the exact parts.
+// It works with the parts' numerators, denominators and dead-time factors
+// separately (the formulas of Of, with e^(−x·τ) on each part), so that a
+// pole of a part on the axis (an integrator at ω = 0) gives the finite
+// limit of the closed loop instead of ∞/∞.
 func (p parts) eval(from Input, to Output, x complex128) complex128 {
-	c := complex(p.k, 0) * p.c.Eval(x)
-	g, h := p.g.Eval(x), p.h.Eval(x)
-	s := 1 / (1 + c*g*h)
+	delay := func(g tf.TF) complex128 {
+		if g.DelaySec() == 0 {
+			return 1
+		}
+		if g.IsDiscrete() {
+			return cmplx.Pow(x, complex(-g.DelaySec()/g.SampleTimeSec(), 0))
+		}
+		return cmplx.Exp(-x * complex(g.DelaySec(), 0))
+	}
+	k := complex(p.k, 0)
+	nc, dc, ec := p.c.Num().EvalComplex(x)*k, p.c.Den().EvalComplex(x), delay(p.c)
+	ng, dg, eg := p.g.Num().EvalComplex(x), p.g.Den().EvalComplex(x), delay(p.g)
+	nh, dh, eh := p.h.Num().EvalComplex(x), p.h.Den().EvalComplex(x), delay(p.h)
+	P := dc*dg*dh + nc*ng*nh*ec*eg*eh
 	var y, u complex128
 	switch from {
 	case Reference:
-		f := p.f.Eval(x)
-		y, u = c*g*f*s, c*f*s
+		nf, df, ef := p.f.Num().EvalComplex(x), p.f.Den().EvalComplex(x), delay(p.f)
+		y, u = nc*ng*nf*dh*ec*eg*ef/(df*P), nc*nf*dg*dh*ec*ef/(df*P)
 		if to == Error {
 			return 1 - y
 		}
 	case LoadDisturbance:
-		y, u = g*s, -c*g*h*s
+		y, u = ng*dc*dh*eg/P, -nc*ng*nh*ec*eg*eh/P
 	case OutputDisturbance:
-		y, u = s, -c*h*s
+		y, u = dc*dg*dh/P, -nc*nh*dg*ec*eh/P
 	case Noise:
-		y, u = -c*g*s, -c*s
+		y, u = -nc*ng*dh*ec*eg/P, -nc*dg*dh*ec/P
 	}
 	switch to {
 	case ProcessOutput:
