@@ -210,7 +210,11 @@ func LoadDisturbanceResponse(r response.Response, d *closedloop.StepDeviation, r
 		if !finite(d.PeakDeviation) || !finite(d.FinalValue) {
 			return nil, fmt.Errorf("%w: peak deviation %g, final value %g", ErrNotFinite, d.PeakDeviation, d.FinalValue)
 		}
-		marks = append(marks, signalMark{d.PeakTimeSec, d.PeakDeviation, "peak " + formatNumber(d.PeakDeviation, 3) + " at " + formatNumber(d.PeakTimeSec, 3) + " s", okReddishPurple})
+		if finite(d.PeakTimeSec) {
+			marks = append(marks, signalMark{d.PeakTimeSec, d.PeakDeviation, "peak " + formatNumber(d.PeakDeviation, 3) + " at " + formatNumber(d.PeakTimeSec, 3) + " s", okReddishPurple})
+		} else {
+			key = append(key, keyEntry{Text: "no overshoot: the output creeps to its final value"})
+		}
 		w := band * math.Abs(d.PeakDeviation)
 		bandLoHi = &[2]float64{d.FinalValue - w, d.FinalValue + w}
 		key = append(key, keyEntry{Text: fmt.Sprintf("recovery band ±%s %% of the peak", formatNumber(100*band, 3)), Fill: DefaultTheme().Stable})
@@ -231,15 +235,18 @@ func ControlSignal(r response.Response, c *closedloop.ControlEffort, set *Signal
 	var marks []signalMark
 	var key []keyEntry
 	if c != nil {
-		for _, v := range []float64{c.InitialValue, c.PeakValue, c.PeakTimeSec, c.FinalValue} {
+		for _, v := range []float64{c.InitialValue, c.PeakValue, c.FinalValue} {
 			if !finite(v) {
 				return nil, fmt.Errorf("%w: control effort %+v", ErrNotFinite, *c)
 			}
 		}
 		marks = append(marks, signalMark{0, c.InitialValue, "u(0+) = " + formatNumber(c.InitialValue, 3), okVermillion})
-		if c.PeakTimeSec > 0 {
+		switch {
+		case math.IsInf(c.PeakTimeSec, 1):
+			key = append(key, keyEntry{Text: "|u| creeps up to its final value"})
+		case c.PeakTimeSec > 0:
 			marks = append(marks, signalMark{c.PeakTimeSec, c.PeakValue, "peak " + formatNumber(c.PeakValue, 3) + " at " + formatNumber(c.PeakTimeSec, 3) + " s", okReddishPurple})
-		} else {
+		default:
 			key = append(key, keyEntry{Text: "the peak |u| is the initial kick"})
 		}
 		key = append(key, keyEntry{Text: "final value " + formatNumber(c.FinalValue, 4)})

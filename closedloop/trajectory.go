@@ -284,17 +284,19 @@ func (tr *trajectory) yAt(t float64) float64 { return tr.value(tr.at(t)) }
 // included). For a continuous response the largest |y| lies at t = 0+, at
 // an extremum or at the end of the horizon, all of which are points.
 //
-// When the largest |y| is at the end of the horizon the response creeps
-// monotonically towards its final value: the supremum is the final value,
+// When no value exceeds the final value in magnitude (to 1e-12 relative)
+// the response creeps towards it: the supremum is the final value,
 // approached as t → ∞, and (FinalValue, +Inf) is returned.
 func (tr *trajectory) peak() (value, timeSec float64) {
-	best, bi := tr.pts[0], 0
-	for i, p := range tr.pts[1:] {
+	best := tr.pts[0]
+	for _, p := range tr.pts[1:] {
 		if math.Abs(p.y) > math.Abs(best.y)*(1+1e-13) {
-			best, bi = p, i+1
+			best = p
 		}
 	}
-	if bi == len(tr.pts)-1 && bi > 0 {
+	// No value beyond the final one (to rounding, 1e-12 relative): the
+	// supremum is approached as t → ∞.
+	if tr.final != 0 && math.Abs(best.y) <= math.Abs(tr.final)*(1+1e-12) {
 		return tr.final, math.Inf(1)
 	}
 	return best.y, best.t + tr.delay

@@ -167,7 +167,8 @@ func (cf *ControllerForm) TF() (tf.TF, error) {
 // a unit step of load disturbance at the plant input (package closedloop).
 type LoadDisturbanceResult struct {
 	// PeakDeviation is the output's largest deviation (signed) and
-	// PeakTimeSec its time.
+	// PeakTimeSec its time (null when the output creeps to its final
+	// value, which is then the peak).
 	PeakDeviation Number `json:"peak_deviation"`
 	PeakTimeSec   Number `json:"peak_time_sec"`
 	// RecoveryTimeSec is when the output is back for good within 2 % of
@@ -186,7 +187,8 @@ type LoadDisturbanceResult struct {
 type ControlEffortResult struct {
 	// Initial is u(0+), the proportional and derivative kick.
 	Initial Number `json:"initial"`
-	// Peak is the value of u of largest magnitude and PeakTimeSec its time.
+	// Peak is the value of u of largest magnitude and PeakTimeSec its time
+	// (null when |u| creeps up to its final value, which is then the peak).
 	Peak        Number `json:"peak"`
 	PeakTimeSec Number `json:"peak_time_sec"`
 	// FinalValue is u(∞).
@@ -313,7 +315,7 @@ func closedLoopTables(r *Report) []table {
 	var out []table
 	if d := r.LoadDisturbance; d != nil {
 		out = append(out, table{title: "Load disturbance (unit step at the plant input) at " + r.Loop.at, rows: []row{
-			{"peak output deviation", g(d.PeakDeviation) + " at " + gUnit(d.PeakTimeSec, "s")},
+			{"peak output deviation", g(d.PeakDeviation) + peakAt(d.PeakTimeSec)},
 			{"recovery time (2 % of the peak)", gUnit(d.RecoveryTimeSec, "s")},
 			{"residual offset", g(d.FinalValue)},
 			{"integrated absolute error (IAE)", g(d.IntegratedAbsoluteError)},
@@ -323,7 +325,7 @@ func closedLoopTables(r *Report) []table {
 	if c := r.ControlEffort; c != nil {
 		out = append(out, table{title: "Control signal (unit reference step)", rows: []row{
 			{"initial value u(0+)", g(c.Initial)},
-			{"peak", g(c.Peak) + " at " + gUnit(c.PeakTimeSec, "s")},
+			{"peak", g(c.Peak) + peakAt(c.PeakTimeSec)},
 			{"final value", g(c.FinalValue)},
 		}})
 	}
@@ -335,6 +337,15 @@ func closedLoopTables(r *Report) []table {
 		}})
 	}
 	return out
+}
+
+// peakAt says when a peak is reached: at a time, or approached as t → ∞
+// (a signal that creeps to its final value).
+func peakAt(t Number) string {
+	if math.IsInf(float64(t), 1) {
+		return ", approached as t → ∞ (no overshoot)"
+	}
+	return " at " + gUnit(t, "s")
 }
 
 // closedLoopPlots draws the four closed-loop magnitudes, the
