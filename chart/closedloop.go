@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"image/color"
 	"math"
+	"slices"
 
 	"github.com/loopwise/loopwise/closedloop"
 	"github.com/loopwise/loopwise/response"
@@ -71,23 +72,16 @@ func ClosedLoopMagnitudes(mag closedloop.Magnitudes, m *closedloop.Metrics, set 
 			return nil, fmt.Errorf("%w: %d frequencies, %d values of %s", ErrLength, n, len(s.v), s.name)
 		}
 	}
-	for i, x := range w {
-		if !(x > 0) || !finite(x) {
-			return nil, fmt.Errorf("%w: FrequencyRadPerSec[%d] = %g", ErrFrequency, i, x)
-		}
+	if i := slices.IndexFunc(w, func(x float64) bool { return !(x > 0) || !finite(x) }); i >= 0 {
+		return nil, fmt.Errorf("%w: FrequencyRadPerSec[%d] = %g", ErrFrequency, i, w[i])
 	}
-	th := DefaultTheme()
-	size := Size{}
-	title := "The four closed-loop functions"
+	var size Size
+	var theme *Theme
+	var title string
 	if set != nil {
-		if set.Theme != nil {
-			th = set.Theme.withDefaults()
-		}
-		if set.Title != "" {
-			title = set.Title
-		}
-		size = set.Size
+		size, theme, title = set.Size, set.Theme, set.Title
 	}
+	th, title := look(theme, title, "The four closed-loop functions")
 	p := newPanel(th, title, "frequency ω (rad/s)", "magnitude (dB)")
 	p.X.Scale = plot.LogScale{}
 	p.X.Tick.Marker = logTicks{}
@@ -154,6 +148,18 @@ func ClosedLoopMagnitudes(mag closedloop.Magnitudes, m *closedloop.Metrics, set 
 		}
 	}
 	return f, nil
+}
+
+// look returns the theme (nil: the default) and the title (empty: def).
+func look(theme *Theme, title, def string) (Theme, string) {
+	th := DefaultTheme()
+	if theme != nil {
+		th = theme.withDefaults()
+	}
+	if title == "" {
+		title = def
+	}
+	return th, title
 }
 
 func freqWords(w float64) string {
@@ -258,8 +264,9 @@ func signalFigure(r response.Response, marks []signalMark, key []keyEntry, band 
 	if err := checkXY("response", r.TimeSec, r.Output); err != nil {
 		return nil, err
 	}
-	th := DefaultTheme()
-	size := Size{}
+	var size Size
+	var theme *Theme
+	var givenTitle string
 	end := 0.0
 	if set != nil {
 		if err := set.Size.check(); err != nil {
@@ -268,17 +275,12 @@ func signalFigure(r response.Response, marks []signalMark, key []keyEntry, band 
 		if set.EndTimeSec < 0 || !finite(set.EndTimeSec) {
 			return nil, fmt.Errorf("%w: EndTimeSec = %g, want 0 (automatic) or a finite value > 0", ErrSettings, set.EndTimeSec)
 		}
-		if set.Theme != nil {
-			th = set.Theme.withDefaults()
-		}
-		if set.Title != "" {
-			title = set.Title
-		}
 		if set.OutputLabel != "" {
 			ylabel = set.OutputLabel
 		}
-		size, end = set.Size, set.EndTimeSec
+		size, end, theme, givenTitle = set.Size, set.EndTimeSec, set.Theme, set.Title
 	}
+	th, title := look(theme, givenTitle, title)
 	tEnd := r.TimeSec[len(r.TimeSec)-1]
 	if end == 0 {
 		for _, m := range marks {

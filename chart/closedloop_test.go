@@ -1,17 +1,13 @@
 package chart_test
 
 import (
-	"bytes"
 	"errors"
-	"os"
-	"path/filepath"
 	"testing"
 
 	"github.com/loopwise/loopwise/chart"
 	"github.com/loopwise/loopwise/closedloop"
 	"github.com/loopwise/loopwise/response"
 	"github.com/loopwise/loopwise/tf"
-	"gonum.org/v1/plot/cmpimg"
 )
 
 // closedLoopFigure is the belt-drive loop of closedloop's example (a
@@ -30,33 +26,13 @@ func closedLoopFigure(t *testing.T) *chart.Figure {
 	return must(chart.ClosedLoopMagnitudes(mag, &m, nil))
 }
 
-// TestClosedLoopGolden compares the figure with the image checked by eye
+// TestClosedLoopGolden compares the figures with the images checked by eye
 // (regenerate with -regen, as TestGolden).
 func TestClosedLoopGolden(t *testing.T) {
-	f := closedLoopFigure(t)
-	f.DPI = 72
-	var buf bytes.Buffer
-	if err := f.Render(&buf, chart.FormatPNG); err != nil {
-		t.Fatal(err)
-	}
-	path := filepath.Join("testdata", "closedloop_golden.png")
-	if *cmpimg.GenerateTestData {
-		if err := os.WriteFile(path, buf.Bytes(), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	raw, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run with -regen to create it)", err)
-	}
-	ok, err := cmpimg.EqualApprox("png", buf.Bytes(), raw, goldenDelta)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if !ok {
-		t.Errorf("%s differs from the rendered figure", path)
-	}
+	checkGolden(t, "closedloop", closedLoopFigure(t))
+	load, ctrl := signalFigures(t)
+	checkGolden(t, "load_disturbance", load)
+	checkGolden(t, "control_signal", ctrl)
 }
 
 func TestClosedLoopMagnitudesBadInput(t *testing.T) {
@@ -99,29 +75,4 @@ func signalFigures(t *testing.T) (*chart.Figure, *chart.Figure) {
 	load := must(response.Step(fs.Function(closedloop.LoadDisturbance, closedloop.ProcessOutput).TF, set))
 	ctrl := must(response.Step(fs.Function(closedloop.Reference, closedloop.Control).TF, set))
 	return must(chart.LoadDisturbanceResponse(load, &m.LoadDisturbance, 0, nil)), must(chart.ControlSignal(ctrl, &m.ReferenceControl, nil))
-}
-
-func TestSignalGolden(t *testing.T) {
-	a, b := signalFigures(t)
-	for name, f := range map[string]*chart.Figure{"load_disturbance": a, "control_signal": b} {
-		f.DPI = 72
-		var buf bytes.Buffer
-		if err := f.Render(&buf, chart.FormatPNG); err != nil {
-			t.Fatal(err)
-		}
-		path := filepath.Join("testdata", name+"_golden.png")
-		if *cmpimg.GenerateTestData {
-			if err := os.WriteFile(path, buf.Bytes(), 0o644); err != nil {
-				t.Fatal(err)
-			}
-			continue
-		}
-		raw, err := os.ReadFile(path)
-		if err != nil {
-			t.Fatalf("%v (run with -regen to create it)", err)
-		}
-		if ok, err := cmpimg.EqualApprox("png", buf.Bytes(), raw, goldenDelta); err != nil || !ok {
-			t.Errorf("%s differs from the rendered figure (%v)", path, err)
-		}
-	}
 }

@@ -35,33 +35,37 @@ const goldenDelta = 0.1
 // a change of this package does.
 func TestGolden(t *testing.T) {
 	for _, c := range goldenCases() {
-		t.Run(c.name, func(t *testing.T) {
-			f := c.build(t)
-			f.DPI = 72
-			var buf bytes.Buffer
-			if err := f.Render(&buf, chart.FormatPNG); err != nil {
-				t.Fatal(err)
-			}
-			path := filepath.Join("testdata", c.name+"_golden.png")
-			if *cmpimg.GenerateTestData {
-				if err := os.WriteFile(path, buf.Bytes(), 0o644); err != nil {
-					t.Fatal(err)
-				}
-				return
-			}
-			raw, err := os.ReadFile(path)
-			if err != nil {
-				t.Fatalf("%v (run with -regen to create it)", err)
-			}
-			ok, err := cmpimg.EqualApprox("png", buf.Bytes(), raw, goldenDelta)
-			if err != nil {
-				t.Fatal(err)
-			}
-			if !ok {
-				out := filepath.Join(t.TempDir(), c.name+".png")
-				_ = os.WriteFile(out, buf.Bytes(), 0o644)
-				t.Errorf("the figure differs from %s by more than %.2g per pixel; the new image is %s", path, goldenDelta, out)
-			}
-		})
+		t.Run(c.name, func(t *testing.T) { checkGolden(t, c.name, c.build(t)) })
+	}
+}
+
+// checkGolden renders f at 72 dpi and compares it with
+// testdata/NAME_golden.png (or writes that file with -regen).
+func checkGolden(t *testing.T, name string, f *chart.Figure) {
+	t.Helper()
+	f.DPI = 72
+	var buf bytes.Buffer
+	if err := f.Render(&buf, chart.FormatPNG); err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join("testdata", name+"_golden.png")
+	if *cmpimg.GenerateTestData {
+		if err := os.WriteFile(path, buf.Bytes(), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return
+	}
+	raw, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatalf("%v (run with -regen to create it)", err)
+	}
+	ok, err := cmpimg.EqualApprox("png", buf.Bytes(), raw, goldenDelta)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !ok {
+		out := filepath.Join(t.TempDir(), name+".png")
+		_ = os.WriteFile(out, buf.Bytes(), 0o644)
+		t.Errorf("the figure differs from %s by more than %.2g per pixel; the new image is %s", path, goldenDelta, out)
 	}
 }
