@@ -52,6 +52,7 @@ type analysis struct {
 	locusFor tf.TF // the loop whose locus was analysed (base or parametric)
 	margins  *margins.Result
 	step     *response.Metrics
+	closed   *closedLoopState // closedloop.go
 	// verdict is the loop's one stability verdict (see stability.go),
 	// final once the margins section has run.
 	verdict verdict

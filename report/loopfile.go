@@ -27,6 +27,10 @@ type Loop struct {
 	// Controller is the controller's transfer function; it may use the
 	// parameter's name. If empty, defaults to "1".
 	Controller string
+	// ControllerForm, if not nil, gives the controller by its form and
+	// parameters (the loop file's structured "controller", closedloop.go)
+	// and replaces Controller.
+	ControllerForm *ControllerForm
 	// Sensor is the feedback path. If empty, defaults to "1".
 	Sensor string
 	// Gain is the loop gain k at which margins and responses are
@@ -185,6 +189,8 @@ func LoopKeys() []string {
 			sub = discretizeKeys
 		case "requirements":
 			sub = requirementKeys
+		case "controller":
+			sub = controllerFormKeys
 		}
 		for _, s := range sub {
 			out = append(out, k+"."+s)
@@ -384,7 +390,7 @@ func decodeLoop(data []byte) (*Loop, error) {
 		case "plant":
 			err = v.text(&lf.Plant)
 		case "controller":
-			err = v.text(&lf.Controller)
+			err = decodeController(v, lf)
 		case "sensor":
 			err = v.text(&lf.Sensor)
 		case "gain":
@@ -435,6 +441,13 @@ func (lf *Loop) withDefaults() (*Loop, error) {
 		return nil, badInput("no loop given")
 	}
 	c := *lf
+	if c.ControllerForm != nil {
+		g, err := c.ControllerForm.TF()
+		if err != nil {
+			return nil, badInput("controller form: %s", strings.TrimPrefix(err.Error(), "tf: "))
+		}
+		c.Controller = g.String()
+	}
 	if c.Controller == "" {
 		c.Controller = "1"
 	}

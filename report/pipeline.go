@@ -30,6 +30,7 @@ var pipeline = []section{
 	marginsSection,      // margins
 	stepSection,         // step
 	steadyStateSection,  // steady_state
+	closedLoopSection,   // load_disturbance, control_effort, noise
 	requirementsSection, // requirements
 	designSection,       // design, plane (values that meet the requirements)
 	robustSection,       // robust (uncertain parameters)

@@ -117,7 +117,8 @@ func (a *analysis) plots() []Figure {
 			}
 			return chart.PoleZero(l, &chart.PlaneSettings{Grid: true, Title: "Pole–zero map of the open loop L"})
 		})
-	a.designPlots(add) // design.go
-	a.robustPlots(add) // robust.go
+	a.closedLoopPlots(add) // closedloop.go
+	a.designPlots(add)     // design.go
+	a.robustPlots(add)     // robust.go
 	return figs
 }

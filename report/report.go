@@ -65,6 +65,11 @@ type Report struct {
 	DiscreteLoop *DiscreteLoopResult `json:"discrete_loop,omitempty"`
 	// Requirements are the verdicts on the loop's requirements.
 	Requirements []RequirementResult `json:"requirements"`
+	// LoadDisturbance, ControlEffort and Noise are the whole loop's
+	// metrics (closedloop.go); null when they could not be computed.
+	LoadDisturbance *LoadDisturbanceResult `json:"load_disturbance"`
+	ControlEffort   *ControlEffortResult   `json:"control_effort"`
+	Noise           *NoiseResult           `json:"noise"`
 	// Design is the set of values of the gain (or the parameter) that meet
 	// each requirement (design.go); null without requirements.
 	Design *DesignResult `json:"design"`

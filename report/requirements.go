@@ -30,6 +30,11 @@ var requirementKeys = []string{
 	"max_rise_time_sec",
 	"max_settling_time_sec",
 	"max_steady_state_error",
+	"max_disturbance_peak",
+	"max_recovery_time_sec",
+	"max_control_peak",
+	"max_integrated_absolute_error",
+	"max_noise_to_control_gain",
 }
 
 // requirementsKey reads "requirements": {"min_phase_margin_deg": 45, ...}.
@@ -71,6 +76,7 @@ func (a *analysis) requirementsStage() {
 	if !a.m.unitySensor && a.refOut.Den().Degree() > 0 {
 		set.ReferenceToOutput = a.refOut
 	}
+	set.Loop, _ = a.loopParts() // closedloop.go; the zero Loop makes those requirements say why
 	for _, res := range spec.CheckWith(a.m.analysed, req, set).Results {
 		q := RequirementResult{
 			Name: res.Name, Limit: Number(res.Limit), Value: Number(res.Value), Unit: res.Requirement.Unit(), Pass: res.Pass, Message: res.Message,

@@ -7,6 +7,7 @@ import (
 	"math/cmplx"
 	"strings"
 
+	"github.com/loopwise/loopwise/closedloop"
 	"github.com/loopwise/loopwise/margins"
 	"github.com/loopwise/loopwise/response"
 	"github.com/loopwise/loopwise/tf"
@@ -24,6 +25,13 @@ type Settings struct {
 	// is F/(1 + L). Dead time in it is replaced as in the loop. If zero
 	// (the zero TF), defaults to L/(1 + L).
 	ReferenceToOutput tf.TF
+	// Loop gives the loop's parts (plant, controller, sensor, prefilter),
+	// which the requirements on load disturbance, control effort and noise
+	// need (MaxDisturbancePeak, MaxRecoveryTimeSec, MaxControlPeak,
+	// MaxIntegratedAbsoluteError, MaxNoiseToControlGain); they are analysed
+	// by package closedloop. If its Plant is the zero value, those
+	// requirements fail with a message saying so.
+	Loop closedloop.Loop
 }
 
 const defaultPadeOrder = 6 // the default of package locus as well
@@ -154,6 +162,9 @@ func CheckWith(loop tf.TF, req Requirements, set *Settings) Report {
 	if set != nil && set.PadeOrder != 0 {
 		e.padeOrder = set.PadeOrder
 	}
+	if set != nil {
+		e.parts = set.Loop
+	}
 	if set != nil && !set.ReferenceToOutput.IsZero() {
 		e.refToOut = set.ReferenceToOutput
 		e.haveRefToOut = true
@@ -200,6 +211,33 @@ type evaluator struct {
 	stepDone bool
 	step     response.Metrics
 	stepErr  error
+
+	parts     closedloop.Loop
+	wholeDone bool
+	whole     closedloop.Metrics
+	wholeNote string
+	wholeErr  error
+}
+
+// getWhole returns the closed-loop metrics of the loop's parts.
+func (e *evaluator) getWhole() (closedloop.Metrics, string, error) {
+	if !e.wholeDone {
+		e.wholeDone = true
+		if e.parts.Plant.IsZero() {
+			e.wholeErr = fmt.Errorf("%w: this requirement needs the plant and the controller separately (Settings.Loop)", ErrInvalidSettings)
+			return e.whole, "", e.wholeErr
+		}
+		fs, err := closedloop.Of(e.parts, &closedloop.Settings{PadeOrder: e.padeOrder})
+		if err != nil {
+			e.wholeErr = err
+			return e.whole, "", err
+		}
+		if fs.DelayApproximated {
+			e.wholeNote = fmt.Sprintf("dead time approximated by a Padé approximation of order %d", e.padeOrder)
+		}
+		e.whole, e.wholeErr = fs.Analyze(nil)
+	}
+	return e.whole, e.wholeNote, e.wholeErr
 }
 
 func (e *evaluator) getMargins() (margins.Result, error) {
@@ -266,11 +304,13 @@ func reason(err error) string {
 		return "the closed loop is unstable"
 	case errors.Is(err, response.ErrZeroFinalValue):
 		return "the closed loop's static gain is zero, so the step response has no level to reach"
+	case errors.Is(err, closedloop.ErrInternallyUnstable):
+		return "the closed loop is internally unstable (" + strings.TrimPrefix(err.Error(), closedloop.ErrInternallyUnstable.Error()+": ") + ")"
 	case errors.Is(err, response.ErrNotSettled):
 		return "the step response did not settle within the longest horizon tried"
 	}
 	s := err.Error()
-	for _, p := range []string{"margins: ", "response: ", "tf: ", "spec: "} {
+	for _, p := range []string{"margins: ", "response: ", "tf: ", "spec: ", "closedloop: "} {
 		s = strings.TrimPrefix(s, p)
 	}
 	return s
@@ -401,6 +441,37 @@ func (e *evaluator) evaluate(res *Result) {
 			return
 		}
 		judge(res, info.what, info.unit, note)
+
+	case disturbancePeak, recoveryTime, controlPeak, integratedAbsoluteError, noiseToControlGain:
+		m, note, err := e.getWhole()
+		if err != nil {
+			cannot(res, info.what, err)
+			return
+		}
+		extra := ""
+		switch res.Requirement.q {
+		case disturbancePeak:
+			res.Value = math.Abs(m.LoadDisturbance.PeakDeviation)
+			extra = fmt.Sprintf(" at %s s", num(m.LoadDisturbance.PeakTimeSec))
+		case recoveryTime:
+			res.Value = m.LoadDisturbance.RecoveryTimeSec
+		case controlPeak:
+			res.Value = math.Abs(m.ReferenceControl.PeakValue)
+			extra = fmt.Sprintf(" at %s s", num(m.ReferenceControl.PeakTimeSec))
+		case integratedAbsoluteError:
+			res.Value = m.LoadDisturbance.IntegratedAbsoluteError
+		case noiseToControlGain:
+			res.Value = m.NoiseToControlPeak.Value
+			if finite(m.NoiseToControlPeak.FrequencyRadPerSec) {
+				extra = fmt.Sprintf(" at %s rad/s", num(m.NoiseToControlPeak.FrequencyRadPerSec))
+			} else if math.IsInf(m.NoiseToControlPeak.FrequencyRadPerSec, 1) {
+				extra = " at high frequency"
+			}
+		}
+		if note != "" {
+			extra += " (" + note + ")"
+		}
+		judge(res, info.what, info.unit, extra)
 
 	case steadyStateError:
 		l := e.loop

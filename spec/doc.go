@@ -1,7 +1,11 @@
 // Package spec checks a feedback loop against a list of requirements —
 // minimum phase, gain and delay margins, maximum peak sensitivity, minimum
 // damping ratio of the closed-loop poles, maximum overshoot, rise time,
-// settling time and steady-state error — and returns one verdict per
+// settling time and steady-state error; and, given the loop's parts
+// (Settings.Loop, analysed by package closedloop), the peak deviation,
+// recovery time and IAE after a load-disturbance step, the peak control
+// signal after a reference step and the largest gain from measurement noise
+// to the control signal — and returns one verdict per
 // requirement with the measured value and a sentence in full words. It is
 // meant for test rigs and continuous integration: a Go test reads
 //

@@ -20,6 +20,12 @@ const (
 	riseTime
 	settlingTime
 	steadyStateError
+	disturbancePeak
+	recoveryTime
+	controlPeak
+	integratedAbsoluteError
+	noiseToControlGain
+	lastQuantity = noiseToControlGain
 )
 
 // quantityInfo describes a quantity in words.
@@ -31,15 +37,20 @@ type quantityInfo struct {
 }
 
 var quantities = map[quantity]quantityInfo{
-	phaseMargin:      {"min_phase_margin_deg", "phase margin", "°", true},
-	gainMargin:       {"min_gain_margin_db", "gain margin", " dB", true},
-	delayMargin:      {"min_delay_margin_sec", "delay margin", " s", true},
-	peakSensitivity:  {"max_peak_sensitivity", "peak sensitivity", "", false},
-	dampingRatio:     {"min_damping_ratio", "damping ratio of the closed-loop poles", "", true},
-	overshoot:        {"max_overshoot_pct", "step-response overshoot", " %", false},
-	riseTime:         {"max_rise_time_sec", "step-response rise time (10 % to 90 %)", " s", false},
-	settlingTime:     {"max_settling_time_sec", "step-response settling time (2 % band)", " s", false},
-	steadyStateError: {"max_steady_state_error", "steady-state error to a unit step", "", false},
+	phaseMargin:             {"min_phase_margin_deg", "phase margin", "°", true},
+	gainMargin:              {"min_gain_margin_db", "gain margin", " dB", true},
+	delayMargin:             {"min_delay_margin_sec", "delay margin", " s", true},
+	peakSensitivity:         {"max_peak_sensitivity", "peak sensitivity", "", false},
+	dampingRatio:            {"min_damping_ratio", "damping ratio of the closed-loop poles", "", true},
+	overshoot:               {"max_overshoot_pct", "step-response overshoot", " %", false},
+	riseTime:                {"max_rise_time_sec", "step-response rise time (10 % to 90 %)", " s", false},
+	settlingTime:            {"max_settling_time_sec", "step-response settling time (2 % band)", " s", false},
+	steadyStateError:        {"max_steady_state_error", "steady-state error to a unit step", "", false},
+	disturbancePeak:         {"max_disturbance_peak", "peak output deviation after a unit load-disturbance step", "", false},
+	recoveryTime:            {"max_recovery_time_sec", "recovery time after a unit load-disturbance step (2 % of the peak deviation)", " s", false},
+	controlPeak:             {"max_control_peak", "peak control signal after a unit reference step", "", false},
+	integratedAbsoluteError: {"max_integrated_absolute_error", "integrated absolute error after a unit load-disturbance step", " s", false},
+	noiseToControlGain:      {"max_noise_to_control_gain", "gain from measurement noise to the control signal (largest over frequency)", "", false},
 }
 
 // Requirement is one limit on a quantity of the loop. Make it with
@@ -88,6 +99,36 @@ func MaxRiseTimeSec(sec float64) Requirement { return Requirement{riseTime, sec}
 // stay in the band of ±2 % around its final value within sec seconds.
 func MaxSettlingTimeSec(sec float64) Requirement { return Requirement{settlingTime, sec} }
 
+// MaxDisturbancePeak requires the output's largest deviation after a unit
+// step of load disturbance at the plant input to be at most peak (in
+// output units per unit of disturbance). It needs the loop's parts
+// (Settings.Loop); see closedloop.StepDeviation.
+func MaxDisturbancePeak(peak float64) Requirement { return Requirement{disturbancePeak, peak} }
+
+// MaxRecoveryTimeSec requires the output to be back, for good, within 2 % of
+// the peak deviation around its final value at most sec seconds after a
+// unit load-disturbance step (the 2 % band is common practice). It needs
+// Settings.Loop.
+func MaxRecoveryTimeSec(sec float64) Requirement { return Requirement{recoveryTime, sec} }
+
+// MaxControlPeak requires the largest |u| after a unit reference step to
+// be at most peak (control-signal units per unit of reference), the figure
+// that sizes the actuator against saturation. It needs Settings.Loop.
+func MaxControlPeak(peak float64) Requirement { return Requirement{controlPeak, peak} }
+
+// MaxIntegratedAbsoluteError requires IAE = ∫|y| dt of the output after a
+// unit load-disturbance step to be at most iae (output units × seconds per
+// unit of disturbance; written with the unit "s"). It needs Settings.Loop.
+func MaxIntegratedAbsoluteError(iae float64) Requirement {
+	return Requirement{integratedAbsoluteError, iae}
+}
+
+// MaxNoiseToControlGain requires max over ω of |noise → u| — the largest
+// gain with which measurement noise reaches the actuator, at least the
+// high-frequency gain — to be at most gain (a ratio, not dB). It needs
+// Settings.Loop.
+func MaxNoiseToControlGain(gain float64) Requirement { return Requirement{noiseToControlGain, gain} }
+
 // MaxSteadyStateError requires the steady-state error to a unit step,
 // 1/(1 + Kp), to be at most e (a fraction of the step, not per cent).
 func MaxSteadyStateError(e float64) Requirement { return Requirement{steadyStateError, e} }
@@ -96,12 +137,14 @@ func MaxSteadyStateError(e float64) Requirement { return Requirement{steadyState
 // keys are those of the loop file of examples/loopreport:
 // "min_phase_margin_deg", "min_gain_margin_db", "min_delay_margin_sec",
 // "max_peak_sensitivity", "min_damping_ratio", "max_overshoot_pct",
-// "max_rise_time_sec", "max_settling_time_sec", "max_steady_state_error".
+// "max_rise_time_sec", "max_settling_time_sec", "max_steady_state_error",
+// "max_disturbance_peak", "max_recovery_time_sec", "max_control_peak",
+// "max_integrated_absolute_error", "max_noise_to_control_gain".
 // It returns ErrInvalidRequirement for an unknown key and for a limit the
 // quantity cannot have (a negative overshoot, a phase margin outside
 // [0°, 180°], a non-finite number, ...).
 func ByKey(key string, limit float64) (Requirement, error) {
-	for q := phaseMargin; q <= steadyStateError; q++ {
+	for q := phaseMargin; q <= lastQuantity; q++ {
 		if quantities[q].key == key {
 			r := Requirement{q, limit}
 			return r, r.valid()
@@ -113,7 +156,7 @@ func ByKey(key string, limit float64) (Requirement, error) {
 // Keys returns the keys ByKey accepts, in the order of the constructors.
 func Keys() []string {
 	out := make([]string, 0, len(quantities))
-	for q := phaseMargin; q <= steadyStateError; q++ {
+	for q := phaseMargin; q <= lastQuantity; q++ {
 		out = append(out, quantities[q].key)
 	}
 	return out
@@ -202,6 +245,16 @@ func limitRange(q quantity) (lo, hi float64, open bool, words string) {
 		return 0, math.MaxFloat64, false, "a maximum settling time is 0 s or more"
 	case steadyStateError:
 		return 0, math.MaxFloat64, false, "a maximum steady-state error is 0 or more (a fraction of the step)"
+	case disturbancePeak:
+		return 0, math.MaxFloat64, false, "a maximum disturbance peak is 0 or more (output per unit disturbance)"
+	case recoveryTime:
+		return 0, math.MaxFloat64, false, "a maximum recovery time is 0 s or more"
+	case controlPeak:
+		return 0, math.MaxFloat64, false, "a maximum control peak is 0 or more (control signal per unit reference)"
+	case integratedAbsoluteError:
+		return 0, math.MaxFloat64, false, "a maximum integrated absolute error is 0 or more"
+	case noiseToControlGain:
+		return 0, math.MaxFloat64, false, "a maximum noise-to-control gain is a ratio of 0 or more (not dB)"
 	}
 	return math.Inf(-1), math.Inf(1), false, ""
 }

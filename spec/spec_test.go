@@ -7,6 +7,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/loopwise/loopwise/closedloop"
 	"github.com/loopwise/loopwise/internal/testutil"
 	"github.com/loopwise/loopwise/spec"
 	"github.com/loopwise/loopwise/tf"
@@ -168,8 +169,9 @@ func TestUnstableLoopFailsEverything(t *testing.T) {
 		req = append(req, r)
 	}
 	// Even lenient limits fail: the margins of an unstable loop are no
-	// margins, and the step response has no metrics.
-	rep := spec.Check(loop, req)
+	// margins, and the step response has no metrics. The requirements on
+	// the whole loop get its parts: plant cubic, controller 10.
+	rep := spec.CheckWith(loop, req, &spec.Settings{Loop: closedloop.Loop{Plant: cubic, Controller: tf.MustNew([]float64{10}, []float64{1})}})
 	for _, r := range rep.Results {
 		if r.Requirement.Key() == "max_steady_state_error" || r.Requirement.Key() == "min_damping_ratio" {
 			if r.Pass {
@@ -207,7 +209,7 @@ func TestInvalidRequirements(t *testing.T) {
 
 func TestKeysRoundTrip(t *testing.T) {
 	keys := spec.Keys()
-	if len(keys) != 9 {
+	if len(keys) != 14 {
 		t.Fatalf("%d keys", len(keys))
 	}
 	for _, k := range keys {
@@ -336,6 +338,54 @@ func TestUnits(t *testing.T) {
 	}
 }
 
+// TestWholeLoopRequirements: plant 1/(s + 1) with the PI controller
+// 1 + 4/s. Load → output is s/(s² + 2s + 4) (a = 1, b = √3): the peak
+// deviation e^(−a·tp)·sin(b·tp)/b at tp = atan2(b, a)/b and
+// IAE = coth(aπ/(2b))/ω² (closed forms derived in closedloop's tests); the
+// reference → control is C·S = (s + 4)(s + 1)/(s² + 2s + 4), and since
+// (s + 4)(s + 1) = (s² + 2s + 4) + 3s its step response is
+// u(t) = 1 + 3·e^(−t)·sin(√3·t)/√3, peaking at 1 + 3·peak at tp; noise →
+// control is −C·S, |C·S|² = (x² + 17x + 16)/(x² − 4x + 16) with x = ω²,
+// stationary where −21x² + 336 = 0: x = 4, ω = 2 rad/s, |C·S| = 10/4 = 2.5.
+func TestWholeLoopRequirements(t *testing.T) {
+	parts := closedloop.Loop{Plant: tf.MustParse("1/(s+1)"), Controller: tf.MustParse("(s+4)/s")}
+	loop, _ := parts.Controller.Series(parts.Plant)
+	a, b := 1.0, math.Sqrt(3)
+	tp := math.Atan2(b, a) / b
+	peak := math.Exp(-a*tp) * math.Sin(b*tp) / b
+	iae := 1 / math.Tanh(a*math.Pi/(2*b)) / 4
+	set := &spec.Settings{Loop: parts}
+	for _, c := range []struct {
+		make func(float64) spec.Requirement
+		want float64
+	}{
+		{spec.MaxDisturbancePeak, peak},
+		{spec.MaxIntegratedAbsoluteError, iae},
+	} {
+		for _, f := range []float64{0.999, 1.001} {
+			r := spec.CheckWith(loop, spec.Requirements{c.make(f * c.want)}, set).Results[0]
+			if r.Pass != (f > 1) || math.Abs(r.Value-c.want) > 1e-10*c.want {
+				t.Errorf("%s limit %v: pass %v value %.15g, want %.15g: %s", r.Name, f*c.want, r.Pass, r.Value, c.want, r.Message)
+			}
+		}
+	}
+	rep := spec.CheckWith(loop, spec.Requirements{spec.MaxControlPeak(2), spec.MaxNoiseToControlGain(2.4), spec.MaxRecoveryTimeSec(10)}, set)
+	if !rep.Results[0].Pass || rep.Results[1].Pass || !rep.Results[2].Pass {
+		t.Errorf("%v", rep)
+	}
+	if v := rep.Results[0].Value; math.Abs(v-(1+3*peak)) > 1e-12 {
+		t.Errorf("control peak %.15g, want %.15g", v, 1+3*peak)
+	}
+	if v := rep.Results[1].Value; math.Abs(v-2.5) > 1e-12 || !strings.Contains(rep.Results[1].Message, "at 2 rad/s") {
+		t.Errorf("noise → control gain %.15g, want 2.5 at 2 rad/s: %s", v, rep.Results[1].Message)
+	}
+	// Without the parts the requirement fails and says what it needs.
+	r := spec.Check(loop, spec.Requirements{spec.MaxDisturbancePeak(1)}).Results[0]
+	if r.Pass || !errors.Is(r.Err, spec.ErrInvalidSettings) || !strings.Contains(r.Message, "Settings.Loop") {
+		t.Errorf("without parts: %+v", r)
+	}
+}
+
 // TestLimitsOutsideTheQuantity checks that ByKey rejects limits the
 // quantity cannot have (issue 11, item 13): a negative overshoot, a phase
 // margin of −1e308°, a damping ratio above 1 (ζ ≤ 1 for every pole).
@@ -354,6 +404,11 @@ func TestLimitsOutsideTheQuantity(t *testing.T) {
 		{"max_rise_time_sec", -1},
 		{"max_settling_time_sec", -1},
 		{"max_steady_state_error", -0.01},
+		{"max_disturbance_peak", -0.1},
+		{"max_recovery_time_sec", -1},
+		{"max_control_peak", -1},
+		{"max_integrated_absolute_error", -1},
+		{"max_noise_to_control_gain", -3},
 	} {
 		_, err := spec.ByKey(test.key, test.limit)
 		if !errors.Is(err, spec.ErrInvalidRequirement) {

@@ -127,3 +127,21 @@ func ExamplePadeDelay() {
 	// Output:
 	// (0.0008333333333333335*s^2 - 0.05*s + 1)/(0.0008333333333333335*s^2 + 0.05*s + 1)
 }
+
+// ExamplePID shows a controller in the time-constant form, its transfer
+// function and its parallel form.
+func ExamplePID() {
+	p := tf.PID{Gain: 2, IntegralTimeSec: 0.5, DerivativeTimeSec: 0.05, DerivativeFilter: 10}
+	c, err := p.TF()
+	if err != nil {
+		log.Fatal(err)
+	}
+	q, _ := p.Parallel()
+	fmt.Println(p)
+	fmt.Println(c)
+	fmt.Println(q)
+	// Output:
+	// PID: gain 2, integral time 0.5 s, derivative time 0.05 s, derivative filter 10
+	// (0.11*s^2 + 2.02*s + 4)/(0.005*s^2 + s)
+	// parallel PID: proportional gain 2, integral gain 4 1/s, derivative gain 0.1 s, filter time 0.005 s
+}

@@ -53,7 +53,16 @@ Loop file (UTF-8 JSON of at most 1 MiB; unknown keys are rejected):
   plant            text, required: transfer function in s, or in z when
                    sample_time_sec > 0, e.g. "2.5/(s*(0.2s+1))"; exp(-0.1s)
                    adds dead time
-  controller       text, default "1"; may use the parameter name
+  controller       text, default "1"; may use the parameter name; or a
+                   structured form (continuous loops):
+                   {"form": "pid", "gain": 2, "integral_time_sec": 0.5,
+                    "derivative_time_sec": 0.05, "derivative_filter": 10}
+                   forms: pid (gain, integral_time_sec, derivative_time_sec,
+                   derivative_filter optional, 0 = unfiltered), pi (gain,
+                   integral_time_sec), pd (gain, derivative_time_sec,
+                   derivative_filter), lead_lag (center_frequency_rad_per_sec,
+                   phase_deg, gain optional), notch (frequency_rad_per_sec,
+                   depth 0..1, width_rad_per_sec, gain optional)
   sensor           text, default "1": the feedback path
   gain             number, default 1: the loop gain k at which margins and
                    responses are evaluated
@@ -74,7 +83,12 @@ Loop file (UTF-8 JSON of at most 1 MiB; unknown keys are rejected):
                    min_phase_margin_deg, min_gain_margin_db,
                    min_delay_margin_sec, max_peak_sensitivity,
                    min_damping_ratio, max_overshoot_pct, max_rise_time_sec,
-                   max_settling_time_sec, max_steady_state_error
+                   max_settling_time_sec, max_steady_state_error,
+                   max_disturbance_peak (per unit load step),
+                   max_recovery_time_sec (2 % of the peak),
+                   max_control_peak (per unit reference step),
+                   max_integrated_absolute_error (load step),
+                   max_noise_to_control_gain (largest |noise → u|)
   uncertain        {"g": {"range": [0.8, 1.2]},
                     "m": {"range": [0.05, 0.08], "distribution": "normal"}}:
                    parameters of the expressions with their ranges; the
@@ -98,9 +112,10 @@ Example:
    "requirements": {"min_phase_margin_deg": 45, "max_overshoot_pct": 10}}
 
 JSON output: open_loop, closed_loop, locus, margins, step, steady_state,
-discrete_loop (with discretize), requirements, design (with
-requirements: the values of the gain or the parameter that meet each one),
-plane (with plane), robust (with uncertain), warnings; a quantity that is
+load_disturbance, control_effort, noise, discrete_loop (with discretize),
+requirements, design (with requirements: the values of the gain or the
+parameter that meet each one), plane (with plane), robust (with uncertain),
+warnings; a quantity that is
 infinite or does not exist is null; complex numbers are {"re": x, "im": y}.
 See README.md for every key.
 
