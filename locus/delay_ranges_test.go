@@ -11,7 +11,7 @@ import (
 
 type delayRangeRefs struct {
 	FirstOrderLag []struct {
-		T, Tau      float64
+		T, Tau       float64
 		Omega, Kstar string
 	}
 	ThirdOrder struct {
