@@ -92,17 +92,17 @@ type delayRun struct {
 	M      int // intervals per dead time
 	nx     int
 	// Per interval: y = px·x0 + pu·u + uf·yc + w, xEnd = ex·x0 + eu·u + uf·ec.
-	px, pu     *mat.Dense
-	ex, eu     *mat.Dense
-	yc, ec     []float64
-	nodes      []float64 // θ_j in [0, h], ascending
-	bary       []float64 // barycentric weights
-	ref        float64   // r on t ≥ 0
-	outDis     float64   // w on t ≥ 0
-	filt       bool      // a filtered step enters after τ
-	rightmost  complex128
-	haveRoot   bool
-	finalValue float64
+	px, pu    *mat.Dense
+	ex, eu    *mat.Dense
+	yc, ec    []float64
+	nodes     []float64   // θ_j in [0, h], ascending
+	bary      []float64   // barycentric weights
+	dm        [][]float64 // differentiation matrix on the nodes (d/dθ)
+	ref       float64     // r on t ≥ 0
+	outDis    float64     // w on t ≥ 0
+	filt      bool        // a filtered step enters after τ
+	rightmost complex128
+	haveRoot  bool
 }
 
 // ClosedLoopStep returns the response of the unity negative-feedback
@@ -308,6 +308,7 @@ func (r *delayRun) operators(A *mat.Dense, b1, b2, c []float64, d1, d2 float64) 
 		}
 		Dm[i][i] = -sum
 	}
+	r.dm = Dm
 	r.bary = make([]float64, p+1)
 	for j := range r.bary {
 		r.bary[j] = 1 / cw(j) // (−1)^j, halved at the ends
