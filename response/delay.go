@@ -88,6 +88,7 @@ const (
 // delayRun is the prepared closed loop: the collocation operators of one
 // interval and the signals entering it.
 type delayRun struct {
+	loop   tf.TF
 	tau, h float64
 	M      int // intervals per dead time
 	nx     int
@@ -265,14 +266,21 @@ func prepareDelay(loop tf.TF, s ClosedLoopSettings) (*delayRun, error) {
 	if err := run.operators(A, b1, b2, c, d1, d2); err != nil {
 		return nil, err
 	}
-	// Rightmost closed-loop root (time scale, stability) when defined.
-	if loop.IsStrictlyProper() {
-		q := quasipoly.Q{D: loop.Den().Coeffs(), N: loop.Num().Coeffs(), K: 1, Tau: tau}
-		if res, err := q.Rightmost(1, nil); err == nil && len(res.Roots) > 0 {
-			run.rightmost, run.haveRoot = res.Roots[0], true
-		}
-	}
+	run.loop = loop
 	return run, nil
+}
+
+// findRightmost finds the rightmost closed-loop root (time scale,
+// stability) of a strictly proper loop; only the automatic horizon and the
+// metrics need it.
+func (r *delayRun) findRightmost() {
+	if r.haveRoot || !r.loop.IsStrictlyProper() {
+		return
+	}
+	q := quasipoly.Q{D: r.loop.Den().Coeffs(), N: r.loop.Num().Coeffs(), K: 1, Tau: r.tau}
+	if res, err := q.Rightmost(1, nil); err == nil && len(res.Roots) > 0 {
+		r.rightmost, r.haveRoot = res.Roots[0], true
+	}
 }
 
 // operators builds the collocation operators of one interval.
@@ -507,6 +515,7 @@ func (r *delayRun) interp(y []float64, theta float64) float64 {
 
 // autoHorizon returns 5τ + 12/σ from the rightmost closed-loop root.
 func (r *delayRun) autoHorizon() float64 {
+	r.findRightmost()
 	sigma := 1 / r.tau
 	if r.haveRoot {
 		sigma = math.Abs(real(r.rightmost))

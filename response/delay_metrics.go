@@ -39,6 +39,7 @@ func ClosedLoopStepMetrics(loop tf.TF, set *ClosedLoopSettings, mset *MetricSett
 	if err != nil {
 		return Metrics{}, err
 	}
+	run.findRightmost()
 	if !run.haveRoot {
 		return Metrics{}, fmt.Errorf("%w: the closed loop of %v is of neutral type (biproper loop with dead time) or its rightmost root was not found; its stability is not decided here", ErrDelay, loop)
 	}
