@@ -3,6 +3,7 @@ module github.com/loopwise/loopwise
 go 1.26
 
 require (
+	github.com/google/go-cmp v0.7.0
 	golang.org/x/image v0.30.0
 	gonum.org/v1/gonum v0.17.0
 	gonum.org/v1/plot v0.17.0

@@ -31,9 +31,16 @@
 // look true. The s-plane is labelled "real part σ (1/s)" and "imaginary
 // part ω (rad/s)"; the z-plane and the Nyquist plane are dimensionless.
 // Frequencies are in rad/s on a logarithmic axis, magnitudes in dB, phases
-// in degrees, times in seconds. Poles are ×, zeros ○ (the textbook
-// convention), break points orange diamonds, boundary crossings vermillion
-// squares, marked closed-loop poles black dots. Numbers are written with
+// in degrees (written °), times in seconds. One mark means one thing in
+// every figure: poles are ×, zeros ○ (the textbook convention; on a locus
+// the × are where branches start, the closed-loop poles at the value 0,
+// and the ○ where they end, for the gain and for a parameter alike),
+// break points orange diamonds, boundary crossings vermillion squares,
+// marked closed-loop poles black dots (further values: dots of other
+// colours), samples of a sequence small blue dots on stems. The key to
+// the marks stands right of the panels, outside the data; the margins in
+// words are written under the panels; the title is centred across the
+// top. Numbers are written with
 // three or four significant digits and a true minus sign; margins and
 // metrics are written out in words ("gain margin 9.93 dB (factor 3.14) at
 // 4.01 rad/s").
@@ -53,7 +60,10 @@
 // approximation of dead time, say) are left out of the view and counted
 // in the key, unless the first crossing of the stability boundary lies
 // among them. PlaneSettings.Detail adds a zoomed panel for a small group
-// of points near the origin; PlaneSettings.Window fixes the view.
+// of points near the origin, and one is added unasked where marks crowd
+// (PlaneSettings.Detail says when); PlaneSettings.Window fixes the view.
+// The key of a complex plane stands right of the panels, outside the data,
+// so that it hides no branch, mark or label.
 //
 // # Invariants
 //

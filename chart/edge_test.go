@@ -78,8 +78,9 @@ func TestEdgeCases(t *testing.T) {
 // group of points near the origin exists, and widens the default figure.
 func TestDetailPanel(t *testing.T) {
 	f := must(chart.RootLocus(traceLocus(t, stageLoop(), nil), &chart.LocusSettings{PlaneSettings: chart.PlaneSettings{Detail: true}}))
-	if len(f.Panels) != 2 || f.WidthCm != 26 {
-		t.Errorf("stage loop: %d panels, width %g cm; want 2 panels, 26 cm", len(f.Panels), f.WidthCm)
+	plain := must(chart.RootLocus(traceLocus(t, stageLoop(), nil), &chart.LocusSettings{PlaneSettings: chart.PlaneSettings{Window: &chart.Window{RealMin: -60, RealMax: 10, ImagMin: -30, ImagMax: 30}}}))
+	if len(f.Panels) != 2 || f.WidthCm != plain.WidthCm+10 {
+		t.Errorf("stage loop: %d panels, width %g cm; want 2 panels, %g cm (10 cm wider than one panel with its key)", len(f.Panels), f.WidthCm, plain.WidthCm+10)
 	}
 	if len(f.Panels) == 2 {
 		main, detail := f.Panels[0], f.Panels[1]

@@ -46,7 +46,7 @@ func Example() {
 		}
 		fmt.Printf("%s written: %t\n", name, info.Size() > 10000)
 	}
-	fmt.Println(fig.Panels[0].Title.Text)
+	fmt.Println(fig.Title)
 	// Output:
 	// locus.svg written: true
 	// locus.png written: true

@@ -42,8 +42,9 @@ const (
 type Figure struct {
 	// Panels are the plots from top to bottom.
 	Panels []*plot.Plot
-	// Title is written across the top of the figure, above all panels.
-	// Empty means no figure title.
+	// Title is written centred across the top of the figure, above all
+	// panels (wrapped when it is wider than the figure). Empty means no
+	// figure title.
 	Title string
 	// WidthCm and HeightCm are the size of the whole figure in
 	// centimetres (0 < size ≤ 200).
@@ -67,12 +68,42 @@ type Figure struct {
 	// cols is the number of panel columns (0 or 1: one column); panels
 	// fill the rows in order.
 	cols int
+	// side is a key drawn outside the panels, right of them, level with
+	// the top of the first panel's data area; nil means none.
+	side *cornerBox
+	// sideDrawn is where side was last drawn.
+	sideDrawn vg.Rectangle
+	// layers are the text layers of the panels, whose layouts the tests
+	// read after drawing.
+	layers []*textLayer
+	// panelTitles, if set, are written above the panels' data areas, all
+	// on one line (plot titles sit at heights that depend on each panel's
+	// tick labels).
+	panelTitles []string
 }
 
-// newFigure returns a one-panel figure of the given size.
+// sideGap is the space between the panels and a key beside them.
+var sideGap = vg.Points(8)
+
+// setSideKey puts the key box b outside the data, right of the panels,
+// and widens a figure of default width by the room it takes.
+func (f *Figure) setSideKey(b *cornerBox, defaultWidth bool) {
+	f.side = b
+	if defaultWidth {
+		w, _, _, _ := b.size()
+		// Whole half centimetres: sizes a user can repeat.
+		f.WidthCm = math.Ceil(2*(f.WidthCm+float64((w+sideGap)/vg.Centimeter)+0.3)) / 2
+	}
+}
+
+// newFigure returns a one-panel figure of the given size. The panel's
+// title becomes the figure's title, written centred across the top like
+// that of every figure of this package.
 func newFigure(p *plot.Plot, s Size, th Theme) *Figure {
 	w, h, dpi := s.resolve()
-	return &Figure{Panels: []*plot.Plot{p}, WidthCm: w, HeightCm: h, DPI: dpi, theme: th, square: map[int]bool{}}
+	f := &Figure{Panels: []*plot.Plot{p}, WidthCm: w, HeightCm: h, DPI: dpi, theme: th, square: map[int]bool{}}
+	f.Title, p.Title.Text = p.Title.Text, ""
+	return f
 }
 
 // Size is the output size shared by all Settings types.
@@ -220,9 +251,16 @@ func (f *Figure) draw(c draw.Canvas) {
 	pad := vg.Points(6)
 	c = draw.Crop(c, pad, -pad, pad, -pad)
 	if f.Title != "" {
-		sty := th.textStyle(th.FontSizeTitle*1.1, true, draw.XLeft, draw.YTop)
-		c.FillText(sty, vg.Point{X: c.Min.X, Y: c.Max.Y}, f.Title)
-		c.Max.Y -= sty.Rectangle(f.Title).Size().Y + vg.Points(4)
+		sty := th.textStyle(th.FontSizeTitle*1.1, true, draw.XCenter, draw.YTop)
+		var lines []string
+		for _, l := range wrapText(f.Title, c.Max.X-c.Min.X, sty.Width) {
+			lines = append(lines, strings.TrimSpace(l))
+		}
+		for _, l := range lines {
+			c.FillText(sty, vg.Point{X: (c.Min.X + c.Max.X) / 2, Y: c.Max.Y}, l)
+			c.Max.Y -= sty.Rectangle(l).Size().Y
+		}
+		c.Max.Y -= vg.Points(5)
 	}
 	if len(f.Notes) > 0 {
 		sty := th.textStyle(th.FontSizeLabel*0.95, false, draw.XLeft, draw.YBottom)
@@ -237,6 +275,15 @@ func (f *Figure) draw(c draw.Canvas) {
 			y += lineH
 		}
 		c.Min.Y = y + vg.Points(4)
+	}
+	if f.side != nil && len(f.side.Entries) > 0 {
+		w, _, _, _ := f.side.size()
+		c.Max.X -= w + sideGap
+	}
+	ptStyle := th.textStyle(th.FontSizeTitle, true, draw.XCenter, draw.YBottom)
+	titleY := c.Max.Y
+	if len(f.panelTitles) > 0 {
+		c.Max.Y -= ptStyle.Rectangle("Ag").Size().Y + vg.Points(6)
 	}
 	n := len(f.Panels)
 	cols := max(f.cols, 1)
@@ -279,6 +326,27 @@ func (f *Figure) draw(c draw.Canvas) {
 	for i, p := range f.Panels {
 		r, k := at(i)
 		p.Draw(cans[r][k])
+	}
+	top := vg.Length(math.Inf(-1))
+	for i, p := range f.Panels {
+		r, k := at(i)
+		top = max(top, p.DataCanvas(cans[r][k]).Max.Y)
+	}
+	for i, t := range f.panelTitles {
+		if i >= len(f.Panels) || t == "" {
+			continue
+		}
+		r, k := at(i)
+		dc := f.Panels[i].DataCanvas(cans[r][k])
+		y := min(top+vg.Points(6), titleY-ptStyle.Rectangle(t).Size().Y)
+		c.FillText(ptStyle, vg.Point{X: (dc.Min.X + dc.Max.X) / 2, Y: y}, t)
+	}
+	if f.side != nil && len(f.side.Entries) > 0 {
+		w, h, _, _ := f.side.size()
+		top := f.Panels[0].DataCanvas(cans[0][0]).Max.Y
+		x0 := c.Max.X + sideGap
+		f.sideDrawn = vg.Rectangle{Min: vg.Point{X: x0, Y: top - h}, Max: vg.Point{X: x0 + w, Y: top}}
+		f.side.drawAt(c, f.sideDrawn)
 	}
 }
 

@@ -44,9 +44,10 @@ func (s *FrequencySettings) check() error {
 // same loop) it marks every gain crossover (on the 0 dB line, with the
 // phase margin drawn as a distance above the −180° line) and every phase
 // crossover (on the −180° line, with the gain margin drawn as a distance
-// below 0 dB), and writes the margins in words in a box on each panel:
-// gain margin and peak sensitivity above, phase and delay margin and the
-// closed-loop verdict below. With m nil it draws the curves alone.
+// below 0 dB), and writes the margins in words under the panels, in the
+// same two lines as under a Nyquist curve: gain margin and peak
+// sensitivity, then phase and delay margin and the closed-loop verdict.
+// With m nil it draws the curves alone.
 //
 // Frequencies that are not positive cannot go on the logarithmic axis and
 // give ErrFrequency; samples with an infinite magnitude (a pole on the
@@ -107,10 +108,20 @@ func FrequencyResponse(resp margins.Response, m *margins.Result, set *FrequencyS
 	if len(magPieces) == 0 || len(phPieces) == 0 {
 		return nil, fmt.Errorf("%w: no finite magnitude or phase samples", ErrNoData)
 	}
-	wmin, wmax := minOf(w), maxOf(w)
+	// Magnitude range: the finite data, at most 160 dB deep below its top
+	// (a zero on the axis would otherwise squash everything). Where the
+	// curve rolls off below that floor at either end of the band, the
+	// frequency axis ends where it reaches the floor, so that the curve
+	// does not leave the panel before the axis ends.
+	mlo, mhi := math.Inf(1), math.Inf(-1)
+	for _, pc := range magPieces {
+		mlo, mhi = math.Min(mlo, minOf(pc[1])), math.Max(mhi, maxOf(pc[1]))
+	}
+	mlo = math.Max(mlo, mhi-160)
+	wmin, wmax := rollOffRange(w, resp.MagnitudeDB, mlo)
 
 	mag := newPanel(th, "", "", "magnitude (dB)")
-	ph := newPanel(th, "", "frequency ω (rad/s)", "phase (degrees)")
+	ph := newPanel(th, "", "frequency ω (rad/s)", "phase (°)")
 	for _, p := range []*plot.Plot{mag, ph} {
 		p.X.Scale = plot.LogScale{}
 		p.X.Tick.Marker = logTicks{}
@@ -123,17 +134,12 @@ func FrequencyResponse(resp margins.Response, m *margins.Result, set *FrequencyS
 	var magKey, phKey []keyEntry
 	noteStyle := th.textStyle(th.FontSizeNote, false, draw.XLeft, draw.YBottom)
 
-	// Magnitude range: the finite data, at most 160 dB deep below its top
-	// (a zero on the axis would otherwise squash everything).
-	mlo, mhi := math.Inf(1), math.Inf(-1)
-	for _, pc := range magPieces {
-		mlo, mhi = math.Min(mlo, minOf(pc[1])), math.Max(mhi, maxOf(pc[1]))
-	}
-	mlo = math.Max(mlo, mhi-160)
 	mlo, mhi = math.Min(mlo, -10), math.Max(mhi, 10) // 0 dB always in view
 	plo, phi := math.Inf(1), math.Inf(-1)
-	for _, pc := range phPieces {
-		plo, phi = math.Min(plo, minOf(pc[1])), math.Max(phi, maxOf(pc[1]))
+	for i, v := range phase {
+		if finite(v) && w[i] >= wmin && w[i] <= wmax {
+			plo, phi = math.Min(plo, v), math.Max(phi, v)
+		}
 	}
 
 	mag.Add(&hLine{Y: 0, LineStyle: draw.LineStyle{Color: th.Axis, Width: th.GuideWidth}})
@@ -193,8 +199,6 @@ func FrequencyResponse(resp margins.Response, m *margins.Result, set *FrequencyS
 			phNotes = append(phNotes, note{X: wc, Y: (ref + phase) / 2, Text: "phase margin " + formatNumber(gc.PhaseMarginDeg, 3) + "°", Color: okBluishGreen})
 			plo, phi = math.Min(plo, ref), math.Max(phi, ref)
 		}
-		magKey = append(magKey, gainMarginWords(m)...)
-		phKey = append(phKey, phaseMarginWords(m)...)
 	}
 	// Odd multiples of 180° in view are the phase references.
 	if plo > -180 && plo < -180+60 {
@@ -237,6 +241,9 @@ func FrequencyResponse(resp margins.Response, m *margins.Result, set *FrequencyS
 
 	pad := 0.08 * (mhi - mlo)
 	mag.Y.Min, mag.Y.Max = mlo-pad, mhi+pad
+	for _, p := range []*plot.Plot{mag, ph} {
+		p.X.Min, p.X.Max = wmin, wmax // Add widened them to the whole data
+	}
 	span := phi - plo
 	if span < 90 {
 		mid := (phi + plo) / 2
@@ -248,6 +255,10 @@ func FrequencyResponse(resp margins.Response, m *margins.Result, set *FrequencyS
 	f := newFigure(mag, size, th)
 	f.Panels = append(f.Panels, ph)
 	f.Title = title
+	if m != nil {
+		// The margins in words under the panels, as under a Nyquist curve.
+		f.Notes = marginNotes(m)
+	}
 	return f, nil
 }
 
@@ -322,6 +333,41 @@ func marginNotes(m *margins.Result) []string {
 		ph = append(ph, e.Text)
 	}
 	return []string{strings.Join(g, "; "), strings.Join(ph, "; ")}
+}
+
+// rollOffRange returns the frequency band to draw: all of w, except that
+// where the magnitude stays below floor up to an end of w (a roll-off
+// deeper than the panel), the band ends where it reaches floor
+// (interpolated linearly in log ω).
+func rollOffRange(w, magDB []float64, floor float64) (lo, hi float64) {
+	n := len(w)
+	lo, hi = w[0], w[n-1]
+	cross := func(i, j int) float64 {
+		a, b := magDB[i], magDB[j]
+		if !finite(b) || a == b {
+			return w[i]
+		}
+		f := (a - floor) / (a - b)
+		return math.Exp(math.Log(w[i]) + f*(math.Log(w[j])-math.Log(w[i])))
+	}
+	last := n - 1
+	for last >= 0 && !(magDB[last] >= floor) {
+		last--
+	}
+	if last < 0 {
+		return lo, hi
+	}
+	if last < n-1 {
+		hi = cross(last, last+1)
+	}
+	first := 0
+	for first < n && !(magDB[first] >= floor) {
+		first++
+	}
+	if first > 0 {
+		lo = cross(first, first-1)
+	}
+	return lo, hi
 }
 
 // finitePieces splits (x, y) into runs of finite values.

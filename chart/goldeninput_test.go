@@ -118,7 +118,7 @@ func goldenCases() []figureCase {
 		}}
 	}
 	grid := logGrid(0.05, 200, 400)
-	return []figureCase{
+	return append([]figureCase{
 		locusCase("locus_continuous", func() (tf.TF, *locus.Settings) { return servoLoop(), nil },
 			&chart.LocusSettings{PlaneSettings: chart.PlaneSettings{Grid: true}, Mark: &chart.LocusMark{Value: 20}}),
 		locusCase("locus_detail", func() (tf.TF, *locus.Settings) { return stageLoop(), nil },
@@ -155,7 +155,7 @@ func goldenCases() []figureCase {
 			cl := must(digitalLoop().ClosedLoop())
 			return must(chart.StepResponse(sampledStep(t, cl, 4, 0), ptr(must(response.StepMetrics(cl, nil))), nil))
 		}},
-	}
+	}, robustGoldenCases()...) // robust_test.go
 }
 
 func ptr[T any](v T) *T { return &v }

@@ -84,7 +84,15 @@ type annotations struct {
 
 // placed boxes are kept between plotters of the same panel through this
 // shared list, so that a corner box avoids labels and vice versa.
-type layout struct{ boxes []vg.Rectangle }
+type layout struct {
+	boxes []vg.Rectangle // every placed box: keys and labels
+	// For tests of the layout: keys are the boxes of symbols and words,
+	// labels the text labels, points the obstacles (curve and mark
+	// points), area the data area.
+	keys, labels []vg.Rectangle
+	points       []vg.Point
+	area         vg.Rectangle
+}
 
 func overlapArea(a, b vg.Rectangle) float64 {
 	w := math.Min(float64(a.Max.X), float64(b.Max.X)) - math.Max(float64(a.Min.X), float64(b.Min.X))
@@ -180,6 +188,7 @@ func (a *annotations) plot(dc draw.Canvas, p *plot.Plot, lay *layout) {
 			}
 		}
 		lay.boxes = append(lay.boxes, bestBox)
+		lay.labels = append(lay.labels, bestBox)
 		if bestDist > vg.Points(8) && a.Leader.Width > 0 {
 			// Leader from near the anchor to the nearest point of the box.
 			q := vg.Point{X: clampLen(at.X, bestBox.Min.X, bestBox.Max.X), Y: clampLen(at.Y, bestBox.Min.Y, bestBox.Max.Y)}
@@ -231,17 +240,13 @@ type cornerBox struct {
 	Avoid   *obstacles
 }
 
-func (b *cornerBox) plot(dc draw.Canvas, p *plot.Plot, lay *layout) {
-	if len(b.Entries) == 0 {
-		return
-	}
+// size returns the width and height of the box and whether its entries
+// have symbols.
+func (b *cornerBox) size() (w, h, lineH vg.Length, hasSym bool) {
 	sty := b.Style
 	sty.XAlign, sty.YAlign = draw.XLeft, draw.YBottom
-	pad := vg.Points(4)
-	sym := vg.Points(14)
-	hasSym := false
 	var tw vg.Length
-	lineH := sty.Rectangle("Ag").Size().Y * 1.15
+	lineH = sty.Rectangle("Ag").Size().Y * 1.15
 	for _, e := range b.Entries {
 		if e.Glyph != nil || e.Line != nil || e.Fill != nil {
 			hasSym = true
@@ -250,11 +255,26 @@ func (b *cornerBox) plot(dc draw.Canvas, p *plot.Plot, lay *layout) {
 			tw = wd
 		}
 	}
-	w := tw + 2*pad
+	w = tw + 2*keyPad
 	if hasSym {
-		w += sym
+		w += keySym
 	}
-	h := lineH*vg.Length(len(b.Entries)) + 2*pad
+	h = lineH*vg.Length(len(b.Entries)) + 2*keyPad
+	return w, h, lineH, hasSym
+}
+
+// keyPad is the inner margin of a box of text, keySym the room for the
+// symbol left of each line.
+var (
+	keyPad = vg.Points(4)
+	keySym = vg.Points(14)
+)
+
+func (b *cornerBox) plot(dc draw.Canvas, p *plot.Plot, lay *layout) {
+	if len(b.Entries) == 0 {
+		return
+	}
+	w, h, _, _ := b.size()
 	var obs []vg.Point
 	if b.Avoid != nil {
 		obs = b.Avoid.canvasPoints(dc, p, vg.Points(2))
@@ -283,26 +303,35 @@ func (b *cornerBox) plot(dc draw.Canvas, p *plot.Plot, lay *layout) {
 		}
 	}
 	lay.boxes = append(lay.boxes, box)
+	lay.keys = append(lay.keys, box)
+	b.drawAt(dc, box)
+}
+
+// drawAt draws the box into the rectangle box of dc.
+func (b *cornerBox) drawAt(dc draw.Canvas, box vg.Rectangle) {
+	sty := b.Style
+	sty.XAlign, sty.YAlign = draw.XLeft, draw.YBottom
+	_, _, lineH, hasSym := b.size()
 	dc.FillPolygon(color.NRGBA{R: 255, G: 255, B: 255, A: 0xeb}, rectPoints(box))
 	if b.Border.Width > 0 {
 		pts := rectPoints(box)
 		dc.StrokeLines(b.Border, append(pts, pts[0]))
 	}
-	y := box.Max.Y - pad - lineH
+	y := box.Max.Y - keyPad - lineH
 	for _, e := range b.Entries {
-		x := box.Min.X + pad
-		mid := vg.Point{X: x + sym/2 - vg.Points(1), Y: y + lineH*0.4}
+		x := box.Min.X + keyPad
+		mid := vg.Point{X: x + keySym/2 - vg.Points(1), Y: y + lineH*0.4}
 		switch {
 		case e.Glyph != nil:
 			dc.DrawGlyphNoClip(*e.Glyph, mid)
 		case e.Line != nil:
-			dc.StrokeLine2(*e.Line, x, mid.Y, x+sym-vg.Points(3), mid.Y)
+			dc.StrokeLine2(*e.Line, x, mid.Y, x+keySym-vg.Points(3), mid.Y)
 		case e.Fill != nil:
-			r := vg.Rectangle{Min: vg.Point{X: x, Y: mid.Y - vg.Points(3.5)}, Max: vg.Point{X: x + sym - vg.Points(3), Y: mid.Y + vg.Points(3.5)}}
+			r := vg.Rectangle{Min: vg.Point{X: x, Y: mid.Y - vg.Points(3.5)}, Max: vg.Point{X: x + keySym - vg.Points(3), Y: mid.Y + vg.Points(3.5)}}
 			dc.FillPolygon(e.Fill, rectPoints(r))
 		}
 		if hasSym {
-			x += sym
+			x += keySym
 		}
 		dc.FillText(sty, vg.Point{X: x, Y: y + lineH*0.1}, e.Text)
 		y -= lineH
@@ -315,6 +344,10 @@ func (b *cornerBox) plot(dc draw.Canvas, p *plot.Plot, lay *layout) {
 type textLayer struct {
 	Boxes []*cornerBox
 	Notes []*annotations
+	// Avoid, if set, are the obstacles recorded with the layout.
+	Avoid *obstacles
+	// drawn is the layout of the last drawing, in canvas coordinates.
+	drawn layout
 }
 
 // Plot implements plot.Plotter.
@@ -326,4 +359,9 @@ func (t *textLayer) Plot(dc draw.Canvas, p *plot.Plot) {
 	for _, n := range t.Notes {
 		n.plot(dc, p, &lay)
 	}
+	if t.Avoid != nil {
+		lay.points = t.Avoid.canvasPoints(dc, p, vg.Points(2))
+	}
+	lay.area = dc.Rectangle
+	t.drawn = lay
 }

@@ -228,10 +228,8 @@ func Nyquist(n margins.Nyquist, m *margins.Result, set *NyquistSettings) (*Figur
 	if clipped {
 		box = append(box, keyEntry{Text: fmt.Sprintf("the curve reaches |L| = %s, outside this view", formatNumber(extent, 3))})
 	}
-	layer := &textLayer{}
+	layer := &textLayer{Avoid: avoid}
 	noteStyle := th.textStyle(th.FontSizeNote, false, draw.XLeft, draw.YBottom)
-	layer.Boxes = append(layer.Boxes, &cornerBox{Entries: box, Style: noteStyle,
-		Border: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.4)}, Avoid: avoid})
 	layer.Notes = append(layer.Notes, &annotations{Notes: notes, Style: noteStyle,
 		Leader: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.5)}, Avoid: avoid})
 	p.Add(layer)
@@ -241,5 +239,10 @@ func Nyquist(n margins.Nyquist, m *margins.Result, set *NyquistSettings) (*Figur
 		f.Notes = marginNotes(m)
 	}
 	f.square[0] = true
+	f.layers = append(f.layers, layer)
+	// The key stands outside the data, right of the panel, as in every
+	// figure.
+	f.setSideKey(&cornerBox{Entries: box, Style: noteStyle,
+		Border: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.4)}}, size.WidthCm == 0)
 	return f, nil
 }

@@ -2,6 +2,7 @@ package chart
 
 import (
 	"fmt"
+	"image/color"
 	"math"
 	"math/cmplx"
 	"sort"
@@ -38,6 +39,7 @@ type planeSpec struct {
 	crossings   []valuedPoint
 	marked      []complex128
 	markedLabel string
+	also        [][]complex128 // closed-loop poles at further values (alsoGlyph(i))
 	dampings    []float64
 	freqs       []float64
 	autoGrid    bool
@@ -69,6 +71,9 @@ func (s *planeSpec) keyPoints() []complex128 {
 		key = append(key, c.At)
 	}
 	key = append(key, s.marked...)
+	for _, a := range s.also {
+		key = append(key, a...)
+	}
 	if s.hasAsym {
 		key = append(key, complex(s.centroid, 0))
 	}
@@ -132,34 +137,156 @@ func (s *planeSpec) detailWindow(xmin, xmax, ymin, ymax float64) (w Window, ok b
 	return Window{RealMin: x0, RealMax: x1, ImagMin: y0, ImagMax: y1}, true
 }
 
-// figureWithDetail is figure plus, when set.Detail asks for it and a
-// small group of key points exists, a zoomed second panel to the right.
+// crowdFraction: key points closer than this fraction of the larger side
+// of the view are crowded — at the default size about 6 pt apart, so
+// that their marks (8 pt across) overlap and their labels cannot all sit
+// beside them.
+const crowdFraction = 0.015
+
+// crowdWindow returns a window around the largest group of crowded key
+// points (points linked by distances below crowdFraction of the view),
+// padded by half its size, when it is at least four times smaller than
+// the view.
+func (s *planeSpec) crowdWindow(xmin, xmax, ymin, ymax float64) (w Window, ok bool) {
+	key := s.keyPoints()
+	if s.hasAsym && len(key) > 0 {
+		key = key[:len(key)-1] // the centroid (last): a faint dot, no label
+	}
+	if !s.discrete {
+		key, _ = focus(key, s.mustSee)
+	}
+	S := math.Max(xmax-xmin, ymax-ymin)
+	d := crowdFraction * S
+	var pts []complex128
+	for _, z := range key {
+		dup := false
+		for _, q := range pts {
+			if cmplx.Abs(z-q) <= 1e-9*S {
+				dup = true
+				break
+			}
+		}
+		if !dup && real(z) >= xmin && real(z) <= xmax && imag(z) >= ymin && imag(z) <= ymax {
+			pts = append(pts, z)
+		}
+	}
+	// Single-linkage groups (union–find over all pairs; a plane has a few
+	// dozen key points).
+	parent := make([]int, len(pts))
+	for i := range parent {
+		parent[i] = i
+	}
+	root := func(i int) int {
+		for parent[i] != i {
+			parent[i] = parent[parent[i]]
+			i = parent[i]
+		}
+		return i
+	}
+	for i := range pts {
+		for j := i + 1; j < len(pts); j++ {
+			if cmplx.Abs(pts[i]-pts[j]) < d {
+				parent[root(i)] = root(j)
+			}
+		}
+	}
+	groups := map[int][]complex128{}
+	for i, z := range pts {
+		groups[root(i)] = append(groups[root(i)], z)
+	}
+	var best []complex128
+	for _, g := range groups {
+		if len(g) < 2 {
+			continue
+		}
+		if len(g) > len(best) || (len(g) == len(best) && cmplx.Abs(g[0]) < cmplx.Abs(best[0])) {
+			best = g
+		}
+	}
+	if best == nil {
+		return w, false
+	}
+	x0, x1, ya := math.Inf(1), math.Inf(-1), 0.0
+	for _, z := range best {
+		x0, x1 = math.Min(x0, real(z)), math.Max(x1, real(z))
+		ya = math.Max(ya, math.Abs(imag(z)))
+	}
+	span := math.Max(math.Max(x1-x0, 2*ya), 2*d)
+	if !s.discrete && x1 < 0 && -x1 < span {
+		x1 = 0 // the imaginary axis is near: show it
+		span = math.Max(span, x1-x0)
+	}
+	pad := 0.5 * span
+	w = Window{RealMin: x0 - pad, RealMax: x1 + pad, ImagMin: -(ya + pad), ImagMax: ya + pad}
+	if 4*math.Max(w.RealMax-w.RealMin, w.ImagMax-w.ImagMin) > S {
+		return w, false
+	}
+	return w, true
+}
+
+// figureWithDetail is figure plus a zoomed second panel to the right when
+// set.Detail asks for one and a small group of key points lies near the
+// origin, or, unasked, when key points crowd (crowdWindow). The labels of
+// points inside the zoomed region are written in the detail panel only.
 func (s *planeSpec) figureWithDetail(set *PlaneSettings) (*Figure, error) {
-	f, err := s.figure()
-	if err != nil || set == nil || !set.Detail || set.Window != nil {
-		return f, err
+	if set != nil && set.Window != nil {
+		return s.figure()
 	}
 	xmin, xmax, ymin, ymax, _ := s.view()
-	win, ok := s.detailWindow(xmin, xmax, ymin, ymax)
+	var win Window
+	ok := false
+	if set != nil && set.Detail {
+		win, ok = s.detailWindow(xmin, xmax, ymin, ymax)
+	}
 	if !ok {
-		return f, nil
+		win, ok = s.crowdWindow(xmin, xmax, ymin, ymax)
+	}
+	if !ok {
+		return s.figure()
+	}
+	main := *s
+	main.breaks = unlabelledIn(s.breaks, win)
+	main.crossings = unlabelledIn(s.crossings, win)
+	f, err := main.figure()
+	if err != nil {
+		return nil, err
 	}
 	d := *s
 	d.window = &win
 	d.key = nil
 	d.title = "Detail near the origin"
+	if !(win.RealMin < 0 && win.RealMax > 0 && win.ImagMin < 0 && win.ImagMax > 0) {
+		v := "s"
+		if s.discrete {
+			v = "z"
+		}
+		d.title = fmt.Sprintf("Detail near %s = %s", v, formatNumber((win.RealMin+win.RealMax)/2, 3))
+	}
 	df, err := d.figure()
 	if err != nil {
 		return nil, err
 	}
+	f.panelTitles = []string{"Whole view", d.title}
 	f.Panels[0].Add(&outline{W: win, Style: draw.LineStyle{Color: s.th.Axis, Width: vg.Points(0.7), Dashes: []vg.Length{vg.Points(2), vg.Points(2)}}})
 	f.Panels = append(f.Panels, df.Panels[0])
+	f.layers = append(f.layers, df.layers...)
 	f.square[1] = true
 	f.cols = 2
-	if set.WidthCm == 0 {
-		f.WidthCm = 26
+	if s.size.WidthCm == 0 {
+		f.WidthCm += 10
 	}
 	return f, nil
+}
+
+// unlabelledIn returns vs with the labels of the points inside w removed.
+func unlabelledIn(vs []valuedPoint, w Window) []valuedPoint {
+	out := append([]valuedPoint(nil), vs...)
+	for i, v := range out {
+		if real(v.At) >= w.RealMin && real(v.At) <= w.RealMax && imag(v.At) >= w.ImagMin && imag(v.At) <= w.ImagMax {
+			out[i].Label = ""
+		}
+	}
+	return out
 }
 
 // outline draws the boundary of a window of the plane (the region shown
@@ -251,6 +378,18 @@ func (s *planeSpec) figure() (*Figure, error) {
 			avoid.addPoint(real(z), imag(z))
 		}
 	}
+	for i, a := range s.also {
+		if len(a) == 0 {
+			continue
+		}
+		xs, ys := splitComplex(a)
+		m, _ := NewMarks(xs, ys)
+		m.GlyphStyle = alsoGlyph(i)
+		p.Add(m)
+		for _, z := range a {
+			avoid.addPoint(real(z), imag(z))
+		}
+	}
 	if len(s.poles) > 0 {
 		xs, ys, counts := splitRoots(s.poles)
 		m, _ := NewMarks(xs, ys)
@@ -272,12 +411,7 @@ func (s *planeSpec) figure() (*Figure, error) {
 		}
 	}
 
-	layer := &textLayer{}
-	if len(s.key) > 0 {
-		layer.Boxes = append(layer.Boxes, &cornerBox{Entries: s.key,
-			Style:  th.textStyle(th.FontSizeNote, false, draw.XLeft, draw.YBottom),
-			Border: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.4)}, Avoid: avoid})
-	}
+	layer := &textLayer{Avoid: avoid}
 	layer.Notes = append(layer.Notes, &annotations{Notes: notes,
 		Style:  th.textStyle(th.FontSizeNote, false, draw.XLeft, draw.YBottom),
 		Leader: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.5)}, Avoid: avoid}, gridNotes)
@@ -286,6 +420,15 @@ func (s *planeSpec) figure() (*Figure, error) {
 	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = xmin, xmax, ymin, ymax
 	f := newFigure(p, s.size, th)
 	f.square[0] = true
+	f.layers = append(f.layers, layer)
+	if len(s.key) > 0 {
+		// The key goes outside the data, right of the panel: a plane has
+		// no corner that is sure to be empty (branches, the damping grid
+		// and its labels, the shaded region reach every corner).
+		f.setSideKey(&cornerBox{Entries: s.key,
+			Style:  th.textStyle(th.FontSizeNote, false, draw.XLeft, draw.YBottom),
+			Border: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.4)}}, s.size.WidthCm == 0)
+	}
 	return f, nil
 }
 
@@ -314,6 +457,14 @@ func breakGlyph() draw.GlyphStyle {
 
 func crossingGlyph() draw.GlyphStyle {
 	return draw.GlyphStyle{Color: okVermillion, Radius: vg.Points(3.2), Shape: squareGlyph{}}
+}
+
+// alsoGlyph is the mark of the closed-loop poles at the i-th further
+// value: a dot like the marked poles (the same thing at another value),
+// in sky blue, blue, bluish green, reddish purple in turn.
+func alsoGlyph(i int) draw.GlyphStyle {
+	cs := []color.Color{okSkyBlue, okBlue, okBluishGreen, okReddishPurple}
+	return draw.GlyphStyle{Color: cs[i%len(cs)], Radius: vg.Points(3.4), Shape: dotGlyph{}}
 }
 
 func markedGlyph() draw.GlyphStyle {

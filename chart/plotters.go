@@ -185,6 +185,8 @@ func NewMarks(xs, ys []float64) (*Marks, error) {
 	}, nil
 }
 
+var _ plot.Thumbnailer = (*Marks)(nil)
+
 // DataRange implements plot.DataRanger.
 func (m *Marks) DataRange() (xmin, xmax, ymin, ymax float64) { return dataRange(m.X, m.Y) }
 
@@ -201,6 +203,12 @@ func (m *Marks) Plot(dc draw.Canvas, p *plot.Plot) {
 		}
 		dc.DrawGlyphNoClip(m.GlyphStyle, pt)
 	}
+}
+
+// Thumbnail implements plot.Thumbnailer: one glyph in the middle of the
+// legend entry.
+func (m *Marks) Thumbnail(c *draw.Canvas) {
+	c.DrawGlyphNoClip(m.GlyphStyle, c.Center())
 }
 
 // crossGlyph is a diagonal cross (×) with a stroke width of its own, so

@@ -28,14 +28,19 @@ type PlaneSettings struct {
 	// Grid draws a default damping grid (ζ = 0.2, 0.4, 0.6, 0.8 and a few
 	// round natural frequencies in view) when both lists above are empty.
 	Grid bool
-	// HideKey leaves out the box that explains the symbols.
+	// HideKey leaves out the box that explains the symbols. The box is
+	// drawn right of the panels, outside the data; with no WidthCm the
+	// figure is widened by its width.
 	HideKey bool
 	// Detail adds a second panel to the right that zooms on the group of
 	// poles, zeros and break points nearest the origin when that group is
 	// small against the whole view (a fast pole far to the left, say);
 	// the region is outlined in the main panel. Without such a group the
-	// figure has one panel. With Detail and no WidthCm the figure is 26 cm
-	// wide.
+	// figure has one panel. Without Detail the zoomed panel is added all
+	// the same when key points crowd: when marks lie closer than 1.5 % of
+	// the view (about 6 pt) to each other, the panel shows the largest such
+	// group, and the labels of the points in it are written there only.
+	// With a detail panel and no WidthCm the figure is 10 cm wider.
 	Detail bool
 	// Window fixes the visible part of the plane. If nil, the view is
 	// chosen from the points that matter (see the package documentation);

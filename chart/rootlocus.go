@@ -16,6 +16,11 @@ type LocusSettings struct {
 	// Mark, if not nil, marks the closed-loop poles at one value of the
 	// locus variable (the chosen gain) with filled dots.
 	Mark *LocusMark
+	// Also marks the closed-loop poles at further values of the locus
+	// variable (candidates a design compares with Mark), each set as dots
+	// of its own colour, named in the key like Mark. Poles left nil are
+	// read off the branches as for Mark.
+	Also []LocusMark
 	// HideValues leaves out the labels that give the value of the locus
 	// variable at break points and axis crossings (the marks stay).
 	HideValues bool
@@ -40,14 +45,25 @@ func (s *LocusSettings) check() error {
 	if err := s.PlaneSettings.check(); err != nil {
 		return err
 	}
-	if s.Mark != nil {
-		if !finite(s.Mark.Value) {
-			return fmt.Errorf("%w: Mark.Value = %g", ErrNotFinite, s.Mark.Value)
+	check := func(name string, mk LocusMark) error {
+		if !finite(mk.Value) {
+			return fmt.Errorf("%w: %s.Value = %g", ErrNotFinite, name, mk.Value)
 		}
-		for i, z := range s.Mark.Poles {
+		for i, z := range mk.Poles {
 			if !finite(real(z)) || !finite(imag(z)) {
-				return fmt.Errorf("%w: Mark.Poles[%d] = %v", ErrNotFinite, i, z)
+				return fmt.Errorf("%w: %s.Poles[%d] = %v", ErrNotFinite, name, i, z)
 			}
+		}
+		return nil
+	}
+	if s.Mark != nil {
+		if err := check("Mark", *s.Mark); err != nil {
+			return err
+		}
+	}
+	for j, mk := range s.Also {
+		if err := check(fmt.Sprintf("Also[%d]", j), mk); err != nil {
+			return err
 		}
 	}
 	return nil
@@ -165,20 +181,23 @@ func RootLocus(l locus.Locus, set *LocusSettings) (*Figure, error) {
 		spec.marked = append([]complex128(nil), poles...)
 		spec.markedLabel = fmt.Sprintf("closed-loop poles at %s = %s", name, formatNumber(set.Mark.Value, 4))
 	}
+	if set != nil {
+		for _, mk := range set.Also {
+			poles := mk.Poles
+			if poles == nil {
+				poles = polesAt(l.Branches, mk.Value)
+			}
+			spec.also = append(spec.also, append([]complex128(nil), poles...))
+		}
+	}
 
 	if ps == nil || !ps.HideKey {
-		// A parameter locus a(s) + p·b(s) = 0 starts at the roots of a
-		// (the closed-loop poles at p = 0) and ends at the roots of b: they
-		// are not open-loop poles and zeros of the physical loop.
-		poleText, zeroText := "open-loop pole", "open-loop zero"
-		if name != "gain" {
-			poleText = fmt.Sprintf("start: closed-loop pole at %s = 0", name)
-			inf := "∞"
-			if a.Range.Max <= 0 && !a.Range.IsZero() {
-				inf = "−∞" // complementary parameter locus
-			}
-			zeroText = fmt.Sprintf("end: where poles go as %s → %s", name, inf)
-		}
+		// Every locus a(s) + p·b(s) = 0 starts at the roots of a (the
+		// closed-loop poles at p = 0) and ends at the roots of b. For the
+		// gain these are the open-loop poles and zeros; for a parameter
+		// they are not, so one wording names both alike, by what they are
+		// on the locus.
+		poleText, zeroText := startEndWords(name, a.Range)
 		spec.key = append(spec.key, keyEntry{Text: poleText, Glyph: ptr(poleGlyph())})
 		if len(a.Zeros) > 0 {
 			spec.key = append(spec.key, keyEntry{Text: zeroText, Glyph: ptr(zeroGlyph())})
@@ -199,6 +218,11 @@ func RootLocus(l locus.Locus, set *LocusSettings) (*Figure, error) {
 		if len(spec.marked) > 0 {
 			spec.key = append(spec.key, keyEntry{Text: spec.markedLabel, Glyph: ptr(markedGlyph())})
 		}
+		if set != nil {
+			for i, mk := range set.Also {
+				spec.key = append(spec.key, keyEntry{Text: fmt.Sprintf("closed-loop poles at %s = %s", name, formatNumber(mk.Value, 4)), Glyph: ptr(alsoGlyph(i))})
+			}
+		}
 		spec.key = append(spec.key, spec.stableKey())
 		spec.key = append(spec.key, keyEntry{Text: stableWords(name, a.StableIntervals, a.Range)})
 	}
@@ -209,6 +233,19 @@ func RootLocus(l locus.Locus, set *LocusSettings) (*Figure, error) {
 	// Approximations and special situations recorded by the analysis.
 	f.Notes = append(f.Notes, a.Notes...)
 	return f, nil
+}
+
+// startEndWords names the × and ○ of a locus over the variable name: the
+// closed-loop poles at name = 0, where every branch starts, and the points
+// the branches end at as name grows without bound (−∞ for a complementary
+// locus, whose range is negative).
+func startEndWords(name string, rg locus.Range) (start, end string) {
+	inf := "∞"
+	if rg.Max <= 0 && !rg.IsZero() {
+		inf = "−∞"
+	}
+	return fmt.Sprintf("start: closed-loop pole at %s = 0", name),
+		fmt.Sprintf("end: where poles go as %s → %s", name, inf)
 }
 
 // stableWords states the stable values of the variable in words.

@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/loopwise/loopwise/response"
+	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 )
@@ -29,6 +30,13 @@ type StepSettings struct {
 	// zero, the axis ends at 1.5 times the settling time (or the peak and
 	// rise times if later), but not after the last sample.
 	EndTimeSec float64
+	// Between, for a sampled response of a continuous plant under a hold
+	// (a digital controller), is the plant's output between the samples:
+	// response.Simulate of the plant with the held control input, on a
+	// grid finer than the sample period that contains the sample instants.
+	// It is drawn as a line through the samples. If nil, the samples are
+	// drawn alone.
+	Between *response.Response
 }
 
 func (s *StepSettings) check() error {
@@ -40,6 +48,14 @@ func (s *StepSettings) check() error {
 	}
 	if s.EndTimeSec < 0 || !finite(s.EndTimeSec) {
 		return fmt.Errorf("%w: EndTimeSec = %g, want 0 (automatic) or a finite value > 0", ErrSettings, s.EndTimeSec)
+	}
+	if b := s.Between; b != nil {
+		if err := checkXY("Between", b.TimeSec, b.Output); err != nil {
+			return err
+		}
+		if b.SampleTimeSec > 0 {
+			return fmt.Errorf("%w: Between is sampled (T = %g s); it must be the continuous output", ErrSettings, b.SampleTimeSec)
+		}
 	}
 	if l := s.Levels; l != nil {
 		lo, hi, b := levels(l)
@@ -74,7 +90,12 @@ func levels(l *response.MetricSettings) (lo, hi, band float64) {
 // levels, the overshoot at its peak and the settling time, each marked on
 // the curve and written out in words in a corner box. With m nil it draws
 // the response alone (an impulse or ramp response, say). A discrete
-// response is drawn held between samples, with a dot at each sample.
+// response is drawn as what it is, a sequence of samples: a dot at each
+// sample instant on a thin stem from zero (stems are left out beyond 60
+// samples in view). It is not drawn as a held staircase: the output of a
+// continuous plant under a hold is not constant between samples. Where
+// that output is known, StepSettings.Between draws it through the
+// samples.
 //
 // Errors: ErrNoData for an empty response, ErrLength when TimeSec and
 // Output differ in length, ErrNotFinite for a NaN or infinite sample or
@@ -110,14 +131,27 @@ func StepResponse(r response.Response, m *response.Metrics, set *StepSettings) (
 	p := newPanel(th, title, "time (s)", ylab)
 
 	ts, ys := r.TimeSec, r.Output
-	if r.SampleTimeSec > 0 {
-		ts, ys = heldSteps(ts, ys)
+	sampled := r.SampleTimeSec > 0
+	var between *response.Response
+	if set != nil && set.Between != nil && sampled {
+		between = set.Between
+		ts, ys = between.TimeSec, between.Output
 	}
 	tEnd := r.TimeSec[len(r.TimeSec)-1]
 	xmax := tEnd
 	ymin, ymax := math.Min(0, minOf(r.Output)), math.Max(0, maxOf(r.Output))
+	if between != nil {
+		ymin, ymax = math.Min(ymin, minOf(ys)), math.Max(ymax, maxOf(ys))
+	}
 	avoid := &obstacles{}
-	avoid.addCurve(ts, ys)
+	if !sampled || between != nil {
+		avoid.addCurve(ts, ys)
+	}
+	for i := range r.TimeSec {
+		if sampled {
+			avoid.addPoint(r.TimeSec[i], r.Output[i])
+		}
+	}
 	layer := &textLayer{}
 	noteStyle := th.textStyle(th.FontSizeNote, false, draw.XLeft, draw.YBottom)
 	var notes []note
@@ -217,23 +251,44 @@ func StepResponse(r response.Response, m *response.Metrics, set *StepSettings) (
 		}
 	}
 
-	c, err := NewCurve(ts, ys)
-	if err != nil {
-		return nil, err
+	if !sampled || between != nil {
+		c, err := NewCurve(ts, ys)
+		if err != nil {
+			return nil, err
+		}
+		c.Color, c.Width = okBlue, th.LineWidth
+		if between != nil {
+			c.Width = th.LineWidth * 0.7
+		}
+		p.Add(c)
 	}
-	c.Color, c.Width = okBlue, th.LineWidth
-	p.Add(c)
-	if r.SampleTimeSec > 0 && len(r.TimeSec) <= 400 {
+	if sampled {
+		samples := sampleStyle()
+		inView := 0
+		for _, t := range r.TimeSec {
+			if t <= xmax {
+				inView++
+			}
+		}
+		if inView <= maxStems {
+			for i, t := range r.TimeSec {
+				avoid.addCurve([]float64{t, t}, []float64{0, r.Output[i]})
+			}
+			p.Add(&stems{X: append([]float64(nil), r.TimeSec...), Y: append([]float64(nil), r.Output...),
+				LineStyle: draw.LineStyle{Color: alpha(okBlue, 0x90), Width: vg.Points(0.6)}})
+		}
 		dm, _ := NewMarks(r.TimeSec, r.Output)
-		dm.GlyphStyle = draw.GlyphStyle{Color: okBlue, Radius: vg.Points(1.6), Shape: draw.CircleGlyph{}}
+		dm.GlyphStyle = samples
 		p.Add(dm)
-	}
-	if len(key) > 0 {
-		layer.Boxes = append(layer.Boxes, &cornerBox{Entries: key, Style: noteStyle,
-			Border: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.4)}, Avoid: avoid})
+		text := fmt.Sprintf("samples, every %s s", formatNumber(r.SampleTimeSec, 3))
+		key = append([]keyEntry{{Text: text, Glyph: &samples}}, key...)
+		if between != nil {
+			key = append(key[:1], append([]keyEntry{{Text: "output between the samples", Line: &draw.LineStyle{Color: okBlue, Width: th.LineWidth * 0.7}}}, key[1:]...)...)
+		}
 	}
 	layer.Notes = append(layer.Notes, &annotations{Notes: notes, Style: noteStyle,
 		Leader: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.5)}, Avoid: avoid})
+	layer.Avoid = avoid
 	p.Add(layer)
 
 	pad := 0.08 * (ymax - ymin)
@@ -242,21 +297,39 @@ func StepResponse(r response.Response, m *response.Metrics, set *StepSettings) (
 	}
 	p.X.Min, p.X.Max = 0, xmax
 	p.Y.Min, p.Y.Max = ymin-pad, ymax+pad
-	return newFigure(p, size, th), nil
+	f := newFigure(p, size, th)
+	f.layers = append(f.layers, layer)
+	if len(key) > 0 {
+		// Outside the data, right of the panel, as in every figure.
+		f.setSideKey(&cornerBox{Entries: key, Style: noteStyle,
+			Border: draw.LineStyle{Color: th.Guide, Width: vg.Points(0.4)}}, size.WidthCm == 0)
+	}
+	return f, nil
 }
 
-// heldSteps returns the staircase of a sequence held constant between
-// samples.
-func heldSteps(t, y []float64) (ts, ys []float64) {
-	for i := range t {
-		if i > 0 {
-			ts = append(ts, t[i])
-			ys = append(ys, y[i-1])
-		}
-		ts = append(ts, t[i])
-		ys = append(ys, y[i])
+// maxStems is the largest number of samples in view drawn with stems;
+// more would fill the area under the curve.
+const maxStems = 60
+
+// sampleStyle is the mark of a sample of a sequence: a small blue dot.
+func sampleStyle() draw.GlyphStyle {
+	return draw.GlyphStyle{Color: okBlue, Radius: vg.Points(2), Shape: dotGlyph{}}
+}
+
+// stems draws a thin vertical line from zero to each sample, the usual
+// picture of a sequence.
+type stems struct {
+	X, Y      []float64
+	LineStyle draw.LineStyle
+}
+
+func (s *stems) Plot(dc draw.Canvas, p *plot.Plot) {
+	tx, ty := p.Transforms(&dc)
+	for i := range s.X {
+		a := vg.Point{X: tx(s.X[i]), Y: ty(0)}
+		b := vg.Point{X: tx(s.X[i]), Y: ty(s.Y[i])}
+		dc.StrokeLines(s.LineStyle, dc.ClipLinesXY([]vg.Point{a, b})...)
 	}
-	return ts, ys
 }
 
 // interp returns y at x by linear interpolation in the increasing xs.

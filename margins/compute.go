@@ -205,6 +205,7 @@ func checkSettings(set *Settings) (Settings, error) {
 //	no gain crossover: PhaseMarginDeg = NaN, DelayMarginSec = +Inf
 //	closed loop unstable: DelayMarginSec = NaN
 //	pole of L on the imaginary axis: handled by indentation (L = ∞ there)
+//	zero of L on the imaginary axis: L = 0 there, no crossover; allowed with dead time
 func Compute(loop tf.TF, set *Settings) (Result, error) {
 	s, err := checkSettings(set)
 	if err != nil {
@@ -220,11 +221,6 @@ func Compute(loop tf.TF, set *Settings) (Result, error) {
 	if lp.tau > 0 {
 		if err := lp.ensureRoots(); err != nil {
 			return Result{}, err
-		}
-		for _, z := range lp.zeros {
-			if real(z) == 0 {
-				return Result{}, fmt.Errorf("%w: dead time with a zero of L on the imaginary axis at s = %v", ErrUnsupported, z)
-			}
 		}
 	}
 	if err := lp.countOpenLoop(); err != nil {

@@ -31,7 +31,7 @@ func (lp *loop) gainCrossovers() ([]float64, error) {
 	pn := squaredModulus(lp.nr, lp.ni)
 	pd := squaredModulus(lp.dr, lp.di)
 	m := pn.Sub(pd)
-	if m.NormInf() <= 1e-14*math.Max(pn.NormInf(), pd.NormInf()) {
+	if allPass(m, lp) {
 		return nil, fmt.Errorf("%w: |L| = 1 at every frequency (all-pass loop)", ErrDegenerate)
 	}
 	f := func(w float64) (float64, float64) {
@@ -40,7 +40,7 @@ func (lp *loop) gainCrossovers() ([]float64, error) {
 	}
 	var out []float64
 	for _, x := range positiveRoots(m) {
-		w0 := lp.fromAxis(math.Sqrt(x))
+		w0 := lp.fromX(x)
 		w, ok := newton(f, w0, 0, lp.nyquist())
 		if !ok {
 			w = w0
@@ -50,6 +50,47 @@ func (lp *loop) gainCrossovers() ([]float64, error) {
 		}
 	}
 	return sortUnique(out, dedupeRel), nil
+}
+
+// numeratorVanishes reports whether num is zero at the frequency point of ω
+// within the rounding of its coefficients, by the criterion of
+// poly.VanishesAt: |num(x)| ≤ 8·(n+1)·u·Σ|cᵢ|·|x|ⁱ. L is then 0 there, and
+// a point where L = 0 is no phase crossover.
+func (lp *loop) numeratorVanishes(w float64) bool {
+	x := lp.point(w)
+	c := lp.num.Ascending()
+	v, _ := lp.num.EvalWithBound(x)
+	ax, a := cmplx.Abs(x), 0.0
+	for i := len(c) - 1; i >= 0; i-- {
+		a = a*ax + math.Abs(c[i])
+	}
+	return cmplx.Abs(v) <= 8*float64(len(c))*0x1p-53*a
+}
+
+// allPass reports whether m = |an|² − |ad|² vanishes identically within
+// rounding, coefficient by coefficient: |mᵢ| ≤ 8·(n+1)·u·Aᵢ, where Aᵢ is
+// the coefficient of the same squared moduli formed from the absolute
+// values of the coefficients (the size of the terms that cancel), n the
+// degree, u = 2⁻⁵³. Judged per coefficient on the scaled polynomials, a
+// loop whose gain or time scale is extreme (1e20/(s + 1e10)², whose
+// constant terms cancel exactly) is not mistaken for an all-pass one.
+func allPass(m poly.Poly, lp *loop) bool {
+	abs := func(p poly.Poly) poly.Poly {
+		c := p.Ascending()
+		for i := range c {
+			c[i] = math.Abs(c[i])
+		}
+		q, _ := poly.FromAscending(c)
+		return q
+	}
+	a := squaredModulus(abs(lp.nr), abs(lp.ni)).Add(squaredModulus(abs(lp.dr), abs(lp.di)))
+	tol := 8 * float64(a.Degree()+1) * 0x1p-53
+	for i, c := range m.Ascending() {
+		if math.Abs(c) > tol*a.Coef(i) {
+			return false
+		}
+	}
+	return true
 }
 
 // endpointCrossings returns the phase crossovers at ω = 0 (L(0) finite and
@@ -62,12 +103,15 @@ func (lp *loop) endpointCrossings() (low, high *crossing) {
 	// A denominator that vanishes within rounding (a discrete integrator
 	// (z − 1)(z − a) expands to coefficients whose sum is 1e-16, not 0) is
 	// a pole: L is infinite there, not a huge negative number.
-	if !lp.den.VanishesAt(x0) {
+	// Likewise a numerator that vanishes within rounding is a zero: L = 0
+	// is no phase crossover (|L| > 0 is needed; 1/s³ sampled by matched
+	// pole–zero mapping has its zeros at z = −1).
+	if !lp.den.VanishesAt(x0) && !lp.num.VanishesAt(x0) {
 		if l := lp.num.Eval(x0) / lp.den.Eval(x0); l < 0 {
 			low = &crossing{w: 0, k: -1 / l, slope: math.NaN()}
 		}
 	}
-	if lp.discrete() && !lp.den.VanishesAt(-1) {
+	if lp.discrete() && !lp.den.VanishesAt(-1) && !lp.num.VanishesAt(-1) {
 		if l := lp.num.Eval(-1) / lp.den.Eval(-1); l < 0 {
 			high = &crossing{w: lp.nyquist(), k: -1 / l, slope: math.NaN()}
 		}
@@ -90,7 +134,7 @@ func (lp *loop) rationalPhaseCrossovers() ([]crossing, error) {
 	}
 	var out []crossing
 	for _, x := range positiveRoots(j) {
-		if c, ok := lp.polishPhaseCrossing(lp.fromAxis(math.Sqrt(x))); ok {
+		if c, ok := lp.polishPhaseCrossing(lp.fromX(x)); ok {
 			out = append(out, c)
 		}
 	}
@@ -110,7 +154,7 @@ func (lp *loop) polishPhaseCrossing(w0 float64) (crossing, bool) {
 		w = w0
 	}
 	l := lp.value(w)
-	if cmplx.IsInf(l) || cmplx.IsNaN(l) || l == 0 || real(l) >= 0 {
+	if cmplx.IsInf(l) || cmplx.IsNaN(l) || l == 0 || real(l) >= 0 || lp.numeratorVanishes(w) {
 		return crossing{}, false
 	}
 	if v, _ := f(w); math.Abs(v) > 1e-7 {
@@ -155,17 +199,18 @@ func (lp *loop) phaseCriticalPoints() []float64 {
 	j := lp.ni.Mul(lp.dr).Sub(lp.nr.Mul(lp.di))
 	r := lp.nr.Mul(lp.dr).Add(xPoly.Mul(lp.ni.Mul(lp.di)))
 	c := r.Mul(j).Add(xPoly.Mul(r.Mul(j.Derivative()).Sub(j.Mul(r.Derivative()))).Scale(2))
-	c = c.Sub(r.Mul(r).Add(xPoly.Mul(j.Mul(j))).Scale(lp.tau))
+	// In the scaled variable u = ω/σ the condition reads dθ/du = σ·τ.
+	c = c.Sub(r.Mul(r).Add(xPoly.Mul(j.Mul(j))).Scale(lp.sigma * lp.tau))
 	var out []float64
 	for _, x := range positiveRoots(c) {
-		out = append(out, math.Sqrt(x))
+		out = append(out, lp.fromX(x))
 	}
 	return out
 }
 
 // delayPhaseCrossovers returns every phase crossover with 0 < ω ≤ wmax of a
 // continuous-time loop with dead time. The interval is cut at the critical
-// points of the phase and at poles on the imaginary axis; on each piece the
+// points of the phase and at poles and zeros on the imaginary axis; on each piece the
 // phase is monotone, the levels −π + 2πk between its end values are
 // bracketed and each is refined by Brent's method (Brent 1973).
 //
@@ -178,8 +223,10 @@ func (lp *loop) delayPhaseCrossovers(wmax float64) ([]crossing, error) {
 			cuts = append(cuts, w)
 		}
 	}
+	// Poles and zeros on the axis are points where the phase jumps (by −π
+	// and +π each) and |L| is infinite or 0: no crossover lies there.
 	jumps := map[float64]bool{}
-	for _, w := range lp.onAxisFrequencies(false) {
+	for _, w := range lp.onAxisFrequencies(true) {
 		if w < wmax {
 			cuts = append(cuts, w)
 			jumps[w] = true
@@ -227,7 +274,7 @@ func (lp *loop) delayPhaseCrossovers(wmax float64) ([]crossing, error) {
 			}
 			w := brent(h, a, b, fa, fb)
 			l := lp.value(w)
-			if cmplx.IsInf(l) || l == 0 {
+			if cmplx.IsInf(l) || l == 0 || lp.numeratorVanishes(w) {
 				continue
 			}
 			_, d := lp.logValue(w)

@@ -36,7 +36,13 @@ type loop struct {
 	// openUnstable and openIntegrators are set by countOpenLoop.
 	openUnstable, openIntegrators int
 	c0                            float64 // phase of the ratio of leading coefficients of an and ad: 0 or π
-	// axis parts: an(jv) = nr(v²) + j·v·ni(v²), likewise ad.
+	// sigma is the power of two that scales the axis variable, v = sigma·u,
+	// and san, sad are an(sigma·u) and ad(sigma·u) divided by a common
+	// power of two (see axisScaled): the polynomials whose roots give the
+	// crossovers, free of overflow for any gain or time scale.
+	sigma    float64
+	san, sad poly.Poly
+	// axis parts: san(ju) = nr(u²) + j·u·ni(u²), likewise sad.
 	nr, ni, dr, di poly.Poly
 }
 
@@ -79,9 +85,66 @@ func newLoop(g tf.TF) (*loop, error) {
 	if lp.an.Lead()*lp.ad.Lead() < 0 {
 		lp.c0 = math.Pi
 	}
-	lp.nr, lp.ni = axisParts(lp.an)
-	lp.dr, lp.di = axisParts(lp.ad)
+	lp.sigma, lp.san, lp.sad = axisScaled(lp.an, lp.ad)
+	lp.nr, lp.ni = axisParts(lp.san)
+	lp.dr, lp.di = axisParts(lp.sad)
 	return lp, nil
+}
+
+// axisScaled returns sigma = 2^e and an(sigma·u)/2^m, ad(sigma·u)/2^m: the
+// axis polynomials in a scaled variable u = v/sigma, divided by a common
+// power of two so that their largest coefficient is about 1. Scaling by
+// powers of two is exact, so the ratio an/ad and every root are unchanged
+// (up to underflow of negligible terms); it keeps the squared moduli
+// |an|², |ad|² finite for loop gains or time constants near the limits of
+// float64 (1e300/(s+1), 1/(1e308·s+1)), whose crossovers are then found
+// like any other. The exponent e balances the crossover scale: with a
+// relative degree r > 0 it is the frequency where the leading terms have
+// equal size, (|lead an|/|lead ad|)^(1/r); otherwise the geometric mean of
+// the non-zero root moduli of ad (common practice for balancing).
+func axisScaled(an, ad poly.Poly) (sigma float64, san, sad poly.Poly) {
+	lg := func(x float64) float64 { return math.Log2(math.Abs(x)) }
+	est := 0.0
+	if r := ad.Degree() - an.Degree(); r > 0 && !an.IsZero() {
+		est = (lg(an.Lead()) - lg(ad.Lead())) / float64(r)
+	} else {
+		c := ad.Ascending()
+		k := 0
+		for k < len(c) && c[k] == 0 {
+			k++
+		}
+		if n := len(c) - 1; n > k {
+			est = (lg(c[k]) - lg(c[n])) / float64(n-k)
+		}
+	}
+	if math.IsNaN(est) || math.IsInf(est, 0) {
+		est = 0
+	}
+	e := int(math.Round(math.Max(-1000, math.Min(1000, est))))
+	top := math.MinInt
+	for _, p := range []poly.Poly{an, ad} {
+		for i, c := range p.Ascending() {
+			if c != 0 {
+				_, x := math.Frexp(c)
+				top = max(top, x+e*i)
+			}
+		}
+	}
+	scale := func(p poly.Poly) poly.Poly {
+		c := p.Ascending()
+		for i := range c {
+			c[i] = math.Ldexp(c[i], e*i-top)
+		}
+		q, _ := poly.FromAscending(c)
+		return q
+	}
+	return math.Ldexp(1, e), scale(an), scale(ad)
+}
+
+// fromX maps a root x = u² of a polynomial in the scaled axis variable to
+// the frequency in rad/s.
+func (lp *loop) fromX(x float64) float64 {
+	return lp.fromAxis(lp.sigma * math.Sqrt(x))
 }
 
 // axisSnapTol: a root r with |Re r| ≤ axisSnapTol·|r| is taken to lie on
@@ -225,42 +288,87 @@ func (lp *loop) logValue(w float64) (val, der complex128) {
 	return val, der
 }
 
-// rootAngle returns the continuous branch of arg(jv − r) for v ≥ 0:
-// in (−π/2, π/2) for Re r < 0, in (π/2, 3π/2) for Re r > 0, and ±π/2 for
-// roots on the imaginary axis (a jump of π where v passes Im r; at v = Im r
-// the value after the jump is returned).
-func rootAngle(v float64, r complex128) float64 {
+// factorAngle returns the continuous phase, in radians, of the normalised
+// factor 1 − jv/r of a non-zero root r, for v ≥ 0 (v = +Inf gives the
+// limit). It is 0 at v = 0 and continuous: with r = a + jb,
+//
+//	1 − jv/r = (|r|² − v·b − j·v·a)/|r|²,
+//
+// whose imaginary part keeps the sign of −a for v > 0, so the principal
+// value atan2(−v·a, |r|² − v·b) lies in (0, π) for a < 0 and in (−π, 0) for
+// a > 0 and never wraps. A root on the imaginary axis (a = 0, b > 0) gives
+// a jump of +π where v passes b (the value after the jump is returned at
+// v = b); with b < 0 the factor stays positive for v ≥ 0.
+func factorAngle(v float64, r complex128) float64 {
 	a, b := real(r), imag(r)
 	if a == 0 {
-		if v >= b {
-			return math.Pi / 2
+		if b > 0 && v >= b {
+			return math.Pi
 		}
-		return -math.Pi / 2
+		return 0
 	}
-	t := math.Atan2(v-b, -a)
-	if a > 0 && t < 0 {
-		t += 2 * math.Pi
+	if math.IsInf(v, 1) {
+		return math.Atan2(-a, -b)
 	}
-	return t
+	m := cmplx.Abs(r)
+	// Both parts divided by |r| > 0, which avoids overflow of |r|².
+	return math.Atan2(-v*(a/m), m-v*(b/m))
+}
+
+// lowFrequencyPhase returns the phase of L as ω → 0⁺, in radians: the angle
+// of its low-frequency asymptote K0·(jv)^(z₀−p₀), z₀ and p₀ the numbers of
+// zeros and poles at the origin, K0 = c·Π(−zᵢ)/Π(−pⱼ) over the non-zero
+// roots (c the ratio of the leading coefficients) a real number whose
+// angle, 0 or π, is taken as its principal value in (−π, π]. The result is
+// arg K0 + (z₀ − p₀)·π/2: −90° per integrator, +90° per differentiator,
+// 180° for a negative low-frequency gain.
+func (lp *loop) lowFrequencyPhase() float64 {
+	k0, orders := lp.c0, 0
+	for _, z := range lp.zeros {
+		if z == 0 {
+			orders++
+		} else {
+			k0 += cmplx.Phase(-z)
+		}
+	}
+	for _, p := range lp.poles {
+		if p == 0 {
+			orders--
+		} else {
+			k0 -= cmplx.Phase(-p)
+		}
+	}
+	// K0 is real: its angle is a multiple of π up to the rounding of the
+	// roots; take the principal value 0 or π.
+	k0 = math.Abs(math.Remainder(math.Pi*math.Round(k0/math.Pi), 2*math.Pi))
+	return k0 + float64(orders)*math.Pi/2
 }
 
 // sumPhase returns the continuous phase of the rational part, in radians,
-// from the roots of an and ad: c0 + Σ arg(jv − zᵢ) − Σ arg(jv − pⱼ). It is
-// exact up to the accuracy of the roots and serves to choose the branch of
-// the accurately evaluated phase.
+// accumulated factor by factor from the roots of an and ad:
+//
+//	ψ(v) = ψ(0⁺) + Σ ∠(1 − jv/zᵢ) − Σ ∠(1 − jv/pⱼ)
+//
+// over the non-zero roots, ψ(0⁺) the low-frequency phase (see
+// lowFrequencyPhase) and each factor angle continuous from 0 (see
+// factorAngle). It therefore starts at the true low-frequency angle
+// whatever the roots (a pair of right-half-plane zeros contributes 0 at
+// v = 0, not 2π), and it is exact up to the accuracy of the roots; it
+// serves to choose the branch of the accurately evaluated phase.
 func (lp *loop) sumPhase(v float64) float64 {
 	if err := lp.ensureRoots(); err != nil {
 		return math.NaN()
 	}
-	if math.IsInf(v, 1) {
-		return lp.c0 + float64(len(lp.zeros)-len(lp.poles))*math.Pi/2
-	}
-	p := lp.c0
+	p := lp.lowFrequencyPhase()
 	for _, z := range lp.zeros {
-		p += rootAngle(v, z)
+		if z != 0 {
+			p += factorAngle(v, z)
+		}
 	}
 	for _, q := range lp.poles {
-		p -= rootAngle(v, q)
+		if q != 0 {
+			p -= factorAngle(v, q)
+		}
 	}
 	return p
 }

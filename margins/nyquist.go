@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"slices"
 )
 
 // encirclementCount returns the number Z of closed-loop poles in the right
@@ -45,7 +46,10 @@ func (lp *loop) encirclementCount(gains []float64, cross func(wmax float64) ([]c
 	}
 	// G at ω = 0⁺.
 	argG0 := 0.0
-	if r0 == 0 {
+	if r0 == 0 && lp.num.VanishesAt(0) {
+		// L(0⁺) → 0 (a zero at the origin): G ≈ 1/L, Arg G = −ψ(0⁺).
+		argG0 = principalAngle(-lp.sumPhase(0))
+	} else if r0 == 0 {
 		l0 := lp.value(0)
 		g0 := 1 + 1/l0
 		argG0 = cmplx.Phase(g0)
@@ -77,6 +81,7 @@ func (lp *loop) encirclementCount(gains []float64, cross func(wmax float64) ([]c
 			}
 		}
 	}
+	delta -= lp.zeroPassages(we)
 	linf := lp.limitAtInfinity()
 	if cmplx.Abs(linf) > 1 && lp.tau == 0 {
 		// |L| > 1 beyond ω_e: G stays in the right half plane up to ω = ∞.
@@ -90,6 +95,50 @@ func (lp *loop) encirclementCount(gains []float64, cross func(wmax float64) ([]c
 		return 0, p, fmt.Errorf("%w: the Nyquist count %.9g is not a whole non-negative number", ErrEncirclements, zf)
 	}
 	return int(zi), p, nil
+}
+
+// zeroPassages returns the sum of the jumps, in radians, of
+// A(ω) = ψ(ω) + Arg G(ω) where L passes through 0 at a zero on the
+// imaginary axis at ω = b, 0 < b < we. There F = 1 + L → 1 is continuous
+// while ψ jumps by m·π (m the multiplicity) and G ≈ 1/L turns with it, so
+// A jumps by m·π + Arg e^(−j(ψ(b⁻)+mπ)) − Arg e^(−jψ(b⁻)), 0 or 2π, which
+// is taken out of Δ like the branch-cut passages of G at phase crossovers.
+func (lp *loop) zeroPassages(we float64) float64 {
+	if lp.ensureRoots() != nil {
+		return 0
+	}
+	var bs []float64
+	for _, z := range lp.zeros {
+		if real(z) == 0 && imag(z) > 0 {
+			bs = append(bs, imag(z))
+		}
+	}
+	slices.Sort(bs)
+	sum := 0.0
+	for i := 0; i < len(bs); {
+		m := 1
+		for i+m < len(bs) && bs[i+m]-bs[i] <= dedupeRel*bs[i] {
+			m++
+		}
+		b := lp.fromAxis(bs[i])
+		i += m
+		if b >= we {
+			continue
+		}
+		jump := float64(m) * math.Pi
+		before := lp.sumPhase(bs[i-m]) - b*lp.tau - jump
+		sum += jump + principalAngle(-before-jump) - principalAngle(-before)
+	}
+	return sum
+}
+
+// principalAngle maps an angle in radians to (−π, π].
+func principalAngle(a float64) float64 {
+	a = math.Remainder(a, 2*math.Pi)
+	if a <= -math.Pi {
+		a += 2 * math.Pi
+	}
+	return a
 }
 
 // limitAtInfinity returns L(∞) of the rational part (0 for strictly proper

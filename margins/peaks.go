@@ -25,7 +25,7 @@ func (lp *loop) sensitivities(w float64) (s, t float64) {
 // the earlier by a relative 1e-13 to replace it, so a maximum at ω = 0 or
 // at a finite ω is preferred to an equal limit).
 func (lp *loop) rationalPeak(complementary bool) (peak, freq float64) {
-	cr, ci := axisParts(lp.ad.Add(lp.an))
+	cr, ci := axisParts(lp.sad.Add(lp.san))
 	q := squaredModulus(cr, ci)
 	p := squaredModulus(lp.dr, lp.di)
 	if complementary {
@@ -53,7 +53,7 @@ func (lp *loop) rationalPeak(complementary bool) (peak, freq float64) {
 	}
 	dd := p.Derivative().Mul(q).Sub(p.Mul(q.Derivative()))
 	for _, x := range positiveRoots(dd) {
-		w := lp.fromAxis(math.Sqrt(x))
+		w := lp.fromX(x)
 		consider(w, val(w))
 	}
 	// ω → ∞ (continuous) or ω = π/T (discrete).
@@ -69,7 +69,7 @@ func (lp *loop) rationalPeak(complementary bool) (peak, freq float64) {
 // smallest positive root of 2·|an|² − T(0)²·|ad + an|² (a polynomial in
 // x = v²), polished by Newton's method on ln|T|.
 func (lp *loop) rationalBandwidth() float64 {
-	cr, ci := axisParts(lp.ad.Add(lp.an))
+	cr, ci := axisParts(lp.sad.Add(lp.san))
 	q := squaredModulus(cr, ci)
 	p := squaredModulus(lp.nr, lp.ni)
 	if q.Coef(0) == 0 || p.Coef(0) == 0 {
@@ -85,7 +85,7 @@ func (lp *loop) rationalBandwidth() float64 {
 		return math.Log(cmplx.Abs(t)) - target, real(dlnT)
 	}
 	for _, x := range positiveRoots(p.Scale(2).Sub(q.Scale(t0sq))) {
-		w0 := lp.fromAxis(math.Sqrt(x))
+		w0 := lp.fromX(x)
 		w, ok := newton(f, w0, 0, lp.nyquist())
 		if !ok {
 			w = w0

@@ -59,6 +59,12 @@
 // decay rate), step min(horizon/400, 0.1/max|p|), at most 20000 intervals;
 // both overridable in Settings. Metrics do not depend on the grid.
 //
+// Speed: StepMetrics costs 1.4–2.8 Step calls on the automatic grid at
+// orders 2–24 (testdata/benchmarks.md): between samples the state is
+// carried by cached scaling-and-squaring pieces of the step's exponential
+// and resolved by quintic Hermite interpolation (between.go), not by a
+// matrix exponential per trial point.
+//
 // # Invariants
 //
 // Inputs are never modified; results own their slices. All functions are
@@ -74,6 +80,9 @@
 //     mat.Exp).
 //   - R. P. Brent, Algorithms for Minimization without Derivatives, 1973,
 //     ch. 4 (root finding of the metric times).
+//   - C. Moler and C. Van Loan, "Nineteen dubious ways to compute the
+//     exponential of a matrix, twenty-five years later", SIAM Review
+//     45(1), 3–49, 2003 (scaling and squaring pieces).
 //   - G. F. Franklin, J. D. Powell and M. L. Workman, Digital Control of
 //     Dynamic Systems, 3rd ed., 1998 (triangle hold; discrete error
 //     constants), from memory.

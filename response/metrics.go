@@ -3,11 +3,8 @@ package response
 import (
 	"fmt"
 	"math"
-	"sort"
 
-	"github.com/loopwise/loopwise/internal/rootfind"
 	"github.com/loopwise/loopwise/tf"
-	"gonum.org/v1/gonum/mat"
 )
 
 // MetricSettings sets the levels of StepMetrics. A nil *MetricSettings
@@ -70,9 +67,18 @@ const (
 	// carry relative errors of about 1e-13 at order 24) and is reported as
 	// none.
 	existTol = 1e-10
-	// maxHorizonGrowth bounds the horizon extensions (×4 each) when the
-	// response has not settled within the automatic horizon.
+	// maxHorizonGrowth bounds the horizon when the response has not
+	// settled within the automatic one: at most 4^(maxHorizonGrowth−1)
+	// times it (the discrete rule grows ×4 up to maxHorizonGrowth times).
 	maxHorizonGrowth = 8
+	// maxExtendedSamples bounds the grid of a continuous response extended
+	// with its first step (8 MB of states per unit of order … 24 at most
+	// 15 MB); a longer horizon gets a new, coarser automatic grid.
+	maxExtendedSamples = 4 * maxAutoSamples
+	// pairDecays: time constants after which a complex pair's mode
+	// (e^(−25) ≈ 1.4e-11 of its start, below existTol for residues up to
+	// order one) no longer needs to be covered for its extrema.
+	pairDecays = 25
 )
 
 func (set *MetricSettings) resolve() (lo, hi, band float64, err error) {
@@ -105,16 +111,21 @@ func (set *MetricSettings) resolve() (lo, hi, band float64, err error) {
 // with the definitions of the Conventions section of the package doc.
 //
 // Continuous time: every time is located by root finding (Brent 1973) on
-// the exact continuous response between samples, y(t) = C·x(t) + D with
-// x(t_k + τ) = Φ(τ)·x(t_k) + Γ(τ) from the block matrix exponential
-// (Van Loan 1978), to a relative accuracy of about 1e-13 — independent of
-// the sample spacing. The samples (spacing of the automatic rule, see
-// Settings) only bracket the events: each sign change of y′ between two
-// samples is an extremum located exactly, and between consecutive samples
-// and extrema the response is monotone. A dead time adds exactly to every
-// time. The horizon grows (×4, up to 8 times) until the last exit from the
-// band lies in the first half and the output at the end is within
-// band/100 of the final value.
+// the exact continuous response between samples, to a relative accuracy of
+// about 1e-13 — independent of the sample spacing. The samples (spacing of
+// the automatic rule, see Settings) only bracket the events: each sign
+// change of y′ between two samples is an extremum located exactly, and
+// between consecutive samples and extrema the response is monotone. Inside
+// a sample interval the state is carried along a dyadic lattice by cached
+// scaling-and-squaring pieces of the step's matrix exponential, and the
+// last lattice cell is resolved by quintic Hermite interpolation of y, y′,
+// y″, which is exact to rounding there (the method and its error bound are
+// in between.go); a call costs about 1.5–3 Step calls on the same grid. A
+// dead time adds exactly to every time. The horizon covers 1.5 half
+// periods of every complex pole pair (until e^(−25) of its mode is left)
+// and is extended, with the same step, until the last exit from the band
+// lies in the first half and the output at the end is within band/100 of
+// the final value.
 //
 // Discrete time: the metrics are those of the output held constant
 // between samples (piecewise constant, as a zero-order hold would show
@@ -164,7 +175,8 @@ func StepMetrics(sys tf.TF, set *MetricSettings) (Metrics, error) {
 		if s.discrete {
 			return b.t
 		}
-		return ev.solve(a.t, b.t, func(t float64) float64 { y, _ := ev.eval(t); return y/final - level })
+		t, _ := ev.locate(a.t, b.t, 0, level*final)
+		return t
 	}
 	first := func(level float64) float64 {
 		for i, p := range pts {
@@ -272,110 +284,76 @@ func (s *system) discretePoints(final, band float64) ([]point, error) {
 	return nil, fmt.Errorf("%w: %v within %d samples", ErrNotSettled, s.sys, tried)
 }
 
-// evaluator gives the exact continuous step response from rest between
-// stored samples.
-type evaluator struct {
-	s      *system
-	h      float64
-	states []float64 // (N+1)·n, row k = x(k·h)
-	ca     []float64 // C·A
-	cb     float64   // C·B
-}
-
-// eval returns y(t) and y′(t) (t ≥ 0, no dead time) of the unit-step
-// response, exact up to rounding.
-func (ev *evaluator) eval(t float64) (y, dy float64) {
-	n := ev.s.n
-	m := ev.s.m
-	N := len(ev.states)/n - 1
-	k := int(math.Floor(t / ev.h))
-	k = min(max(k, 0), N)
-	tau := t - float64(k)*ev.h
-	xk := ev.states[k*n : k*n+n]
-	x := make([]float64, n)
-	if tau == 0 {
-		copy(x, xk)
-	} else {
-		phi, g, err := m.ZeroOrderHold(tau)
-		if err != nil {
-			return math.NaN(), math.NaN()
-		}
-		var xv mat.VecDense
-		xv.MulVec(phi, mat.NewVecDense(n, append([]float64(nil), xk...)))
-		for i := range x {
-			x[i] = xv.AtVec(i) + g[i]
-		}
-	}
-	return dot(m.C, x) + m.D, dot(ev.ca, x) + ev.cb
-}
-
-// solve returns the root of f in [a, b], where f(a) and f(b) differ in
-// sign (or one is zero), by Brent's method (R. P. Brent, Algorithms for
-// Minimization without Derivatives, 1973, ch. 4), to about 4 ulps of t.
-func (ev *evaluator) solve(a, b float64, f func(float64) float64) float64 {
-	return rootfind.Brent(f, a, b, f(a), f(b), 4*0x1p-52)
-}
-
 // continuousPoints samples the step response from rest (no dead time) on
-// the automatic grid, locates every extremum between samples, and grows
-// the horizon until the response has settled.
+// the automatic grid, locates every extremum between samples, and extends
+// the horizon until the response has settled: with the same step, by what
+// the slowest decay rate says is missing (at least a quarter more each
+// time), up to 4^(maxHorizonGrowth−1) times the automatic horizon; past
+// maxExtendedSamples samples the grid is rebuilt with the automatic step of
+// the longer horizon.
 func (s *system) continuousPoints(final, band float64) (*evaluator, []point, error) {
 	if s.n == 0 {
 		// Static gain: y = D from t = 0 on.
 		return nil, []point{{0, s.m.D / final}, {1, s.m.D / final}}, nil
 	}
-	n := s.n
-	m := s.m
 	H := s.autoHorizon() - s.delay
-	ca := make([]float64, n)
-	for j := 0; j < n; j++ {
-		for i := 0; i < n; i++ {
-			ca[j] += m.C[i] * m.A.At(i, j)
+	maxH := H * math.Pow(4, maxHorizonGrowth-1)
+	sigma := math.Inf(1)
+	for _, p := range s.poles {
+		sigma = math.Min(sigma, -real(p))
+		// A well-damped pair peaks late (ζ = 0.99: at π/ω_d ≈ 2.2/σ·…):
+		// cover 1.5 half periods of it, or until e^(−25) of it is left.
+		if w := math.Abs(imag(p)); w > 0 {
+			H = math.Max(H, math.Min(1.5*math.Pi/w, pairDecays/-real(p)))
 		}
 	}
-	cb := dot(m.C, m.B)
-	for range maxHorizonGrowth {
+	H = math.Min(H, maxH)
+	for {
 		h := s.autoStep(H)
-		N := int(math.Ceil(H/h - 1e-9))
-		phiD, g, err := m.ZeroOrderHold(h)
+		ev, err := s.newEvaluator(h)
 		if err != nil {
 			return nil, nil, err
 		}
-		phi := flat(phiD)
-		states := make([]float64, (N+1)*n)
-		for k := 0; k < N; k++ {
-			advance(phi, states[k*n:k*n+n], states[(k+1)*n:(k+2)*n], g, 1, nil, 0, m.C)
-		}
-		ev := &evaluator{s: s, h: h, states: states, ca: ca, cb: cb}
-		ys := make([]float64, N+1)
-		ds := make([]float64, N+1)
-		for k := 0; k <= N; k++ {
-			x := states[k*n : k*n+n]
-			ys[k] = dot(m.C, x) + m.D
-			ds[k] = dot(ca, x) + cb
-		}
-		pts := make([]point, 0, N+16)
-		last := -1
-		for k := 0; k <= N; k++ {
-			pts = append(pts, point{float64(k) * h, ys[k] / final})
-			if k < N && ds[k]*ds[k+1] < 0 {
-				t := ev.solve(float64(k)*h, float64(k+1)*h, func(t float64) float64 { _, d := ev.eval(t); return d })
-				y, _ := ev.eval(t)
-				pts = append(pts, point{t, y / final})
+		N := int(math.Ceil(H/h - 1e-9))
+		pts := []point{{0, ev.ys[0] / final}}
+		for {
+			done := len(ev.ys) - 1
+			ev.extend(N)
+			for k := done; k < N; k++ {
+				if ev.ds[k]*ev.ds[k+1] < 0 {
+					t, y := ev.locate(float64(k)*h, float64(k+1)*h, 1, 0)
+					pts = append(pts, point{t, y / final})
+				}
+				pts = append(pts, point{float64(k+1) * h, ev.ys[k+1] / final})
+			}
+			end := float64(N) * h
+			last := -1
+			for i, p := range pts {
+				if math.Abs(p.r-1) > band {
+					last = i
+				}
+			}
+			dev := math.Abs(pts[len(pts)-1].r - 1)
+			if (last < 0 || pts[last].t < end/2) && dev < band/100 {
+				return ev, pts, nil
+			}
+			need := 1.25 * end
+			if last >= 0 {
+				need = math.Max(need, 2.01*pts[last].t)
+			}
+			if dev >= band/100 && sigma > 0 {
+				need = math.Max(need, end+math.Log(100*dev/band)/sigma)
+			}
+			if need > maxH*(1+1e-12) {
+				return nil, nil, fmt.Errorf("%w: %v within %v s", ErrNotSettled, s.sys, end)
+			}
+			H = need
+			N = int(math.Ceil(H/h - 1e-9))
+			if N > maxExtendedSamples {
+				break // rebuild the grid for the longer horizon
 			}
 		}
-		sort.SliceStable(pts, func(i, j int) bool { return pts[i].t < pts[j].t })
-		for i, p := range pts {
-			if math.Abs(p.r-1) > band {
-				last = i
-			}
-		}
-		if (last < 0 || pts[last].t < H/2) && math.Abs(pts[len(pts)-1].r-1) < band/100 {
-			return ev, pts, nil
-		}
-		H *= 4
 	}
-	return nil, nil, fmt.Errorf("%w: %v within %v s", ErrNotSettled, s.sys, H/4)
 }
 
 // String formats the metrics in words, for logs and reports.

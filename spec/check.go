@@ -337,7 +337,7 @@ func (e *evaluator) evaluate(res *Result) {
 		}
 		if !m.ClosedLoopStable {
 			res.Pass = false
-			res.Message = fmt.Sprintf("The closed loop is unstable, so the %s of %s is no safety margin and the requirement (%s) is not met.", info.what, withUnit(res.Value, info.unit), res.Requirement)
+			res.Message = fmt.Sprintf("The closed loop is unstable, so it has no %s (a margin measures the distance from instability of a stable loop) and the requirement (%s) is not met.", info.what, res.Requirement)
 			return
 		}
 		if math.IsNaN(res.Value) {

@@ -97,11 +97,14 @@ func MaxSteadyStateError(e float64) Requirement { return Requirement{steadyState
 // "min_phase_margin_deg", "min_gain_margin_db", "min_delay_margin_sec",
 // "max_peak_sensitivity", "min_damping_ratio", "max_overshoot_pct",
 // "max_rise_time_sec", "max_settling_time_sec", "max_steady_state_error".
-// It returns ErrInvalidRequirement for an unknown key.
+// It returns ErrInvalidRequirement for an unknown key and for a limit the
+// quantity cannot have (a negative overshoot, a phase margin outside
+// [0°, 180°], a non-finite number, ...).
 func ByKey(key string, limit float64) (Requirement, error) {
 	for q := phaseMargin; q <= steadyStateError; q++ {
 		if quantities[q].key == key {
-			return Requirement{q, limit}, nil
+			r := Requirement{q, limit}
+			return r, r.valid()
 		}
 	}
 	return Requirement{}, fmt.Errorf("%w: unknown key %q", ErrInvalidRequirement, key)
@@ -167,7 +170,40 @@ func (r Requirement) valid() error {
 	if math.IsNaN(r.limit) || math.IsInf(r.limit, 0) {
 		return fmt.Errorf("%w: %s has the limit %v; a limit must be a finite number", ErrInvalidRequirement, r.Name(), r.limit)
 	}
+	if lo, hi, open, words := limitRange(r.q); r.limit < lo || r.limit > hi || (open && r.limit == lo) {
+		return fmt.Errorf("%w: %s has the limit %s; %s", ErrInvalidRequirement, r.Name(), num(r.limit), words)
+	}
 	return nil
+}
+
+// limitRange returns the limits a requirement on q can meaningfully have:
+// [lo, hi], or (lo, hi] when open, and the range in words. The ranges are
+// those of the quantities themselves: a phase margin lies in (−180°, 180°]
+// and is a safety margin only when positive; a gain or delay margin, an
+// overshoot, a peak sensitivity, a time and a steady-state error are never
+// negative; the damping ratio of a stable pole lies in (0, 1].
+func limitRange(q quantity) (lo, hi float64, open bool, words string) {
+	switch q {
+	case phaseMargin:
+		return 0, 180, false, "a minimum phase margin lies between 0° and 180°"
+	case gainMargin:
+		return 0, math.MaxFloat64, false, "a minimum gain margin is 0 dB or more"
+	case delayMargin:
+		return 0, math.MaxFloat64, false, "a minimum delay margin is 0 s or more"
+	case peakSensitivity:
+		return 0, math.MaxFloat64, false, "a maximum peak sensitivity is a ratio of 0 or more (not dB)"
+	case dampingRatio:
+		return 0, 1, false, "a minimum damping ratio lies between 0 and 1"
+	case overshoot:
+		return 0, math.MaxFloat64, false, "a maximum overshoot is 0 % or more"
+	case riseTime:
+		return 0, math.MaxFloat64, false, "a maximum rise time is 0 s or more"
+	case settlingTime:
+		return 0, math.MaxFloat64, false, "a maximum settling time is 0 s or more"
+	case steadyStateError:
+		return 0, math.MaxFloat64, false, "a maximum steady-state error is 0 or more (a fraction of the step)"
+	}
+	return math.Inf(-1), math.Inf(1), false, ""
 }
 
 // num formats x with 4 significant digits for messages.

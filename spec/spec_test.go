@@ -211,8 +211,8 @@ func TestKeysRoundTrip(t *testing.T) {
 		t.Fatalf("%d keys", len(keys))
 	}
 	for _, k := range keys {
-		r, err := spec.ByKey(k, 1.5)
-		if err != nil || r.Key() != k || r.Limit() != 1.5 {
+		r, err := spec.ByKey(k, 0.5)
+		if err != nil || r.Key() != k || r.Limit() != 0.5 {
 			t.Errorf("ByKey(%q): %v %v", k, r, err)
 		}
 		if strings.HasPrefix(k, "min_") != strings.HasPrefix(r.Name(), "minimum ") {
@@ -333,5 +333,34 @@ func TestUnits(t *testing.T) {
 		if got := test.req.Unit(); got != test.want {
 			t.Errorf("%s: unit %q, want %q", test.req.Name(), got, test.want)
 		}
+	}
+}
+
+// TestLimitsOutsideTheQuantity checks that ByKey rejects limits the
+// quantity cannot have (issue 11, item 13): a negative overshoot, a phase
+// margin of −1e308°, a damping ratio above 1 (ζ ≤ 1 for every pole).
+func TestLimitsOutsideTheQuantity(t *testing.T) {
+	for _, test := range []struct {
+		key   string
+		limit float64
+	}{
+		{"max_overshoot_pct", -5},
+		{"min_phase_margin_deg", -1e308},
+		{"min_phase_margin_deg", 181},
+		{"min_gain_margin_db", -1},
+		{"min_delay_margin_sec", -0.1},
+		{"max_peak_sensitivity", -2},
+		{"min_damping_ratio", 1.5},
+		{"max_rise_time_sec", -1},
+		{"max_settling_time_sec", -1},
+		{"max_steady_state_error", -0.01},
+	} {
+		_, err := spec.ByKey(test.key, test.limit)
+		if !errors.Is(err, spec.ErrInvalidRequirement) {
+			t.Errorf("ByKey(%q, %g): err = %v, want ErrInvalidRequirement", test.key, test.limit, err)
+		}
+	}
+	if rep := spec.Check(secondOrder, spec.Requirements{spec.MaxOvershootPct(-5)}); !errors.Is(rep.Results[0].Err, spec.ErrInvalidRequirement) {
+		t.Errorf("Check of max overshoot −5 %%: %+v", rep.Results[0])
 	}
 }

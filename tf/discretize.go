@@ -72,10 +72,18 @@ func ParseDiscretizeMethod(text string) (DiscretizeMethod, error) {
 type DiscretizeSettings struct {
 	// PrewarpRadPerSec is the frequency ω₀ in rad/s at which the Tustin
 	// result matches G exactly: G_d(e^{jω₀T}) = G(jω₀). Valid range
-	// 0 < ω₀ < π/T; only for the Tustin method. If zero, no pre-warping
+	// 0 < ω₀ < π/T·(1 − 1.5e-8); only for the Tustin method. If zero, no pre-warping
 	// (c = 2/T).
 	PrewarpRadPerSec float64
 }
+
+// prewarpGuard is how far, relative to π/T, a pre-warping frequency must
+// stay below π/T. The factor ω₀/tan(ω₀T/2) goes to zero there, and tan
+// near π/2 amplifies the relative rounding of its argument by about
+// 1/(π/2 − ω₀T/2); keeping ω₀T/2 below π/2 by √eps ≈ 1.5e-8 relative keeps
+// at least half the digits of the factor. π/T itself rounded to 15 or 16
+// digits (a degenerate frequency that passes the strict test) is refused.
+const prewarpGuard = 0x1p-26
 
 // delayTol is the relative tolerance within which a dead time counts as a
 // whole number of sample periods: |τ/T − k| ≤ delayTol·max(1, τ/T). It
@@ -179,8 +187,8 @@ func (g TF) Discretize(sampleTimeSec float64, method DiscretizeMethod, set *Disc
 		if math.IsNaN(w0) || math.IsInf(w0, 0) {
 			return TF{}, fmt.Errorf("%w: pre-warping frequency %v", ErrNotFinite, w0)
 		}
-		if w0 < 0 || w0*T >= math.Pi {
-			return TF{}, fmt.Errorf("%w: pre-warping frequency %v rad/s must lie in (0, π/T) = (0, %v) rad/s", ErrFrequency, w0, math.Pi/T)
+		if w0 < 0 || w0*T >= math.Pi*(1-prewarpGuard) {
+			return TF{}, fmt.Errorf("%w: pre-warping frequency %v rad/s must lie in (0, π/T) = (0, %v) rad/s, below π/T by more than a relative %.1g (the pre-warping factor ω₀/tan(ω₀T/2) vanishes at π/T)", ErrFrequency, w0, math.Pi/T, prewarpGuard)
 		}
 	}
 	// Whole sample periods of dead time, and the fractional remainder θ.

@@ -523,6 +523,9 @@ func TestDiscretizeErrors(t *testing.T) {
 		{"prewarp with ZOH", g, 0.1, ZeroOrderHold, &DiscretizeSettings{PrewarpRadPerSec: 1}, ErrMethod},
 		{"prewarp above Nyquist", g, 0.1, Tustin, &DiscretizeSettings{PrewarpRadPerSec: 40}, ErrFrequency},
 		{"negative prewarp", g, 0.1, Tustin, &DiscretizeSettings{PrewarpRadPerSec: -1}, ErrFrequency},
+		// π/T = 31.41592653589793… for T = 0.1, written to 15 digits: it
+		// passes ω₀ < π/T, but tan(ω₀T/2) ≈ 6e14 (issue 11, item 13).
+		{"prewarp π/T to 15 digits", g, 0.1, Tustin, &DiscretizeSettings{PrewarpRadPerSec: 31.4159265358979}, ErrFrequency},
 		{"NaN prewarp", g, 0.1, Tustin, &DiscretizeSettings{PrewarpRadPerSec: math.NaN()}, ErrNotFinite},
 		{"improper ZOH", improper, 0.1, ZeroOrderHold, nil, ErrImproper},
 		{"improper FOH", improper, 0.1, FirstOrderHold, nil, ErrImproper},

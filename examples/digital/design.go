@@ -182,7 +182,7 @@ func (c comparison) print(w io.Writer) error {
 		}
 		p.F("\n")
 	}
-	row("phase margin", func(v variant) string { return fmt.Sprintf("%.1f deg", v.Margins.PhaseMarginDeg) })
+	row("phase margin", func(v variant) string { return fmt.Sprintf("%.1f°", v.Margins.PhaseMarginDeg) })
 	row("gain crossover", func(v variant) string { return fmt.Sprintf("%.4g rad/s", v.Margins.GainCrossoverRadPerSec) })
 	row("gain margin", func(v variant) string {
 		if math.IsInf(v.Margins.GainMargin, 1) {
@@ -195,7 +195,7 @@ func (c comparison) print(w io.Writer) error {
 	row("rise time (10 % to 90 %)", func(v variant) string { return words.Seconds(v.Step.RiseTimeSec) })
 	row("settling time (2 % band)", func(v variant) string { return words.Seconds(v.Step.SettlingTimeSec) })
 	p.F("\nThe slow controller loses about ωc·T/2 of phase to the hold and the sampling\n")
-	p.F("(%.0f degrees at T = %s), which shows as the larger overshoot.\n",
+	p.F("(%.0f° at T = %s), which shows as the larger overshoot.\n",
 		c.Variants[0].Margins.GainCrossoverRadPerSec*samplePeriods[1]/2*180/math.Pi, words.Seconds(samplePeriods[1]))
 	p.F("Discrete step metrics are read at the sample instants.\n")
 	return p.Err()

@@ -131,7 +131,7 @@ func (d heater) print(w io.Writer) error {
 	p.F("  C(s) = Kc·(1 + 1/(%.4gs)), Kc = 90/(2.5·(30 + 12)) = %.4g %%/°C\n\n", integralTimeSec, d.Kc)
 
 	p.F("Margins with the dead time kept exactly\n")
-	p.F("  phase margin %.2f degrees at %.4g rad/s (gain crossover)\n", m.PhaseMarginDeg, m.GainCrossoverRadPerSec)
+	p.F("  phase margin %.2f° at %.4g rad/s (gain crossover)\n", m.PhaseMarginDeg, m.GainCrossoverRadPerSec)
 	p.F("  delay margin %s: the loop tolerates this much extra dead time (%s in total)\n",
 		words.Seconds(m.DelayMarginSec), words.Seconds(m.DelayMarginSec+deadTimeSec))
 	p.F("  gain margin %s (first phase crossover)\n", words.GainMargin(m.GainMargin, m.GainMarginDB, m.PhaseCrossoverRadPerSec))

@@ -116,7 +116,7 @@ func TestRun(t *testing.T) {
 	if err := run(&out, dir); err != nil {
 		t.Fatal(err)
 	}
-	for _, want := range []string{"delay margin 53.97 s", "phase margin 73.63 degrees"} {
+	for _, want := range []string{"delay margin 53.97 s", "phase margin 73.63°"} {
 		if !strings.Contains(out.String(), want) {
 			t.Errorf("summary lacks %q:\n%s", want, out.String())
 		}

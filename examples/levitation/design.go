@@ -122,7 +122,7 @@ func (d levitation) print(w io.Writer) error {
 	p.F("\nChosen gain Kc = √(%.4g · %.4g) = %.4g A/m (geometric middle of the window)\n", d.Lo, d.Hi, d.Kc)
 	p.F("  upper gain margin %s: the gain may rise by this factor\n", words.GainMargin(m.GainMargin, m.GainMarginDB, m.PhaseCrossoverRadPerSec))
 	p.F("  lower gain margin %s: the gain may fall to this fraction\n", words.GainMargin(m.LowerGainMargin, m.LowerGainMarginDB, m.LowerPhaseCrossoverRadPerSec))
-	p.F("  phase margin %.1f degrees at %.4g rad/s\n", m.PhaseMarginDeg, m.GainCrossoverRadPerSec)
+	p.F("  phase margin %.1f° at %.4g rad/s\n", m.PhaseMarginDeg, m.GainCrossoverRadPerSec)
 	p.F("  delay margin %s\n", words.Seconds(m.DelayMarginSec))
 	p.F("  peak sensitivity %.3f (%.2f dB) at %.4g rad/s\n", m.PeakSensitivity, 20*math.Log10(m.PeakSensitivity), m.PeakSensitivityRadPerSec)
 	p.F("  Nyquist criterion: %d unstable open-loop pole(s), %d unstable closed-loop pole(s): the curve\n", m.OpenLoopUnstablePoles, m.ClosedLoopUnstablePoles)

@@ -12,6 +12,7 @@
 package main
 
 import (
+	"bytes"
 	_ "embed"
 	"errors"
 	"flag"
@@ -20,6 +21,9 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
+	"time"
+
+	"github.com/loopwise/loopwise/report"
 )
 
 //go:embed demo.json
@@ -34,7 +38,7 @@ const usageHead = `loopreport analyses a linear feedback loop L = kÂ·controllerÂ
 writes a report folder with plots, a Markdown summary and index.html.
 
 Usage:
-  loopreport [-loop FILE] [-json] [-out DIR] [-quiet]
+  loopreport [-loop FILE] [-json] [-out DIR] [-quiet] [-timestamp]
 
 Without -loop the built-in demonstration loop is analysed (print it with
 -print-demo to start a loop file of your own).
@@ -43,7 +47,7 @@ Flags:
 `
 
 const usageFormat = `
-Loop file (JSON; unknown keys are rejected):
+Loop file (UTF-8 JSON of at most 1 MiB; unknown keys are rejected):
   name             text; a name for the report
   description      text; a sentence shown in the report
   plant            text, required: transfer function in s, or in z when
@@ -71,6 +75,15 @@ Loop file (JSON; unknown keys are rejected):
                    min_delay_margin_sec, max_peak_sensitivity,
                    min_damping_ratio, max_overshoot_pct, max_rise_time_sec,
                    max_settling_time_sec, max_steady_state_error
+  uncertain        {"g": {"range": [0.8, 1.2]},
+                    "m": {"range": [0.05, 0.08], "distribution": "normal"}}:
+                   parameters of the expressions with their ranges; the
+                   loop is proven stable for the whole box (or an unstable
+                   point is given), worst margins are bounded, each
+                   requirement is judged over the box, and a Monte Carlo
+                   estimate is made; the other analyses use the centres
+  samples          number of Monte Carlo samples with "uncertain",
+                   default 1000
 
 Example:
   {"name": "speed loop", "plant": "40/((s+2)(s+8))",
@@ -78,12 +91,13 @@ Example:
    "requirements": {"min_phase_margin_deg": 45, "max_overshoot_pct": 10}}
 
 JSON output: open_loop, closed_loop, locus, margins, step, steady_state,
-discrete_loop (with discretize), requirements, warnings; a quantity that is
+discrete_loop (with discretize), requirements, robust (with uncertain),
+warnings; a quantity that is
 infinite or does not exist is null; complex numbers are {"re": x, "im": y}.
 See README.md for every key.
 
 Exit status: 0 on success, 2 for bad input (flags, loop file), 1 when the
-report cannot be written.
+output or the report cannot be written.
 
 Results describe a linear model. They do not guarantee the behaviour of real
 hardware: validate loops that drive machines on the real plant with limits
@@ -95,12 +109,13 @@ and interlocks in place.
 func run(args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet("loopreport", flag.ContinueOnError)
 	fs.SetOutput(stderr)
+	var help bytes.Buffer
 	for _, a := range args {
 		if a == "--" {
 			break
 		}
 		if a == "-h" || a == "-help" || a == "--h" || a == "--help" {
-			fs.SetOutput(stdout) // asked for: the documentation is the output
+			fs.SetOutput(&help) // asked for: the documentation is the output
 		}
 	}
 	loopPath := fs.String("loop", "", "read the loop from `FILE` (JSON, format below) instead of using the demonstration loop")
@@ -108,6 +123,7 @@ func run(args []string, stdout, stderr io.Writer) int {
 	outDir := fs.String("out", "loopreport-out", "write the report (plots, summary.md, index.html) into `DIR`; an empty DIR writes no report")
 	quiet := fs.Bool("quiet", false, "do not show the progress line on stderr")
 	printDemo := fs.Bool("print-demo", false, "print the demonstration loop file and exit")
+	stamp := fs.Bool("timestamp", false, "write the time of the run into index.html; without it two runs on the same loop file write identical files")
 	fs.Usage = func() {
 		fmt.Fprint(fs.Output(), usageHead)
 		fs.PrintDefaults()
@@ -115,6 +131,10 @@ func run(args []string, stdout, stderr io.Writer) int {
 	}
 	if err := fs.Parse(args); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
+			if _, err := stdout.Write(help.Bytes()); err != nil {
+				fmt.Fprintf(stderr, "loopreport: cannot write the help text: %v\n", err)
+				return 1
+			}
 			return 0
 		}
 		return 2
@@ -124,7 +144,10 @@ func run(args []string, stdout, stderr io.Writer) int {
 		return 2
 	}
 	if *printDemo {
-		stdout.Write(demoLoop)
+		if _, err := stdout.Write(demoLoop); err != nil {
+			fmt.Fprintf(stderr, "loopreport: cannot write the demonstration loop: %v\n", err)
+			return 1
+		}
 		return 0
 	}
 	outGiven := false
@@ -135,37 +158,44 @@ func run(args []string, stdout, stderr io.Writer) int {
 	if *loopPath != "" {
 		var err error
 		name = *loopPath
-		data, err = os.ReadFile(*loopPath)
+		data, err = readCapped(*loopPath, report.MaxLoopFileBytes)
 		if err != nil {
 			fmt.Fprintf(stderr, "loopreport: cannot read the loop file: %s\n", describeFileError(*loopPath, err))
 			return 2
 		}
 	}
-	lf, err := readLoopFile(name, data)
+	lf, err := report.ReadLoop(name, data)
 	if err != nil {
 		fmt.Fprintf(stderr, "loopreport: %v\n", err)
 		return 2
 	}
-	m, err := build(lf)
+	prog := newProgress(stderr, *quiet)
+	rep, err := report.Analyze(lf, &report.Settings{Plots: writeReport, Progress: prog.show})
 	if err != nil {
 		fmt.Fprintf(stderr, "loopreport: %s: %v\n", name, err)
 		return 2
 	}
-	prog := newProgress(stderr, *quiet)
-	rep, figs := analyze(m, prog, writeReport)
 	if *asJSON {
-		b, err := marshalReport(rep)
+		b, err := rep.JSON()
 		if err != nil {
 			prog.done()
 			fmt.Fprintf(stderr, "loopreport: cannot encode the report: %v\n", err)
 			return 1
 		}
-		stdout.Write(b)
+		if _, err := stdout.Write(b); err != nil {
+			prog.done()
+			fmt.Fprintf(stderr, "loopreport: cannot write the JSON output: %v\n", err)
+			return 1
+		}
 	}
 	var index string
 	if writeReport {
 		prog.step("writing the report")
-		index, err = writeFolder(*outDir, rep, figs)
+		var set report.WriteSettings
+		if *stamp {
+			set.Timestamp = time.Now()
+		}
+		index, err = rep.WriteFolder(*outDir, &set)
 		if err != nil {
 			prog.done()
 			fmt.Fprintf(stderr, "loopreport: cannot write the report: %v\n", err)
@@ -174,12 +204,28 @@ func run(args []string, stdout, stderr io.Writer) int {
 	}
 	prog.done()
 	if !*asJSON {
-		printSummary(stdout, rep)
-		if index != "" {
-			fmt.Fprintf(stdout, "\nReport written to %s (open it in a browser).\n", index)
+		err := rep.WriteSummary(stdout)
+		if err == nil && index != "" {
+			_, err = fmt.Fprintf(stdout, "\nReport written to %s (open it in a browser).\n", index)
+		}
+		if err != nil {
+			fmt.Fprintf(stderr, "loopreport: cannot write the summary: %v\n", err)
+			return 1
 		}
 	}
 	return 0
+}
+
+// readCapped reads the file at path, at most limit+1 bytes: enough for
+// ReadLoop to refuse a file over the limit, and a device that never ends
+// (/dev/zero) is read only that far.
+func readCapped(path string, limit int) ([]byte, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	return io.ReadAll(io.LimitReader(f, int64(limit)+1))
 }
 
 // describeFileError says why a file could not be read, in words.

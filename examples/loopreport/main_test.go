@@ -8,6 +8,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/loopwise/loopwise/report"
 )
 
 // runLoop runs the program in-process with a loop file holding content
@@ -127,8 +129,9 @@ func TestHelpDocumentsEveryFlagAndKey(t *testing.T) {
 	}
 	help := out.String()
 	want := []string{"-loop", "-json", "-out", "-quiet", "-print-demo"}
-	want = append(want, topKeys...)
-	want = append(want, requirementKeys...)
+	for _, k := range report.LoopKeys() {
+		want = append(want, k[strings.LastIndex(k, ".")+1:])
+	}
 	want = append(want, "zoh", "foh", "tustin", "matched", "prewarp_rad_per_sec", "null", "Exit status")
 	for _, w := range want {
 		if !strings.Contains(help, w) {
@@ -142,7 +145,7 @@ func TestPrintDemoIsALoopFile(t *testing.T) {
 	if code := run([]string{"-print-demo"}, &out, &errb); code != 0 {
 		t.Fatalf("exit %d", code)
 	}
-	if _, err := readLoopFile("demo", out.Bytes()); err != nil {
+	if _, err := report.ReadLoop("demo", out.Bytes()); err != nil {
 		t.Fatalf("the printed demo is not a valid loop file: %v", err)
 	}
 }
@@ -571,8 +574,8 @@ func TestJSONDoesNotWriteReport(t *testing.T) {
 
 func TestProgressLine(t *testing.T) {
 	var b bytes.Buffer
-	p := &progress{w: &b, live: true, total: 2}
-	p.step("root locus")
+	p := &progress{w: &b, live: true}
+	p.show(report.Progress{Stage: "root locus", Step: 1, Steps: 2})
 	p.step("margins")
 	p.done()
 	s := b.String()
@@ -630,8 +633,8 @@ func TestReadmeDocumentsEveryKey(t *testing.T) {
 		}
 		collectKeys(d, keys)
 	}
-	for _, k := range append(append(topKeys, requirementKeys...), append(parameterKeys, discretizeKeys...)...) {
-		keys[k] = true
+	for _, k := range report.LoopKeys() {
+		keys[k[strings.LastIndex(k, ".")+1:]] = true
 	}
 	for k := range keys {
 		if !strings.Contains(doc, "`"+k+"`") && !strings.Contains(doc, `"`+k+`"`) && !strings.Contains(doc, "."+k) {
@@ -655,27 +658,6 @@ func TestHTMLEscapesTheLoopFile(t *testing.T) {
 	}
 	if !strings.Contains(string(page), "&lt;script&gt;") {
 		t.Errorf("the loop name is missing from index.html")
-	}
-}
-
-func TestFormatting(t *testing.T) {
-	tests := []struct{ got, want string }{
-		{g(number(23040)), "23040"},
-		{g(number(-0.4226497)), "−0.4226"},
-		{g(number(1.5e-7)), "1.5e-7"},
-		{g(number(math.Inf(1))), "infinite"},
-		{g(number(math.NaN())), "none"},
-		{factorText([]complex128{-40, complex(-3.6, 11.45), complex(-3.6, -11.45), -2, 0}, "s"), "s·(s + 2)·(s^2 + 7.2s + 144.1)·(s + 40)"},
-		{factorText([]complex128{1, 0.5}, "z"), "(z − 0.5)·(z − 1)"},
-		{factoredText(2, []complex128{-1}, []complex128{0, -3}, "s", 0.5, false), "2·(s + 1)/(s·(s + 3))·e^(−0.5s)"},
-		{rootList([]complexNumber{newComplex(complex(-1, 2)), newComplex(complex(-1, -2)), newComplex(-3)}), "−1 ± 2j, −3"},
-		{intervalText(interval{number(math.Inf(-1)), 0}), "(−∞, 0)"},
-		{ordinal(6), "6th"}, {ordinal(2), "2nd"}, {ordinal(11), "11th"},
-	}
-	for _, test := range tests {
-		if test.got != test.want {
-			t.Errorf("got %q, want %q", test.got, test.want)
-		}
 	}
 }
 

@@ -5,6 +5,8 @@ import (
 	"io"
 	"os"
 	"strings"
+
+	"github.com/loopwise/loopwise/report"
 )
 
 // progress shows what the program is doing on one line of a terminal:
@@ -13,8 +15,7 @@ import (
 type progress struct {
 	w     io.Writer
 	live  bool
-	total int
-	n     int
+	last  report.Progress
 	width int
 }
 
@@ -30,22 +31,23 @@ func newProgress(w io.Writer, quiet bool) *progress {
 	return &progress{w: w, live: live}
 }
 
-// step announces the next stage.
+// step announces a stage of the program's own after those of the analysis.
 func (p *progress) step(what string) {
-	p.n++
-	p.show(what)
+	n := p.last.Step + 1
+	p.show(report.Progress{Stage: what, Step: n, Steps: max(p.last.Steps, n)})
 }
 
-// fraction reports how far the current stage has come, in [0, 1].
-func (p *progress) fraction(what string, f float64) {
-	p.show(fmt.Sprintf("%s %3.0f %%", what, 100*min(max(f, 0), 1)))
-}
-
-func (p *progress) show(what string) {
+// show draws the progress line for the stage of r.
+func (p *progress) show(r report.Progress) {
+	p.last = r
 	if !p.live {
 		return
 	}
-	line := fmt.Sprintf("loopreport: [%d/%d] %s …", p.n, max(p.total, p.n), what)
+	what := r.Stage
+	if r.Fraction > 0 {
+		what = fmt.Sprintf("%s %3.0f %%", what, 100*r.Fraction)
+	}
+	line := fmt.Sprintf("loopreport: [%d/%d] %s …", r.Step, max(r.Steps, r.Step), what)
 	pad := ""
 	if d := p.width - len([]rune(line)); d > 0 {
 		pad = strings.Repeat(" ", d)

@@ -257,7 +257,7 @@ func (d gimbal) print(w io.Writer) error {
 			c.Step.OvershootPct, words.Seconds(c.Step.RiseTimeSec), words.Seconds(c.Step.SettlingTimeSec))
 		p.F("      disturbance step 1 V at the motor: the tilt moves %.4g rad, settling time (2 %% band) %s\n",
 			c.Disturbance.FinalValue, words.Seconds(c.Disturbance.SettlingTimeSec))
-		p.F("      phase margin %.1f degrees at %.4g rad/s, gain margin %s\n",
+		p.F("      phase margin %.1f° at %.4g rad/s, gain margin %s\n",
 			c.Margins.PhaseMarginDeg, c.Margins.GainCrossoverRadPerSec, words.GainMargin(c.Margins.GainMargin, c.Margins.GainMarginDB, c.Margins.PhaseCrossoverRadPerSec))
 		if i == d.Chosen {
 			p.F("      CHOSEN: the smallest τ whose target pair is the slowest mode, so it governs the\n")

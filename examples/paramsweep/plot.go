@@ -2,11 +2,9 @@ package main
 
 import (
 	"fmt"
-	"math"
 
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
-	"gonum.org/v1/plot/vg/draw"
 
 	"github.com/loopwise/loopwise/chart"
 	"github.com/loopwise/loopwise/examples/internal/output"
@@ -22,44 +20,25 @@ func (d gimbal) plot(dir string) ([]string, error) {
 		return nil, fmt.Errorf("tracing the parameter locus: %w", err)
 	}
 	chosen := d.Candidates[d.Chosen]
+	// The other candidates' poles are marked as dots too (the same mark:
+	// closed-loop poles at a value of τ), each in its own colour.
+	var also []chart.LocusMark
+	for i, c := range d.Candidates {
+		if i != d.Chosen {
+			also = append(also, chart.LocusMark{Value: c.TauSec, Poles: c.Poles})
+		}
+	}
 	fig, err := chart.RootLocus(tr, &chart.LocusSettings{
 		PlaneSettings: chart.PlaneSettings{
-			Title:         "Parameter root locus over the derivative time τ (s), proportional gain fixed at 10 V/rad",
+			Title:         fmt.Sprintf("Parameter root locus over the derivative time τ (s), proportional gain fixed at 10 V/rad; both candidates give ζ = %.2g", targetDamping),
 			DampingRatios: []float64{targetDamping},
 		},
 		Mark: &chart.LocusMark{Value: chosen.TauSec, Poles: chosen.Poles},
+		Also: also,
 	})
 	if err != nil {
 		return nil, fmt.Errorf("locus plot: %w", err)
 	}
-	// Mark the other candidates' poles too, as hollow squares, and widen
-	// the view to show them.
-	pl := fig.Panels[0]
-	for i, c := range d.Candidates {
-		if i == d.Chosen {
-			continue
-		}
-		var xs, ys []float64
-		for _, z := range c.Poles {
-			xs, ys = append(xs, real(z)), append(ys, imag(z))
-		}
-		marks, err := chart.NewMarks(xs, ys)
-		if err != nil {
-			return nil, err
-		}
-		marks.GlyphStyle = draw.GlyphStyle{Shape: draw.BoxGlyph{}, Radius: vg.Points(4), Color: chart.Palette()[4]}
-		pl.Add(marks)
-		thumb, err := plotter.NewScatter(plotter.XYs{{X: xs[0], Y: ys[0]}})
-		if err != nil {
-			return nil, err
-		}
-		thumb.GlyphStyle = marks.GlyphStyle
-		pl.Legend.Add(fmt.Sprintf("poles at τ = %.3g s (also ζ = %.2g)", c.TauSec, targetDamping), thumb)
-		pl.Y.Min, pl.Y.Max = math.Min(pl.Y.Min, -1.2*imag(c.Pair)), math.Max(pl.Y.Max, 1.2*imag(c.Pair))
-	}
-	pl.Legend.Top, pl.Legend.Left = false, true
-	pl.Legend.Padding = vg.Points(6)
-	pl.Legend.XOffs, pl.Legend.YOffs = vg.Points(8), vg.Points(20)
 	paths, err := output.Save(fig, dir, "parameter-locus")
 	files = append(files, paths...)
 	if err != nil {

@@ -130,7 +130,7 @@ func (d servoDesign) print(w io.Writer) error {
 	m := d.Margins
 	p.F("\nMargins at Kp = %.4g V/rad\n", d.Kp)
 	p.F("  gain margin %s\n", words.GainMargin(m.GainMargin, m.GainMarginDB, m.PhaseCrossoverRadPerSec))
-	p.F("  phase margin %.1f degrees at %.4g rad/s (gain crossover)\n", m.PhaseMarginDeg, m.GainCrossoverRadPerSec)
+	p.F("  phase margin %.1f° at %.4g rad/s (gain crossover)\n", m.PhaseMarginDeg, m.GainCrossoverRadPerSec)
 	p.F("  delay margin %s (extra dead time the loop tolerates)\n", words.Seconds(m.DelayMarginSec))
 	p.F("  peak sensitivity %.3f (%.2f dB) at %.4g rad/s\n", m.PeakSensitivity, 20*math.Log10(m.PeakSensitivity), m.PeakSensitivityRadPerSec)
 

@@ -71,13 +71,13 @@ func Points(zs []complex128) string {
 	return strings.Join(parts, ", ")
 }
 
-// Angles lists angles in degrees.
+// Angles lists angles in degrees, each with its ° sign.
 func Angles(deg []float64) string {
 	parts := make([]string, len(deg))
 	for i, a := range deg {
-		parts[i] = fmt.Sprintf("%.4g", a)
+		parts[i] = strings.ReplaceAll(fmt.Sprintf("%.4g°", a), "-", "−")
 	}
-	return strings.Join(parts, ", ") + " degrees"
+	return strings.Join(parts, ", ")
 }
 
 // Interval writes the open interval lo < name < hi with its unit; an
@@ -94,7 +94,7 @@ func Interval(lo, hi float64, name, unit string) string {
 func GainMargin(k, db, omegaRadPerSec float64) string {
 	switch {
 	case math.IsInf(k, 1):
-		return "infinite (the phase never reaches -180 degrees)"
+		return "infinite (the phase never reaches −180°)"
 	case math.IsNaN(k):
 		return "does not exist"
 	}

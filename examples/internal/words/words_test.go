@@ -21,7 +21,7 @@ func TestFormats(t *testing.T) {
 		{"constant", Polynomial(poly.MustNew(3), "s"), "3"},
 		{"interval", Interval(45.87, 299.3, "Kc", "A/m"), "45.87 < Kc < 299.3 A/m"},
 		{"open interval", Interval(0, math.Inf(1), "k", "(factor)"), "k > 0 (factor)"},
-		{"infinite margin", GainMargin(math.Inf(1), math.Inf(1), math.NaN()), "infinite (the phase never reaches -180 degrees)"},
+		{"infinite margin", GainMargin(math.Inf(1), math.Inf(1), math.NaN()), "infinite (the phase never reaches −180°)"},
 		{"margin", GainMargin(2.554, 8.146, 195.6), "2.554 (+8.15 dB) at 195.6 rad/s"},
 		{"milliseconds", Seconds(0.3582), "358.2 ms"},
 		{"seconds", Seconds(53.97), "53.97 s"},

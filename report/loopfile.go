@@ -1,4 +1,4 @@
-package main
+package report
 
 import (
 	"bytes"
@@ -7,88 +7,198 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"strings"
 	"unicode/utf8"
 )
 
-// loopFile is a loop description read from JSON (see README.md for the
-// format). Absent keys hold their defaults after readLoopFile.
-type loopFile struct {
-	Name        string
+// Loop describes one feedback loop L = k·controller·plant·sensor with
+// negative feedback: the value a loop file holds (see ReadLoop for its JSON
+// form). The zero value of an optional field means its default, so a Loop
+// written in Go needs only Plant.
+type Loop struct {
+	// Name is the report's title; if empty, "Loop" and the file name.
+	Name string
+	// Description is a sentence or two shown under the title.
 	Description string
-	Plant       string
-	Controller  string
-	Sensor      string
-	Gain        float64
-	// GainRange is the range of the loop gain k for the locus; ±Inf for an
-	// unbounded end.
-	GainRange     [2]float64
-	Parameter     *parameterSpec
-	DelaySec      float64
+	// Plant is a transfer function in the text form of package tf, in s,
+	// or in z when SampleTimeSec > 0: "2.5/(s*(0.2s+1))". Required.
+	Plant string
+	// Controller is the controller's transfer function; it may use the
+	// parameter's name. If empty, defaults to "1".
+	Controller string
+	// Sensor is the feedback path. If empty, defaults to "1".
+	Sensor string
+	// Gain is the loop gain k at which margins and responses are
+	// evaluated. If zero, defaults to 1 (a loop file must not give 0).
+	Gain float64
+	// GainRange is the range of k for the root locus; ±Inf for an
+	// unbounded end; a negative range gives the complementary locus. If
+	// both ends are zero, defaults to [0, +Inf).
+	GainRange [2]float64
+	// Parameter, if not nil, makes the root locus one in a named
+	// parameter of the expressions.
+	Parameter *Parameter
+	// DelaySec is dead time added to the loop, in seconds, ≥ 0.
+	DelaySec float64
+	// SampleTimeSec is 0 for a continuous loop (expressions in s); a
+	// positive sample time in seconds means the expressions are in z.
 	SampleTimeSec float64
-	Discretize    *discretizeSpec
-	Requirements  []requirementSpec
+	// Discretize, if not nil, converts the continuous loop to z before
+	// every analysis.
+	Discretize *Discretize
+	// Requirements are limits checked against the loop (package spec).
+	Requirements []Requirement
+	// Uncertain and Samples are the robust section's keys (robust.go).
+	Uncertain []UncertainParameter
+	Samples   int
 
 	// pos holds the position ("line 3, column 12") of each key as
 	// written, for messages about values that parse but do not make sense
-	// (an expression that does not parse, an improper loop).
+	// (an expression that does not parse, an improper loop); nil for a
+	// Loop written in Go.
 	pos  map[string]position
 	off  map[string]int // byte offset of each value in data
 	data []byte
 	file string
 }
 
-type parameterSpec struct {
-	Name  string
+// Parameter names a parameter of the expressions and its range for the
+// root locus.
+type Parameter struct {
+	// Name is the parameter's name in the expressions: letters, digits
+	// and '_', starting with a letter, and not s, z or exp.
+	Name string
+	// Value is the nominal value, at which margins and responses are
+	// evaluated.
 	Value float64
+	// Range is the parameter's range for the locus; ±Inf for an unbounded
+	// end. A loop file without "range" gets [0, +Inf), or (−Inf, 0] for a
+	// negative Value.
 	Range [2]float64
 }
 
-type discretizeSpec struct {
-	Method           string
-	SampleTimeSec    float64
+// Discretize says how a continuous loop is converted to z.
+type Discretize struct {
+	// Method is "zoh", "foh", "tustin" or "matched".
+	Method string
+	// SampleTimeSec is the sample time in seconds, > 0.
+	SampleTimeSec float64
+	// PrewarpRadPerSec is the Tustin prewarp frequency in rad/s, in
+	// (0, π/T); 0 for none.
 	PrewarpRadPerSec float64
 }
 
-// requirementSpec is one entry of "requirements": its key as written and
-// its limit.
-type requirementSpec struct {
-	Key   string
-	Limit float64
-}
+// MaxLoopFileBytes is the largest loop file ReadLoop accepts: 1 MiB, far
+// above any real loop description (a few hundred bytes), so that a wrong
+// file (a device, an image, a log) is refused at once.
+const MaxLoopFileBytes = 1 << 20
 
-// requirementKeys lists the keys accepted inside "requirements", in the
-// order in which the report lists them.
-var requirementKeys = []string{
-	"min_phase_margin_deg",
-	"min_gain_margin_db",
-	"min_delay_margin_sec",
-	"max_peak_sensitivity",
-	"min_damping_ratio",
-	"max_overshoot_pct",
-	"max_rise_time_sec",
-	"max_settling_time_sec",
-	"max_steady_state_error",
-}
+// coreKeys are the top-level loop-file keys read in this file; sections
+// add their own (section.keys).
+var coreKeys = []string{"name", "description", "plant", "controller", "sensor", "gain", "gain_range", "parameter", "delay_sec", "sample_time_sec", "discretize"}
 
 var (
-	topKeys        = []string{"name", "description", "plant", "controller", "sensor", "gain", "gain_range", "parameter", "delay_sec", "sample_time_sec", "discretize", "requirements"}
 	parameterKeys  = []string{"name", "value", "range"}
 	discretizeKeys = []string{"method", "sample_time_sec", "prewarp_rad_per_sec"}
 )
 
-// errBadInput marks errors in the user's input; run exits with status 2 on
-// them.
-var errBadInput = errors.New("bad input")
+// loopKey is a top-level loop-file key owned by a section: decode reads
+// its value v into the loop.
+type loopKey struct {
+	name   string
+	decode func(v keyValue, lf *Loop) error
+}
 
-// inputError is a problem with the loop file or the flags.
+// keyValue is the value of one loop-file key, with what a decoder needs
+// for messages that name the key and its place in the file.
+type keyValue struct {
+	data []byte
+	f    field
+	lf   *Loop
+}
+
+// text reads the value as text.
+func (v keyValue) text(dst *string) error { return decodeString(v.data, v.f, v.f.key, dst) }
+
+// number reads the value as a finite number.
+func (v keyValue) number(dst *float64) error { return decodeNumber(v.data, v.f, v.f.key, dst) }
+
+// fields splits an object value into its keys, in file order, checking
+// that each is one of known; every sub-key's position is recorded as
+// "key.sub" for later messages.
+func (v keyValue) fields(known []string) ([]keyValue, error) {
+	fs, err := objectFields(v.data, v.f.raw, v.f.valOff, fmt.Sprintf("key %q", v.f.key))
+	if err != nil {
+		return nil, err
+	}
+	out := make([]keyValue, len(fs))
+	for i, g := range fs {
+		if known != nil && !slices.Contains(known, g.key) {
+			return nil, unknownKey(v.data, g, fmt.Sprintf(" in %q", v.f.key), known)
+		}
+		if v.lf != nil && v.lf.pos != nil {
+			v.lf.pos[v.f.key+"."+g.key] = positionOf(v.data, g.valOff)
+			v.lf.off[v.f.key+"."+g.key] = g.valOff
+		}
+		g.key = v.f.key + "." + g.key
+		out[i] = keyValue{data: v.data, f: g, lf: v.lf}
+	}
+	return out, nil
+}
+
+// sectionKeys returns the loop-file keys the pipeline's sections own.
+func sectionKeys() map[string]loopKey {
+	out := map[string]loopKey{}
+	for _, s := range pipeline {
+		for _, k := range s.keys {
+			out[k.name] = k
+		}
+	}
+	return out
+}
+
+// topKeys returns every top-level loop-file key, core keys first.
+func topKeys() []string {
+	keys := slices.Clone(coreKeys)
+	for _, s := range pipeline {
+		for _, k := range s.keys {
+			keys = append(keys, k.name)
+		}
+	}
+	return keys
+}
+
+// LoopKeys returns every key a loop file may hold, nested keys written
+// "parameter.name", in the order of the documentation.
+func LoopKeys() []string {
+	var out []string
+	for _, k := range topKeys() {
+		out = append(out, k)
+		var sub []string
+		switch k {
+		case "parameter":
+			sub = parameterKeys
+		case "discretize":
+			sub = discretizeKeys
+		case "requirements":
+			sub = requirementKeys
+		}
+		for _, s := range sub {
+			out = append(out, k+"."+s)
+		}
+	}
+	return out
+}
+
+// inputError is a problem with the loop.
 type inputError struct{ msg string }
 
 func (e *inputError) Error() string        { return e.msg }
-func (e *inputError) Is(target error) bool { return target == errBadInput }
+func (e *inputError) Is(target error) bool { return target == ErrBadInput }
 
 func badInput(format string, a ...any) error {
-	return &inputError{msg: fmt.Sprintf(format, a...)}
+	return &inputError{msg: shorten(fmt.Sprintf(format, a...))}
 }
 
 // position is a place in the loop file, 1-based.
@@ -205,9 +315,20 @@ func syntaxError(data []byte, base int, err error) error {
 	return badInput("the file is not valid JSON: %v", err)
 }
 
-// readLoopFile reads a loop description. name is the file name used in
-// messages. Every problem is an *inputError naming the key and its position.
-func readLoopFile(name string, data []byte) (*loopFile, error) {
+// ReadLoop reads a loop description in its JSON form (a loop file; the keys
+// are documented in examples/loopreport/README.md). Unknown keys, keys
+// given twice, values of the wrong type and non-finite numbers are
+// rejected. name is the file name used in messages and in the default
+// title. Every error wraps ErrBadInput and names the key and its line and
+// column. A leading UTF-8 byte-order mark is ignored; a file larger than
+// MaxLoopFileBytes is refused.
+func ReadLoop(name string, data []byte) (*Loop, error) {
+	if len(data) > MaxLoopFileBytes {
+		return nil, badInput("%s: the file is larger than %d bytes (1 MiB); a loop file is a short JSON object such as {\"plant\": \"1/(s*(s+1))\"}", name, MaxLoopFileBytes)
+	}
+	// A UTF-8 byte-order mark, which some editors write, is not part of
+	// the text.
+	data = bytes.TrimPrefix(data, []byte("\ufeff"))
 	if !utf8.Valid(data) {
 		return nil, badInput("%s: the file is not UTF-8 text", name)
 	}
@@ -234,12 +355,12 @@ func unknownKey(data []byte, f field, where string, known []string) error {
 	return badInput("unknown key %q%s %s; the keys allowed there are %s", f.key, where, at(data, f.keyOff), strings.Join(known, ", "))
 }
 
-func decodeLoop(data []byte) (*loopFile, error) {
+func decodeLoop(data []byte) (*Loop, error) {
 	fields, err := objectFields(data, data, 0, "the loop file")
 	if err != nil {
 		return nil, err
 	}
-	lf := &loopFile{
+	lf := &Loop{
 		Controller: "1",
 		Sensor:     "1",
 		Gain:       1,
@@ -248,36 +369,40 @@ func decodeLoop(data []byte) (*loopFile, error) {
 		off:        map[string]int{},
 		data:       data,
 	}
+	extra := sectionKeys()
 	for _, f := range fields {
 		lf.pos[f.key] = positionOf(data, f.valOff)
 		lf.off[f.key] = f.valOff
+		v := keyValue{data: data, f: f, lf: lf}
 		switch f.key {
 		case "name":
-			err = decodeString(data, f, f.key, &lf.Name)
+			err = v.text(&lf.Name)
 		case "description":
-			err = decodeString(data, f, f.key, &lf.Description)
+			err = v.text(&lf.Description)
 		case "plant":
-			err = decodeString(data, f, f.key, &lf.Plant)
+			err = v.text(&lf.Plant)
 		case "controller":
-			err = decodeString(data, f, f.key, &lf.Controller)
+			err = v.text(&lf.Controller)
 		case "sensor":
-			err = decodeString(data, f, f.key, &lf.Sensor)
+			err = v.text(&lf.Sensor)
 		case "gain":
-			err = decodeNumber(data, f, f.key, &lf.Gain)
+			err = v.number(&lf.Gain)
 		case "gain_range":
 			err = decodeRange(data, f, f.key, &lf.GainRange)
 		case "delay_sec":
-			err = decodeNumber(data, f, f.key, &lf.DelaySec)
+			err = v.number(&lf.DelaySec)
 		case "sample_time_sec":
-			err = decodeNumber(data, f, f.key, &lf.SampleTimeSec)
+			err = v.number(&lf.SampleTimeSec)
 		case "parameter":
 			lf.Parameter, err = decodeParameter(data, f, lf.pos)
 		case "discretize":
 			lf.Discretize, err = decodeDiscretize(data, f, lf.pos)
-		case "requirements":
-			lf.Requirements, err = decodeRequirements(data, f)
 		default:
-			err = unknownKey(data, f, "", topKeys)
+			if k, ok := extra[f.key]; ok {
+				err = k.decode(v, lf)
+			} else {
+				err = unknownKey(data, f, "", topKeys())
+			}
 		}
 		if err != nil {
 			return nil, err
@@ -294,15 +419,40 @@ func decodeLoop(data []byte) (*loopFile, error) {
 
 // where returns " at line L, column C" for a key of the file, or "" when
 // the loop did not come from a file.
-func (lf *loopFile) where(key string) string {
+func (lf *Loop) where(key string) string {
 	if p, ok := lf.pos[key]; ok {
 		return " at " + p.String()
 	}
 	return ""
 }
 
+// withDefaults returns a copy of lf with every zero optional field set to
+// its default, checked by validate.
+func (lf *Loop) withDefaults() (*Loop, error) {
+	if lf == nil {
+		return nil, badInput("no loop given")
+	}
+	c := *lf
+	if c.Controller == "" {
+		c.Controller = "1"
+	}
+	if c.Sensor == "" {
+		c.Sensor = "1"
+	}
+	if c.Gain == 0 {
+		c.Gain = 1
+	}
+	if c.GainRange == [2]float64{} {
+		c.GainRange = [2]float64{0, math.Inf(1)}
+	}
+	if strings.TrimSpace(c.Plant) == "" {
+		return nil, badInput("key \"plant\"%s is empty; give a transfer function such as \"2/(s*(s+1))\"", c.where("plant"))
+	}
+	return &c, c.validate()
+}
+
 // validate checks the values that parse as JSON but make no sense.
-func (lf *loopFile) validate() error {
+func (lf *Loop) validate() error {
 	if lf.DelaySec < 0 {
 		return badInput("key \"delay_sec\"%s: the dead time must be zero or positive, got %g", lf.where("delay_sec"), lf.DelaySec)
 	}
@@ -329,6 +479,16 @@ func (lf *loopFile) validate() error {
 		}
 		if d.PrewarpRadPerSec < 0 {
 			return badInput("key \"discretize.prewarp_rad_per_sec\"%s: the prewarp frequency must be positive, got %g", lf.where("discretize.prewarp_rad_per_sec"), d.PrewarpRadPerSec)
+		}
+		if w := d.PrewarpRadPerSec; w > 0 && w*d.SampleTimeSec < 0x1p-1022 {
+			return badInput("key \"discretize.prewarp_rad_per_sec\"%s: the prewarp frequency %s rad/s is too small to compute with at the sample time %s s; leave the key out for the plain Tustin conversion (it is the limit of a small prewarp frequency)", lf.where("discretize.prewarp_rad_per_sec"), g(Number(w)), g(Number(d.SampleTimeSec)))
+		}
+		if w, nyq := d.PrewarpRadPerSec, math.Pi/d.SampleTimeSec; w > 0 && w >= nyq*(1-0x1p-26) {
+			// tf.Discretize refuses it too; say it in the file's words.
+			return badInput("key \"discretize.prewarp_rad_per_sec\"%s: the prewarp frequency %s rad/s must lie below π/T = %s rad/s (half the sampling frequency of \"sample_time_sec\" %s s) by more than a relative 1.5e-8: there the Tustin conversion degenerates", lf.where("discretize.prewarp_rad_per_sec"), g(Number(w)), g(Number(nyq)), g(Number(d.SampleTimeSec)))
+		}
+		if d.PrewarpRadPerSec > 0 && d.Method != "tustin" {
+			return badInput("key \"discretize.prewarp_rad_per_sec\"%s: a prewarp frequency applies to the method \"tustin\" only, not %q", lf.where("discretize.prewarp_rad_per_sec"), d.Method)
 		}
 	}
 	return nil
@@ -388,12 +548,12 @@ func decodeRange(data []byte, f field, key string, dst *[2]float64) error {
 	return nil
 }
 
-func decodeParameter(data []byte, f field, pos map[string]position) (*parameterSpec, error) {
+func decodeParameter(data []byte, f field, pos map[string]position) (*Parameter, error) {
 	fields, err := objectFields(data, f.raw, f.valOff, "key \"parameter\"")
 	if err != nil {
 		return nil, err
 	}
-	p := &parameterSpec{}
+	p := &Parameter{}
 	seen := map[string]bool{}
 	for _, g := range fields {
 		seen[g.key] = true
@@ -428,12 +588,12 @@ func decodeParameter(data []byte, f field, pos map[string]position) (*parameterS
 	return p, nil
 }
 
-func decodeDiscretize(data []byte, f field, pos map[string]position) (*discretizeSpec, error) {
+func decodeDiscretize(data []byte, f field, pos map[string]position) (*Discretize, error) {
 	fields, err := objectFields(data, f.raw, f.valOff, "key \"discretize\"")
 	if err != nil {
 		return nil, err
 	}
-	d := &discretizeSpec{}
+	d := &Discretize{}
 	seen := map[string]bool{}
 	for _, g := range fields {
 		seen[g.key] = true
@@ -466,27 +626,4 @@ func decodeDiscretize(data []byte, f field, pos map[string]position) (*discretiz
 		}
 	}
 	return d, nil
-}
-
-func decodeRequirements(data []byte, f field) ([]requirementSpec, error) {
-	fields, err := objectFields(data, f.raw, f.valOff, "key \"requirements\"")
-	if err != nil {
-		return nil, err
-	}
-	var out []requirementSpec
-	for _, g := range fields {
-		known := false
-		for _, k := range requirementKeys {
-			known = known || k == g.key
-		}
-		if !known {
-			return nil, unknownKey(data, g, " in \"requirements\"", requirementKeys)
-		}
-		var v float64
-		if err := decodeNumber(data, g, "requirements."+g.key, &v); err != nil {
-			return nil, err
-		}
-		out = append(out, requirementSpec{Key: g.key, Limit: v})
-	}
-	return out, nil
 }

@@ -1,7 +1,8 @@
-package main
+package report
 
 import (
 	"errors"
+	"os"
 	"testing"
 )
 
@@ -9,7 +10,11 @@ import (
 // reader or the model builder panic, and that every rejection is a
 // bad-input error (exit status 2) with a message.
 func FuzzLoopFile(f *testing.F) {
-	f.Add(string(demoLoop))
+	demo, err := os.ReadFile("../examples/loopreport/demo.json")
+	if err != nil {
+		f.Fatal(err)
+	}
+	f.Add(string(demo))
 	for _, s := range []string{
 		`{"plant": "1/(s+1"}`,
 		`{"plant": "1/(s+1)", "gain": "x"}`,
@@ -24,11 +29,11 @@ func FuzzLoopFile(f *testing.F) {
 		f.Add(s)
 	}
 	f.Fuzz(func(t *testing.T, content string) {
-		lf, err := readLoopFile("fuzz.json", []byte(content))
+		lf, err := ReadLoop("fuzz.json", []byte(content))
 		if err == nil {
 			_, err = build(lf)
 		}
-		if err != nil && (!errors.Is(err, errBadInput) || err.Error() == "") {
+		if err != nil && (!errors.Is(err, ErrBadInput) || err.Error() == "") {
 			t.Errorf("rejection is not a bad-input error with a message: %v", err)
 		}
 	})

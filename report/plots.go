@@ -1,4 +1,4 @@
-package main
+package report
 
 import (
 	"bytes"
@@ -11,26 +11,31 @@ import (
 )
 
 // render draws fig as SVG and PNG into a figure of the report.
-func render(fig *chart.Figure, file, title, caption string) (figure, error) {
+func render(fig *chart.Figure, file, title, caption string) (Figure, error) {
 	var svg, png bytes.Buffer
 	if err := fig.Render(&svg, chart.FormatSVG); err != nil {
-		return figure{}, err
+		return Figure{}, err
 	}
 	if err := fig.Render(&png, chart.FormatPNG); err != nil {
-		return figure{}, err
+		return Figure{}, err
 	}
-	return figure{file: file, title: title, caption: caption, svg: svg.Bytes(), png: png.Bytes()}, nil
+	return Figure{File: file, Title: title, Caption: caption, SVG: svg.Bytes(), PNG: png.Bytes()}, nil
 }
 
 // plots draws the figures of the report: root locus, frequency response,
 // Nyquist curve, step response and pole–zero map. A figure that cannot be
 // drawn is left out with a warning that says why.
-func (a *analysis) plots() []figure {
-	var figs []figure
+func (a *analysis) plots() []Figure {
+	var figs []Figure
 	add := func(title, file, caption string, draw func() (*chart.Figure, error)) {
+		defer func() {
+			if p := recover(); p != nil {
+				a.warn("plot %q not drawn: internal error (%v); please report this loop to the loopwise maintainers", title, p)
+			}
+		}()
 		fig, err := draw()
 		if err == nil {
-			var f figure
+			var f Figure
 			if f, err = render(fig, file, title, caption); err == nil {
 				figs = append(figs, f)
 				return
@@ -45,14 +50,14 @@ func (a *analysis) plots() []figure {
 	}
 
 	add("Root locus", "root-locus",
-		fmt.Sprintf("Closed-loop poles as %s varies over %s: branches with arrows in the direction of increasing %s, open-loop poles (×) and zeros (○), asymptotes, break points and crossings of the stability boundary with their values; filled dots are the closed-loop poles at %s = %s.",
-			variable, intervalText(a.rep.Locus.Range), a.rep.Locus.Variable, a.rep.Locus.Variable, g(number(value))),
+		fmt.Sprintf("Closed-loop poles as %s varies over %s: branches with arrows in the direction of increasing %s, × where each branch starts and ○ where branches end (the key says at which value), asymptotes, break points and crossings of the stability boundary with their values; filled dots are the closed-loop poles at %s = %s.",
+			variable, intervalText(a.rep.Locus.Range), a.rep.Locus.Variable, a.rep.Locus.Variable, g(Number(value))),
 		func() (*chart.Figure, error) {
 			if a.locus == nil {
 				return nil, fmt.Errorf("the locus could not be analysed")
 			}
 			set := &locus.Settings{PadeOrder: padeOrder, Range: a.locus.Range, Variable: a.locus.Variable,
-				Progress: func(f float64) { a.prog.fraction("plots: tracing the root locus", f) }}
+				Progress: func(f float64) { a.fraction("plots: tracing the root locus", f) }}
 			l, err := locus.Trace(a.locusFor, set)
 			if err != nil {
 				return nil, err
@@ -67,13 +72,13 @@ func (a *analysis) plots() []figure {
 		})
 
 	add("Frequency response", "frequency-response",
-		fmt.Sprintf("Magnitude and phase of the open loop L at k = %s, with the gain and phase crossovers and the margins.", g(number(m.gain))),
+		fmt.Sprintf("Magnitude and phase of the open loop L at k = %s, with the gain and phase crossovers and the margins.", g(Number(m.gain))),
 		func() (*chart.Figure, error) {
-			grid, err := margins.AutoGrid(m.open, nil)
+			grid, err := margins.AutoGrid(m.analysed, nil)
 			if err != nil {
 				return nil, err
 			}
-			resp, err := margins.FrequencyResponse(m.open, grid)
+			resp, err := margins.FrequencyResponse(m.analysed, grid)
 			if err != nil {
 				return nil, err
 			}
@@ -83,7 +88,7 @@ func (a *analysis) plots() []figure {
 	add("Nyquist curve", "nyquist",
 		"The open loop L along the Nyquist contour, the critical point −1, the unit circle and the circle of radius 1/Ms around −1 that the curve touches at the peak sensitivity.",
 		func() (*chart.Figure, error) {
-			n, err := margins.NyquistCurve(m.open, nil)
+			n, err := margins.NyquistCurve(m.analysed, nil)
 			if err != nil {
 				return nil, err
 			}
@@ -112,5 +117,6 @@ func (a *analysis) plots() []figure {
 			}
 			return chart.PoleZero(l, &chart.PlaneSettings{Grid: true, Title: "Pole–zero map of the open loop L"})
 		})
+	a.robustPlots(add) // robust.go
 	return figs
 }

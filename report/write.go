@@ -1,4 +1,4 @@
-package main
+package report
 
 import (
 	"bytes"
@@ -10,25 +10,38 @@ import (
 	"time"
 )
 
-// figure is one rendered plot of the report.
-type figure struct {
-	// file is the base name of the files written, without extension.
-	file string
-	// title is the heading in the summaries.
-	title string
-	// caption says in words what the plot shows.
-	caption string
-	svg     []byte
-	png     []byte
+// Figure is one plot of the report, drawn by package chart.
+type Figure struct {
+	// File is the base name of the files written, without extension:
+	// "root-locus".
+	File string
+	// Title is the heading in the summaries.
+	Title string
+	// Caption says in words what the plot shows.
+	Caption string
+	// SVG and PNG are the rendered plot.
+	SVG, PNG []byte
 }
 
 // plotFiles are the base names of every plot the report can hold.
 var plotFiles = []string{"root-locus", "frequency-response", "nyquist", "step-response", "pole-zero-map"}
 
-// writeFolder writes the report into dir: every plot as SVG and PNG,
+// WriteSettings controls the files of the report. A nil *WriteSettings
+// means the defaults.
+type WriteSettings struct {
+	// Timestamp, if not zero, is written into index.html as the time the
+	// report was made (in UTC, to the minute). If zero (the default), the
+	// report carries no time, so that two runs on the same loop give
+	// byte-identical files.
+	Timestamp time.Time
+}
+
+// WriteFolder writes the report into dir: every plot as SVG and PNG,
 // summary.md, report.json and index.html. It returns the path of
-// index.html.
-func writeFolder(dir string, r *report, figs []figure) (string, error) {
+// index.html. Plots of an earlier run that this run did not draw are
+// removed, so the folder never mixes two analyses.
+func (r *Report) WriteFolder(dir string, set *WriteSettings) (string, error) {
+	figs := r.Figures
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return "", err
 	}
@@ -36,7 +49,7 @@ func writeFolder(dir string, r *report, figs []figure) (string, error) {
 	// folder never mixes two analyses.
 	drawn := map[string]bool{}
 	for _, f := range figs {
-		drawn[f.file] = true
+		drawn[f.File] = true
 	}
 	for _, name := range plotFiles {
 		if !drawn[name] {
@@ -48,24 +61,24 @@ func writeFolder(dir string, r *report, figs []figure) (string, error) {
 		}
 	}
 	for _, f := range figs {
-		if err := os.WriteFile(filepath.Join(dir, f.file+".svg"), f.svg, 0o644); err != nil {
+		if err := os.WriteFile(filepath.Join(dir, f.File+".svg"), f.SVG, 0o644); err != nil {
 			return "", err
 		}
-		if err := os.WriteFile(filepath.Join(dir, f.file+".png"), f.png, 0o644); err != nil {
+		if err := os.WriteFile(filepath.Join(dir, f.File+".png"), f.PNG, 0o644); err != nil {
 			return "", err
 		}
 	}
-	js, err := marshalReport(r)
+	js, err := r.JSON()
 	if err != nil {
 		return "", err
 	}
 	if err := os.WriteFile(filepath.Join(dir, "report.json"), js, 0o644); err != nil {
 		return "", err
 	}
-	if err := os.WriteFile(filepath.Join(dir, "summary.md"), markdown(r, figs), 0o644); err != nil {
+	if err := os.WriteFile(filepath.Join(dir, "summary.md"), r.Markdown(), 0o644); err != nil {
 		return "", err
 	}
-	page, err := htmlPage(r, figs)
+	page, err := r.HTML(set)
 	if err != nil {
 		return "", err
 	}
@@ -82,9 +95,11 @@ func mdEscape(s string) string {
 	return strings.ReplaceAll(s, "*", `\*`)
 }
 
-// markdown returns the Markdown summary: the same tables as the text
-// summary, the requirement verdicts, links to the plots and the caution.
-func markdown(r *report, figs []figure) []byte {
+// Markdown returns the Markdown summary (summary.md): the same tables as
+// the text summary, the requirement verdicts, links to the plots and the
+// caution.
+func (r *Report) Markdown() []byte {
+	figs := r.Figures
 	var b bytes.Buffer
 	fmt.Fprintf(&b, "# %s\n\n", mdEscape(r.Name))
 	if r.Description != "" {
@@ -98,15 +113,15 @@ func markdown(r *report, figs []figure) []byte {
 			if !q.Pass {
 				v = "**fail**"
 			}
-			fmt.Fprintf(&b, "| %s | %s | %s | %s |\n", mdEscape(q.Name), withUnit(g(q.Limit), q.Unit), withUnit(g(q.Value), q.Unit), v)
+			fmt.Fprintf(&b, "| %s | %s | %s | %s |\n", mdEscape(typeset(q.Name)), withUnit(g(q.Limit), q.Unit), withUnit(g(q.Value), q.Unit), v)
 		}
 		b.WriteString("\n")
 		for _, q := range r.Requirements {
-			fmt.Fprintf(&b, "- %s\n", mdEscape(q.Message))
+			fmt.Fprintf(&b, "- %s\n", mdEscape(typeset(q.Message)))
 		}
 		b.WriteString("\n")
 	}
-	for _, s := range sections(r) {
+	for _, s := range tables(r) {
 		fmt.Fprintf(&b, "## %s\n\n| quantity | value |\n|---|---|\n", mdEscape(s.title))
 		for _, rw := range s.rows {
 			fmt.Fprintf(&b, "| %s | %s |\n", mdEscape(rw.label), mdEscape(rw.value))
@@ -116,13 +131,13 @@ func markdown(r *report, figs []figure) []byte {
 	if len(figs) > 0 {
 		b.WriteString("## Plots\n\n")
 		for _, f := range figs {
-			fmt.Fprintf(&b, "### %s\n\n![%s](%s.svg)\n\n%s (also as [PNG](%s.png))\n\n", f.title, f.title, f.file, mdEscape(f.caption), f.file)
+			fmt.Fprintf(&b, "### %s\n\n![%s](%s.svg)\n\n%s (also as [PNG](%s.png))\n\n", f.Title, f.Title, f.File, mdEscape(typeset(f.Caption)), f.File)
 		}
 	}
 	if len(r.Warnings) > 0 {
 		b.WriteString("## Warnings\n\n")
 		for _, w := range r.Warnings {
-			fmt.Fprintf(&b, "- %s\n", mdEscape(w))
+			fmt.Fprintf(&b, "- %s\n", mdEscape(typeset(w)))
 		}
 		b.WriteString("\n")
 	}
@@ -147,8 +162,8 @@ type htmlFigure struct {
 
 type htmlData struct {
 	Name, Description string
-	Generated         string
-	Requirements      []requirementResult
+	Generated         string // empty for no time
+	Requirements      []RequirementResult
 	Pass, Total       int
 	Sections          []htmlSection
 	Figures           []htmlFigure
@@ -163,7 +178,7 @@ type htmlSection struct {
 
 type htmlRow struct{ Label, Value string }
 
-var pageTemplate = template.Must(template.New("page").Funcs(template.FuncMap{"g": g, "unit": withUnit}).Parse(`<!DOCTYPE html>
+var pageTemplate = template.Must(template.New("page").Funcs(template.FuncMap{"g": g, "unit": withUnit, "typeset": typeset}).Parse(`<!DOCTYPE html>
 <html lang="en">
 <head>
 <meta charset="utf-8">
@@ -176,13 +191,16 @@ h2 { font-size: 1.25rem; margin-top: 2rem; border-bottom: 1px solid #ccc; paddin
 table { border-collapse: collapse; margin: 0.5rem 0; width: 100%; }
 th, td { text-align: left; padding: 0.3rem 0.6rem; border-bottom: 1px solid #e4e4e4; vertical-align: top; }
 th { background: #f3f3f3; }
-td.num { font-variant-numeric: tabular-nums; }
+td.num { font-variant-numeric: tabular-nums; text-align: right; white-space: nowrap; }
+table.kv { table-layout: fixed; }
+table.kv td:first-child { width: 40%; }
+table.kv td + td { font-variant-numeric: tabular-nums; }
 .pass { color: #00704a; font-weight: 600; }
 .fail { color: #b00020; font-weight: 700; }
 .caution { border-left: 4px solid #e69f00; background: #fff8e6; padding: 0.7rem 1rem; margin: 1.2rem 0; }
 .warnings li { margin: 0.2rem 0; }
 figure { margin: 1.2rem 0; }
-figure svg { width: 100%; height: auto; max-width: 48rem; display: block; }
+figure svg { width: 100%; height: auto; display: block; }
 figcaption { color: #444; font-size: 0.95rem; }
 .muted { color: #666; font-size: 0.9rem; }
 nav a { margin-right: 1rem; }
@@ -191,18 +209,18 @@ nav a { margin-right: 1rem; }
 <body>
 <h1>{{.Name}}</h1>
 {{if .Description}}<p>{{.Description}}</p>{{end}}
-<p class="muted">Loop report generated {{.Generated}} by loopreport (loopwise).</p>
+<p class="muted">Loop report{{if .Generated}} generated {{.Generated}}{{end}} by loopreport (loopwise).</p>
 <nav><a href="#requirements">Requirements</a><a href="#results">Results</a><a href="#plots">Plots</a>{{if .Warnings}}<a href="#warnings">Warnings</a>{{end}}</nav>
 <div class="caution"><strong>Caution.</strong> {{.Caution}}</div>
 <h2 id="requirements">Requirements{{if .Total}}: {{.Pass}} of {{.Total}} met{{end}}</h2>
 {{if .Requirements}}<table>
 <tr><th>requirement</th><th>limit</th><th>measured</th><th>verdict</th><th>in words</th></tr>
-{{range .Requirements}}<tr><td>{{.Name}}</td><td class="num">{{unit (g .Limit) .Unit}}</td><td class="num">{{unit (g .Value) .Unit}}</td><td>{{if .Pass}}<span class="pass">pass</span>{{else}}<span class="fail">fail</span>{{end}}</td><td>{{.Message}}</td></tr>
+{{range .Requirements}}<tr><td>{{typeset .Name}}</td><td class="num">{{unit (g .Limit) .Unit}}</td><td class="num">{{unit (g .Value) .Unit}}</td><td>{{if .Pass}}<span class="pass">pass</span>{{else}}<span class="fail">fail</span>{{end}}</td><td>{{typeset .Message}}</td></tr>
 {{end}}</table>{{else}}<p>The loop file states no requirements.</p>{{end}}
 <div id="results">
 {{range .Sections}}<h2>{{.Title}}</h2>
-<table>
-{{range .Rows}}<tr><td>{{.Label}}</td><td class="num">{{.Value}}</td></tr>
+<table class="kv">
+{{range .Rows}}<tr><td>{{.Label}}</td><td>{{.Value}}</td></tr>
 {{end}}</table>
 {{end}}</div>
 <h2 id="plots">Plots</h2>
@@ -214,23 +232,28 @@ nav a { margin-right: 1rem; }
 </figure>
 {{end}}
 {{if .Warnings}}<h2 id="warnings">Warnings</h2>
-<ul class="warnings">{{range .Warnings}}<li>{{.}}</li>{{end}}</ul>{{end}}
+<ul class="warnings">{{range .Warnings}}<li>{{typeset .}}</li>{{end}}</ul>{{end}}
 </body>
 </html>
 `))
 
-// htmlPage returns the self-contained index.html: plots inlined as SVG,
+// HTML returns the self-contained index.html: plots inlined as SVG,
 // tables of the results, requirement verdicts and the safety caution. It
 // refers to no external file, script, style sheet or font.
-func htmlPage(r *report, figs []figure) ([]byte, error) {
+func (r *Report) HTML(set *WriteSettings) ([]byte, error) {
+	figs := r.Figures
 	pass, total := verdictCounts(r)
+	generated := ""
+	if set != nil && !set.Timestamp.IsZero() {
+		generated = set.Timestamp.UTC().Format("2006-01-02 15:04 UTC")
+	}
 	d := htmlData{
 		Name: r.Name, Description: r.Description,
-		Generated:    time.Now().UTC().Format("2006-01-02 15:04 UTC"),
+		Generated:    generated,
 		Requirements: r.Requirements, Pass: pass, Total: total,
 		Warnings: r.Warnings, Caution: safetyCaution,
 	}
-	for _, s := range sections(r) {
+	for _, s := range tables(r) {
 		hs := htmlSection{Title: s.title}
 		for _, rw := range s.rows {
 			hs.Rows = append(hs.Rows, htmlRow{rw.label, rw.value})
@@ -238,7 +261,7 @@ func htmlPage(r *report, figs []figure) ([]byte, error) {
 		d.Sections = append(d.Sections, hs)
 	}
 	for _, f := range figs {
-		d.Figures = append(d.Figures, htmlFigure{Title: f.title, Caption: f.caption, File: f.file, SVG: inlineSVG(f.svg)})
+		d.Figures = append(d.Figures, htmlFigure{Title: f.Title, Caption: typeset(f.Caption), File: f.File, SVG: inlineSVG(f.SVG)})
 	}
 	var b bytes.Buffer
 	if err := pageTemplate.Execute(&b, d); err != nil {

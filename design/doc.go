@@ -1,0 +1,96 @@
+// Package design answers the inverse of a requirement check: which values
+// of a design variable — the loop gain, or a parameter entering the loop
+// affinely — meet every requirement, exactly, and which region of a plane
+// of two parameters keeps the loop stable and meets them (D-partition).
+//
+//	v, err := design.Gain(loop)                         // L_k = k·L
+//	res, err := design.Solve(v, req, nil)               // sets per requirement, AllMet, Suggested
+//	ks, err := design.Values(v, design.PhaseMarginDeg(60), nil) // every k with PM = 60°
+//	pl, err := design.NewPlane("Kp", "Ki", "(Kp*s + Ki)/s", plant)
+//	pr, err := design.Partition(pl, nil)                // boundaries, regions, unstable-root counts
+//
+// # One variable
+//
+// The loop is L_v = (N₀ + v·N₁)/(D₀ + v·D₁)·e^(−sτ), so the closed-loop
+// characteristic polynomial is affine in v (the loops package locus
+// handles). For each requirement of package spec, Solve returns the set of v
+// in the range where it holds, as disjoint intervals whose ends are labelled
+// with what binds there, and their intersection with the stable set.
+//
+// Each requirement with an exact construction has a finite set of
+// candidate values at which its verdict may change; the verdict is then
+// constant between neighbouring candidates and is decided by one call of
+// spec.CheckWith inside each piece. The candidates are solutions of
+// equations in (ω, v), never of a scan over v:
+//
+//   - stability: the exact stable intervals of locus.Analyze (axis
+//     crossings and the degree drop);
+//   - phase margin φ: L_v(jω) = e^(j(φ−180°)), i.e. U + v·W = 0 with
+//     U = N₀ − e^(jθ)D₀, W = N₁ − e^(jθ)D₁; v is real where the real
+//     polynomial Im(U·conj W) in ω vanishes; plus the values where a gain
+//     crossover appears or disappears (|N_v|² − |D_v|² has a double root in
+//     ω²) and where the phase margin wraps at 180° (L_v = 1);
+//   - gain margin g dB: L_v(jω) = −10^(−g/20), at ω > 0, ω = 0 and the
+//     Nyquist frequency; plus the values where a phase crossover appears or
+//     disappears (a double root of Im(N_v·conj D_v)/ω in ω²);
+//   - peak sensitivity Ms = m: |D_v + N_v|² − m⁻²|D_v|² = F(ω², v) has a
+//     double root in ω² (F = 0 and ∂F/∂ω² = 0): the positive roots of the
+//     resultant in v of the two quadratics in v, polished by Newton's
+//     method on the two real equations; plus the ends of the frequency
+//     axis;
+//   - delay margin τ: N_v(jω)e^(−jωτ) + D_v(jω) = 0 for ω < 2π/τ, a
+//     transcendental equation: its imaginary part is scanned on 4000
+//     frequencies and every sign change refined by Brent's method; plus the
+//     jumps of the phase margin above;
+//   - damping ratio ζ (continuous time): locus.DampingCrossings;
+//   - steady-state error e: (1 − e)·D_v(0) − e·N_v(0) = 0, linear in v.
+//
+// Discrete loops are mapped to the same form by z = (1 + w)/(1 − w). Step
+// metrics (overshoot, rise and settling time), requirement kinds this
+// package does not know, the damping ratio in discrete time and the
+// margins of loops with dead time have no such construction: each piece
+// between stability boundaries is sampled (Settings.Samples values) and
+// every change of the verdict between neighbours is refined by Brent's
+// method on the slack (Brent 1973) to 1e-12 relative; a quantity that
+// jumps (the settling time when the last exit from the band moves to an
+// earlier extremum) is located at its jump and the end is labelled so.
+// RequirementSet.Method says which method gave a set. Right at a stability
+// boundary the step response rings for ever and cannot be measured: the
+// step-metric sets end there by the samples' verdict.
+//
+// # Slack and the suggested value
+//
+// The relative slack of a requirement is (value − limit)/|limit| for a
+// minimum and (limit − value)/|limit| for a maximum (|limit| replaced by 1
+// for a zero limit); −∞ when the value cannot be measured. The suggested
+// value maximises the smallest slack over the requirements inside the set
+// where all hold (samples, then golden-section search, Kiefer 1953). When
+// no value meets them all, the pairs of requirements whose sets do not
+// overlap are named and the value with the largest smallest slack is given
+// as the best compromise, with the requirements it fails.
+//
+// # Conventions
+//
+// Requirements are those of package spec and are judged by spec.CheckWith
+// (unity negative feedback; margins of an unstable loop fail). Frequencies
+// are in rad/s. The range of the variable is Settings.Range, (0, +Inf) by
+// default. Dead time enters the margins exactly and the closed-loop poles
+// through a Padé approximation of Settings.PadeOrder.
+//
+// # Invariants
+//
+// Inputs are never modified; results are fresh values; every function is
+// safe for concurrent use. Bad input returns an error wrapping a sentinel of
+// errors.go, never a panic.
+//
+// References:
+//   - R. P. Brent, Algorithms for Minimization without Derivatives,
+//     Prentice-Hall 1973, ch. 4.
+//   - J. Kiefer, "Sequential minimax search for a maximum", Proc. AMS 4,
+//     1953.
+//   - Yu. I. Neimark, "Search for the parameter values that make an
+//     automatic control system stable" (D-partition), Avtomatika i
+//     Telemekhanika 9(3), 1948, from memory.
+//   - J. Ackermann, Robust Control: The Parameter Space Approach, 2nd ed.,
+//     Springer 2002, from memory.
+package design

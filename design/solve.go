@@ -1,0 +1,767 @@
+package design
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"slices"
+	"sort"
+	"strings"
+
+	"github.com/loopwise/loopwise/internal/rootfind"
+	"github.com/loopwise/loopwise/locus"
+	"github.com/loopwise/loopwise/spec"
+	"github.com/loopwise/loopwise/tf"
+)
+
+// Range is the range of the design variable; ±Inf ends are allowed. The
+// zero value means (0, +Inf).
+type Range struct{ Min, Max float64 }
+
+// Settings controls Solve and Values. A nil *Settings means the defaults;
+// so does the zero value of every field.
+type Settings struct {
+	// Range is the range of the variable searched. If zero, (0, +Inf).
+	Range Range
+	// PadeOrder is the order of the Padé approximation of dead time used
+	// for the closed-loop poles (stability, damping ratio, step metrics),
+	// 1 to 20, as in package spec. If zero, defaults to 6.
+	PadeOrder int
+	// Samples is the number of values per piece of the range (between
+	// stability boundaries) at which a requirement without an exact
+	// boundary construction (step metrics, kinds unknown to this package)
+	// is evaluated to bracket its boundaries, 4 to 1000. If zero,
+	// defaults to 12.
+	Samples int
+}
+
+// Interval is an interval [Lo, Hi] of the design variable with, for each
+// end, what binds there in words ("phase margin = 45° at 1.2 rad/s",
+// "stability boundary: closed-loop poles at ±1.4j", "end of the range").
+// Ends may be ±Inf.
+type Interval struct {
+	Lo, Hi               float64
+	LoBinding, HiBinding string
+}
+
+// Contains reports whether Lo ≤ x ≤ Hi.
+func (iv Interval) Contains(x float64) bool { return iv.Lo <= x && x <= iv.Hi }
+
+// RequirementSet is the set of values of the variable where one requirement
+// holds.
+type RequirementSet struct {
+	// Requirement is the requirement; Key its loop-file key and Name its
+	// words.
+	Requirement spec.Requirement
+	Key, Name   string
+	// Intervals are the values where it holds, ascending and disjoint.
+	Intervals []Interval
+	// Method says how the ends were found: "exact" (solutions of the
+	// boundary equations, see the package documentation) or "bracketing"
+	// (Brent's method on the measured quantity between sampled values).
+	Method string
+}
+
+// Result is the outcome of Solve.
+type Result struct {
+	// Variable is the variable's name ("gain" or the parameter).
+	Variable string
+	// Range is the range searched.
+	Range Range
+	// Stable are the values for which the closed loop is stable (exact,
+	// from package locus; dead time by its Padé approximation).
+	Stable []Interval
+	// Requirements has one set per requirement, in the order given.
+	Requirements []RequirementSet
+	// AllMet are the values where every requirement holds and the closed
+	// loop is stable.
+	AllMet []Interval
+	// Suggested is the value in AllMet that maximises the smallest
+	// relative slack over the requirements (see Slack); NaN when AllMet is
+	// empty. SuggestedSlack is that smallest slack.
+	Suggested, SuggestedSlack float64
+	// Binding says in words what limits the design: the ends of AllMet and
+	// the requirement with the least slack at Suggested, or, when no value
+	// meets them all, the conflicting requirements and the best compromise.
+	Binding string
+	// Conflicts names pairs of requirements whose sets do not overlap
+	// (empty when AllMet is not).
+	Conflicts [][2]string
+	// Compromise is the value of the range (stable values first) with the
+	// largest smallest slack when AllMet is empty (NaN otherwise);
+	// CompromiseFailures are the requirements not met there.
+	Compromise         float64
+	CompromiseFailures []string
+}
+
+// Slack returns the relative slack of a verdict: (value − limit)/|limit| for
+// a minimum, (limit − value)/|limit| for a maximum (|limit| replaced by 1
+// when the limit is 0); +Inf for an infinite margin; −Inf when the value
+// could not be measured or the requirement fails for another reason (an
+// unstable loop). A requirement holds when its slack is ≥ 0.
+func Slack(r spec.Result) float64 {
+	if r.Err != nil || math.IsNaN(r.Value) {
+		return math.Inf(-1)
+	}
+	sc := math.Abs(r.Limit)
+	if sc == 0 {
+		sc = 1
+	}
+	var s float64
+	if isMinimum(r.Requirement) {
+		s = (r.Value - r.Limit) / sc
+	} else {
+		s = (r.Limit - r.Value) / sc
+	}
+	if math.IsNaN(s) {
+		s = math.Inf(-1)
+	}
+	if !r.Pass && s >= 0 {
+		return math.Inf(-1)
+	}
+	return s
+}
+
+func isMinimum(r spec.Requirement) bool { return strings.HasPrefix(r.Name(), "minimum") }
+
+// problem carries the work of one Solve.
+type problem struct {
+	v        Variable
+	f        frame
+	rng      Range
+	pade     int
+	samples  int
+	charLoop tf.TF // b/a with a + v·b the characteristic polynomial
+	stable   []Interval
+	stabC    []candidate
+	cache    map[cacheKey]spec.Report
+}
+
+type cacheKey struct {
+	x     float64
+	group string
+}
+
+func newProblem(v Variable, set *Settings) (*problem, error) {
+	if v.num0.IsZero() && v.num1.IsZero() {
+		return nil, fmt.Errorf("%w: the zero Variable; make it with Gain, Parameter or ParameterText", ErrInvalidInput)
+	}
+	p := &problem{v: v, rng: Range{0, math.Inf(1)}, pade: 6, samples: 12, cache: map[cacheKey]spec.Report{}}
+	if set != nil {
+		if set.Range != (Range{}) {
+			p.rng = set.Range
+		}
+		if set.PadeOrder != 0 {
+			p.pade = set.PadeOrder
+		}
+		if set.Samples != 0 {
+			p.samples = set.Samples
+		}
+	}
+	if math.IsNaN(p.rng.Min) || math.IsNaN(p.rng.Max) || !(p.rng.Min < p.rng.Max) {
+		return nil, fmt.Errorf("%w: the range [%v, %v] of %s is empty or NaN", ErrInvalidInput, p.rng.Min, p.rng.Max, v.name)
+	}
+	if p.pade < 1 || p.pade > 20 {
+		return nil, fmt.Errorf("%w: PadeOrder %d is outside 1…20", ErrInvalidInput, p.pade)
+	}
+	if p.samples < 4 || p.samples > 1000 {
+		return nil, fmt.Errorf("%w: Samples %d is outside 4…1000", ErrInvalidInput, p.samples)
+	}
+	p.f = newFrame(v)
+	a, b, err := v.rationalCharacteristic(p.pade)
+	if err != nil {
+		return nil, err
+	}
+	if p.charLoop, err = tf.FromPolys(b, a, v.ts); err != nil {
+		return nil, fmt.Errorf("design: characteristic polynomial of %s: %w", v.name, err)
+	}
+	if err := p.stability(); err != nil {
+		return nil, err
+	}
+	return p, nil
+}
+
+// rationalCharacteristic returns a, b with the closed-loop characteristic
+// polynomial a + v·b, dead time replaced by a Padé approximation of the
+// given order (continuous time) or by the exact power of z (discrete).
+func (v Variable) rationalCharacteristic(order int) (a, b polyPair, err error) {
+	n0, n1, d0, d1 := v.num0, v.num1, v.den0, v.den1
+	if v.delay > 0 {
+		pd, err := tf.PadeDelay(v.delay, order)
+		if v.ts > 0 {
+			pd, err = tf.FromPolys(onePoly, onePoly, v.ts)
+			if err == nil {
+				pd, err = pd.WithDelay(v.delay)
+			}
+			if err == nil {
+				pd, err = pd.Pade(order)
+			}
+		}
+		if err != nil {
+			return a, b, fmt.Errorf("%w: dead time of %v s: %w", ErrUnsupported, v.delay, err)
+		}
+		pn, pdd := pd.Num(), pd.Den()
+		n0, n1 = n0.Mul(pn), n1.Mul(pn)
+		d0, d1 = d0.Mul(pdd), d1.Mul(pdd)
+	}
+	return d0.Add(n0), d1.Add(n1), nil
+}
+
+func (p *problem) locusRange() locus.Range { return locus.Range{Min: p.rng.Min, Max: p.rng.Max} }
+
+// stability computes the stable intervals and labels their ends.
+func (p *problem) stability() error {
+	an, err := locus.Analyze(p.charLoop, &locus.Settings{Range: p.locusRange(), Variable: p.v.name})
+	if err != nil {
+		return fmt.Errorf("design: stability of the closed loop over %s: %w", p.v.name, err)
+	}
+	for _, c := range an.AxisCrossings {
+		var where string
+		switch {
+		case c.FrequencyRadPerSec == 0:
+			where = "a closed-loop pole at " + map[bool]string{false: "s = 0", true: "z = 1"}[p.v.ts > 0]
+		case p.v.ts > 0 && math.Abs(c.FrequencyRadPerSec*p.v.ts-math.Pi) < 1e-12:
+			where = "a closed-loop pole at z = −1"
+		default:
+			where = fmt.Sprintf("closed-loop poles at %s (%s rad/s)", fmtPole(c.Point), fmtNum(c.FrequencyRadPerSec))
+		}
+		p.stabC = append(p.stabC, candidate{c.Value, "stability boundary: " + where})
+	}
+	for _, s := range an.StableIntervals {
+		iv := Interval{Lo: s.Lo, Hi: s.Hi}
+		iv.LoBinding = p.endLabel(s.Lo, nil)
+		iv.HiBinding = p.endLabel(s.Hi, nil)
+		p.stable = append(p.stable, iv)
+	}
+	return nil
+}
+
+// sameValue reports whether x and y agree to 1e-9 relative.
+func sameValue(x, y float64) bool {
+	return x == y || math.Abs(x-y) <= 1e-9*math.Max(1e-300, math.Max(math.Abs(x), math.Abs(y)))
+}
+
+// endLabel names what binds at x: one of own (the requirement's
+// candidates), a stability boundary, a range end, or a degree drop.
+func (p *problem) endLabel(x float64, own []candidate) string {
+	if x == p.rng.Min || x == p.rng.Max {
+		return "end of the range"
+	}
+	for _, c := range own {
+		if sameValue(c.value, x) {
+			return c.label
+		}
+	}
+	for _, c := range p.stabC {
+		if sameValue(c.value, x) {
+			return c.label
+		}
+	}
+	if x == p.rng.Min || x == p.rng.Max {
+		return "end of the range"
+	}
+	if math.IsInf(x, 0) {
+		return "unbounded"
+	}
+	a, b, _ := p.v.rationalCharacteristic(p.pade)
+	if deg := max(a.Degree(), b.Degree()); deg >= 0 && sameValue(-a.Coef(deg)/b.Coef(deg), x) {
+		return "stability boundary: a closed-loop pole at infinity (the degree of the characteristic polynomial drops)"
+	}
+	return ""
+}
+
+// eval checks the requirements at x, cached.
+func (p *problem) eval(x float64, group string, req spec.Requirements) spec.Report {
+	k := cacheKey{x, group}
+	if r, ok := p.cache[k]; ok {
+		return r
+	}
+	l, err := p.v.LoopAt(x)
+	var rep spec.Report
+	if err != nil {
+		for _, r := range req {
+			rep.Results = append(rep.Results, spec.Result{Requirement: r, Name: r.Name(), Limit: r.Limit(), Value: math.NaN(), Err: err})
+		}
+	} else {
+		rep = spec.CheckWith(l, req, &spec.Settings{PadeOrder: p.pade})
+	}
+	p.cache[k] = rep
+	return rep
+}
+
+// midpoint returns a representative inner value of (lo, hi).
+func midpoint(lo, hi float64) float64 {
+	switch {
+	case math.IsInf(lo, -1) && math.IsInf(hi, 1):
+		return 1
+	case math.IsInf(hi, 1):
+		return lo + math.Max(1, math.Abs(lo))
+	case math.IsInf(lo, -1):
+		return hi - math.Max(1, math.Abs(hi))
+	case lo > 0 && hi > 4*lo:
+		return math.Sqrt(lo * hi)
+	case hi < 0 && lo < 4*hi:
+		return -math.Sqrt(lo * hi)
+	}
+	return lo + (hi-lo)/2
+}
+
+// samplesIn returns n values inside (lo, hi): geometric over wide positive
+// spans, twelve decades beyond a finite end for an infinite end, linear
+// otherwise. No value lies closer to a finite end than half a step: near a
+// stability boundary the step response rings for very long, and the
+// status there is that of the boundary's neighbourhood anyway.
+func samplesIn(lo, hi float64, n int) []float64 {
+	var out []float64
+	switch {
+	case math.IsInf(lo, -1) && math.IsInf(hi, 1):
+		for i := range n {
+			t := -6 + 12*float64(i)/float64(n-1)
+			out = append(out, math.Copysign(math.Pow(10, math.Abs(t)-4), t))
+		}
+	case math.IsInf(hi, 1):
+		s := math.Max(1, math.Abs(lo))
+		for i := range n {
+			out = append(out, lo+s*math.Pow(10, -6+12*float64(i)/float64(n-1)))
+		}
+	case math.IsInf(lo, -1):
+		s := math.Max(1, math.Abs(hi))
+		for i := range n {
+			out = append(out, hi-s*math.Pow(10, 6-12*float64(i)/float64(n-1)))
+		}
+	case lo > 0 && hi > 20*lo:
+		for i := range n {
+			out = append(out, lo*math.Pow(hi/lo, (float64(i)+0.5)/float64(n)))
+		}
+	default:
+		for i := range n {
+			out = append(out, lo+(hi-lo)*(float64(i)+0.5)/float64(n))
+		}
+	}
+	slices.Sort(out)
+	return slices.Compact(out)
+}
+
+// Solve returns, for each requirement, the exact set of values of the
+// variable in the range where it holds, the set where all hold (and the
+// loop is stable), and a suggested value. See the package documentation for
+// the methods. Requirements of kinds this package has no boundary
+// construction for (new kinds of package spec) are bracketed on the value
+// spec.CheckWith measures.
+func Solve(v Variable, req spec.Requirements, set *Settings) (Result, error) {
+	p, err := newProblem(v, set)
+	if err != nil {
+		return Result{}, err
+	}
+	for _, r := range req {
+		if r.Key() == "" || math.IsNaN(r.Limit()) || math.IsInf(r.Limit(), 0) {
+			return Result{}, fmt.Errorf("%w: requirement %q has no valid kind or a non-finite limit", ErrInvalidInput, r.String())
+		}
+	}
+	res := Result{Variable: v.name, Range: p.rng, Stable: p.stable, Suggested: math.NaN(), SuggestedSlack: math.NaN(), Compromise: math.NaN()}
+	res.Requirements = make([]RequirementSet, len(req))
+	var exact, generic spec.Requirements
+	var exactIdx, genericIdx []int
+	own := make([][]candidate, len(req))
+	var all []candidate
+	for i, r := range req {
+		res.Requirements[i] = RequirementSet{Requirement: r, Key: r.Key(), Name: r.Name()}
+		c, ok := p.exactCandidates(r)
+		if ok {
+			exact = append(exact, r)
+			exactIdx = append(exactIdx, i)
+			own[i] = c
+			all = append(all, c...)
+			res.Requirements[i].Method = "exact"
+		} else {
+			generic = append(generic, r)
+			genericIdx = append(genericIdx, i)
+			res.Requirements[i].Method = "bracketing"
+		}
+	}
+	if len(exact) > 0 {
+		p.solveExact(exact, exactIdx, own, all, &res)
+	}
+	if len(generic) > 0 {
+		p.solveGeneric(generic, genericIdx, &res)
+	}
+	p.intersect(&res)
+	p.suggest(req, &res)
+	return res, nil
+}
+
+// breakpoints returns the sorted distinct values of cs inside the range,
+// with the range ends and the stability ends.
+func (p *problem) breakpoints(cs []candidate) []float64 {
+	xs := []float64{p.rng.Min, p.rng.Max}
+	for _, c := range cs {
+		if c.value > p.rng.Min && c.value < p.rng.Max && !math.IsNaN(c.value) {
+			xs = append(xs, c.value)
+		}
+	}
+	for _, s := range p.stable {
+		xs = append(xs, s.Lo, s.Hi)
+	}
+	slices.Sort(xs)
+	out := xs[:1]
+	for _, x := range xs[1:] {
+		if !sameValue(x, out[len(out)-1]) {
+			out = append(out, x)
+		}
+	}
+	return out
+}
+
+func (p *problem) solveExact(req spec.Requirements, idx []int, own [][]candidate, all []candidate, res *Result) {
+	xs := p.breakpoints(all)
+	pass := make([][]bool, len(req))
+	for j := 0; j+1 < len(xs); j++ {
+		rep := p.eval(midpoint(xs[j], xs[j+1]), "exact", req)
+		for i := range req {
+			pass[i] = append(pass[i], rep.Results[i].Pass)
+		}
+	}
+	for i := range req {
+		k := idx[i]
+		res.Requirements[k].Intervals = p.runs(xs, pass[i], own[k])
+	}
+}
+
+// runs merges consecutive passing pieces [xs[j], xs[j+1]] into intervals.
+func (p *problem) runs(xs []float64, pass []bool, own []candidate) []Interval {
+	var out []Interval
+	for j := 0; j < len(pass); j++ {
+		if !pass[j] {
+			continue
+		}
+		lo := xs[j]
+		for j+1 < len(pass) && pass[j+1] {
+			j++
+		}
+		hi := xs[j+1]
+		out = append(out, Interval{Lo: lo, Hi: hi, LoBinding: p.endLabel(lo, own), HiBinding: p.endLabel(hi, own)})
+	}
+	return out
+}
+
+// solveGeneric brackets the boundaries of requirements without an exact
+// construction: the range is cut at the stability boundaries, each piece
+// sampled, and every change between met and not met between neighbouring
+// samples refined by Brent's method on the slack to 1e-12 relative.
+func (p *problem) solveGeneric(req spec.Requirements, idx []int, res *Result) {
+	xs := p.breakpoints(nil)
+	var samples []float64
+	for j := 0; j+1 < len(xs); j++ {
+		samples = append(samples, samplesIn(xs[j], xs[j+1], p.samples)...)
+	}
+	for i := range req {
+		slack := func(x float64) float64 {
+			s := Slack(p.eval(x, "generic", req).Results[i])
+			return math.Max(-1e100, math.Min(1e100, s))
+		}
+		var ivs []Interval
+		start := math.NaN()
+		startLabel := ""
+		prevX := math.NaN()
+		prevS := 0.0
+		for j, x := range samples {
+			s := slack(x)
+			// A breakpoint (stability boundary) between samples ends a run.
+			if j > 0 {
+				if b, ok := breakBetween(xs, prevX, x); ok && !math.IsNaN(start) {
+					ivs = append(ivs, Interval{Lo: start, Hi: b, LoBinding: startLabel, HiBinding: p.endLabel(b, nil)})
+					start = math.NaN()
+					prevS = -1
+				}
+			}
+			met := s >= 0
+			if met && math.IsNaN(start) {
+				if j == 0 || prevS < 0 && !sameSegment(xs, prevX, x) {
+					b := pieceStart(xs, x)
+					start, startLabel = b, p.endLabel(b, nil)
+				} else {
+					e := p.refine(slack, prevX, x, prevS, s)
+					start, startLabel = e, p.boundLabel(req, i, e)
+				}
+			} else if !met && !math.IsNaN(start) {
+				e := p.refine(slack, prevX, x, prevS, s)
+				ivs = append(ivs, Interval{Lo: start, Hi: e, LoBinding: startLabel, HiBinding: p.boundLabel(req, i, e)})
+				start = math.NaN()
+			}
+			prevX, prevS = x, s
+		}
+		if !math.IsNaN(start) {
+			b := pieceEnd(xs, prevX)
+			ivs = append(ivs, Interval{Lo: start, Hi: b, LoBinding: startLabel, HiBinding: p.endLabel(b, nil)})
+		}
+		res.Requirements[idx[i]].Intervals = mergeTouching(ivs)
+	}
+}
+
+// breakBetween returns a breakpoint strictly between a and b.
+func breakBetween(xs []float64, a, b float64) (float64, bool) {
+	for _, x := range xs {
+		if x > a && x < b {
+			return x, true
+		}
+	}
+	return 0, false
+}
+
+func sameSegment(xs []float64, a, b float64) bool {
+	_, ok := breakBetween(xs, a, b)
+	return !ok
+}
+
+// pieceStart returns the largest breakpoint ≤ x; pieceEnd the smallest ≥ x.
+func pieceStart(xs []float64, x float64) float64 {
+	i := sort.SearchFloat64s(xs, x)
+	if i > 0 {
+		return xs[i-1]
+	}
+	return xs[0]
+}
+
+func pieceEnd(xs []float64, x float64) float64 {
+	i := sort.SearchFloat64s(xs, x)
+	if i < len(xs) {
+		return xs[i]
+	}
+	return xs[len(xs)-1]
+}
+
+func mergeTouching(ivs []Interval) []Interval {
+	var out []Interval
+	for _, iv := range ivs {
+		if n := len(out); n > 0 && sameValue(out[n-1].Hi, iv.Lo) {
+			out[n-1].Hi, out[n-1].HiBinding = iv.Hi, iv.HiBinding
+			continue
+		}
+		out = append(out, iv)
+	}
+	return out
+}
+
+// refine returns the point between a and b where the slack changes sign,
+// by Brent's method to 1e-12 relative (a jump of the quantity is located
+// as well: Brent's bracket shrinks onto it).
+func (p *problem) refine(f func(float64) float64, a, b, fa, fb float64) float64 {
+	return rootfind.Brent(f, a, b, fa, fb, 1e-12)
+}
+
+func brent(f func(float64) float64, a, b, fa, fb float64) float64 {
+	return rootfind.Brent(f, a, b, fa, fb, 1e-14)
+}
+
+// boundLabel describes a bracketed end: the quantity equals its limit
+// there, or it jumps past it.
+func (p *problem) boundLabel(req spec.Requirements, i int, x float64) string {
+	r := p.eval(x, "generic", req).Results[i]
+	lim := r.Limit
+	if !math.IsNaN(r.Value) && math.Abs(r.Value-lim) <= 1e-6*math.Max(math.Abs(lim), 1e-12) {
+		return strings.TrimPrefix(strings.TrimPrefix(r.Name, "minimum "), "maximum ") + " = " + fmtNum(lim) + unitSuffix(r.Requirement)
+	}
+	return fmt.Sprintf("%s jumps past its limit %s%s", strings.TrimPrefix(strings.TrimPrefix(r.Name, "minimum "), "maximum "), fmtNum(lim), unitSuffix(r.Requirement))
+}
+
+func unitSuffix(r spec.Requirement) string {
+	u := r.Unit()
+	switch u {
+	case "":
+		return ""
+	case "°", "%":
+		if u == "%" {
+			return " %"
+		}
+		return u
+	}
+	return " " + u
+}
+
+// intersect forms AllMet: the stable set intersected with every
+// requirement's set.
+func (p *problem) intersect(res *Result) {
+	cur := slices.Clone(p.stable)
+	for _, rs := range res.Requirements {
+		cur = intersectSets(cur, rs.Intervals)
+	}
+	res.AllMet = cur
+}
+
+func intersectSets(a, b []Interval) []Interval {
+	var out []Interval
+	for _, x := range a {
+		for _, y := range b {
+			lo, hi := x.Lo, x.Hi
+			ll, hl := x.LoBinding, x.HiBinding
+			if y.Lo > lo || (y.Lo == lo && y.LoBinding != "" && ll == "end of the range") {
+				lo, ll = y.Lo, y.LoBinding
+			}
+			if y.Hi < hi || (y.Hi == hi && y.HiBinding != "" && hl == "end of the range") {
+				hi, hl = y.Hi, y.HiBinding
+			}
+			if lo < hi {
+				out = append(out, Interval{lo, hi, ll, hl})
+			}
+		}
+	}
+	return out
+}
+
+// suggest picks the value with the largest smallest slack.
+func (p *problem) suggest(req spec.Requirements, res *Result) {
+	if len(req) == 0 {
+		return
+	}
+	minSlack := func(x float64) (float64, string) {
+		rep := p.eval(x, "all", req)
+		best, which := math.Inf(1), ""
+		for _, r := range rep.Results {
+			if s := Slack(r); s < best || which == "" {
+				best, which = s, r.Name
+			}
+		}
+		return best, which
+	}
+	search := func(ivs []Interval) (float64, float64) {
+		bx, bs := math.NaN(), math.Inf(-1)
+		for _, iv := range ivs {
+			xs := samplesIn(iv.Lo, iv.Hi, 9)
+			if len(xs) > 2 && !math.IsInf(iv.Lo, 0) {
+				xs = xs[1:]
+			}
+			if len(xs) > 2 && !math.IsInf(iv.Hi, 0) {
+				xs = xs[:len(xs)-1]
+			}
+			vals := make([]float64, len(xs))
+			for j, x := range xs {
+				vals[j], _ = minSlack(x)
+			}
+			j := argmax(vals)
+			if vals[j] <= bs {
+				continue
+			}
+			lo, hi := iv.Lo, iv.Hi
+			if j > 0 {
+				lo = xs[j-1]
+			}
+			if j+1 < len(xs) {
+				hi = xs[j+1]
+			}
+			x, s := xs[j], vals[j]
+			if !math.IsInf(lo, 0) && !math.IsInf(hi, 0) {
+				x, s = golden(func(x float64) float64 { v, _ := minSlack(x); return v }, lo, hi, xs[j], vals[j], 14)
+			}
+			bx, bs = x, s
+		}
+		return bx, bs
+	}
+	if len(res.AllMet) > 0 {
+		x, s := search(res.AllMet)
+		res.Suggested, res.SuggestedSlack = x, s
+		_, which := minSlack(x)
+		var ends []string
+		for _, iv := range res.AllMet {
+			ends = append(ends, fmt.Sprintf("[%s, %s] (lower end: %s; upper end: %s)", fmtNum(iv.Lo), fmtNum(iv.Hi), orNone(iv.LoBinding), orNone(iv.HiBinding)))
+		}
+		res.Binding = fmt.Sprintf("every requirement holds for %s in %s; the suggested value %s = %s leaves a relative slack of at least %s, least on the %s",
+			res.Variable, strings.Join(ends, " and "), res.Variable, fmtNum(x), fmtSlack(s), which)
+		return
+	}
+	for i := range res.Requirements {
+		for j := i + 1; j < len(res.Requirements); j++ {
+			a, b := res.Requirements[i], res.Requirements[j]
+			if len(intersectSets(intersectSets(p.stable, a.Intervals), b.Intervals)) == 0 {
+				res.Conflicts = append(res.Conflicts, [2]string{a.Requirement.String(), b.Requirement.String()})
+			}
+		}
+	}
+	where := p.stable
+	if len(where) == 0 {
+		where = []Interval{{Lo: p.rng.Min, Hi: p.rng.Max}}
+	}
+	x, _ := search(where)
+	res.Compromise = x
+	if !math.IsNaN(x) {
+		for _, r := range p.eval(x, "all", req).Results {
+			if !r.Pass {
+				res.CompromiseFailures = append(res.CompromiseFailures, r.Requirement.String())
+			}
+		}
+	}
+	var conf []string
+	for _, c := range res.Conflicts {
+		conf = append(conf, c[0]+" against "+c[1])
+	}
+	switch {
+	case len(p.stable) == 0:
+		res.Binding = fmt.Sprintf("no value of %s in the range gives a stable closed loop", res.Variable)
+	case len(conf) > 0:
+		res.Binding = fmt.Sprintf("no value of %s in the range meets every requirement: %s; the best compromise %s = %s fails %s",
+			res.Variable, strings.Join(conf, "; "), res.Variable, fmtNum(x), strings.Join(res.CompromiseFailures, ", "))
+	default:
+		res.Binding = fmt.Sprintf("no value of %s in the range meets every requirement at once (each pair overlaps, but not all of them); the best compromise %s = %s fails %s",
+			res.Variable, res.Variable, fmtNum(x), strings.Join(res.CompromiseFailures, ", "))
+	}
+}
+
+func orNone(s string) string {
+	if s == "" {
+		return "—"
+	}
+	return s
+}
+
+func fmtSlack(s float64) string {
+	if math.IsInf(s, 1) {
+		return "infinite"
+	}
+	return fmt.Sprintf("%.3g %%", 100*s)
+}
+
+func argmax(v []float64) int {
+	j := 0
+	for i, x := range v {
+		if x > v[j] {
+			j = i
+		}
+	}
+	return j
+}
+
+// golden maximises f on [lo, hi] by golden-section search (Kiefer 1953),
+// starting from the best known point (x0, f0); it returns the best point
+// seen.
+func golden(f func(float64) float64, lo, hi, x0, f0 float64, iters int) (float64, float64) {
+	const r = 0.6180339887498949
+	bx, bf := x0, f0
+	a, b := lo, hi
+	c, d := b-r*(b-a), a+r*(b-a)
+	fc, fd := f(c), f(d)
+	for range iters {
+		if fc > bf {
+			bx, bf = c, fc
+		}
+		if fd > bf {
+			bx, bf = d, fd
+		}
+		if fc > fd {
+			b, d, fd = d, c, fc
+			c = b - r*(b-a)
+			fc = f(c)
+		} else {
+			a, c, fc = c, d, fd
+			d = a + r*(b-a)
+			fd = f(d)
+		}
+	}
+	if fc > bf {
+		bx, bf = c, fc
+	}
+	if fd > bf {
+		bx, bf = d, fd
+	}
+	return bx, bf
+}
+
+var _ = errors.Is
