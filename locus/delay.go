@@ -168,9 +168,11 @@ func DelayedRoots(loop tf.TF, gain float64, set *DelaySettings) (DelayRoots, err
 	if err != nil {
 		switch {
 		case errors.Is(err, quasipoly.ErrTooMany):
-			return out, fmt.Errorf("%w: %v (raise DelaySettings.MaxRoots or the abscissa)", ErrInvalidSettings, err)
-		case errors.Is(err, quasipoly.ErrOnContour):
-			return out, fmt.Errorf("%w: %v (move DelaySettings.MinRealPart off the root)", ErrInvalidSettings, err)
+			return out, fmt.Errorf("%w: %v (raise the root limit or the abscissa)", ErrInvalidSettings, err)
+		case errors.Is(err, quasipoly.ErrBudget):
+			return out, fmt.Errorf("%w: %v", ErrTraceFailed, err)
+		case errors.Is(err, quasipoly.ErrOnContour) && s.Region == Above:
+			return out, fmt.Errorf("%w: %v (move the abscissa off the root)", ErrInvalidSettings, err)
 		}
 		return out, fmt.Errorf("%w: roots of %v with gain %v: %v", ErrTraceFailed, loop, gain, err)
 	}

@@ -83,6 +83,9 @@ type ClosedLoopResponse struct {
 const (
 	collocDegree = 14
 	collocReach  = 0.5
+	// maxIntervals bounds the collocation intervals of one run (the
+	// output at the nodes takes 120 bytes per interval).
+	maxIntervals = 200_000
 )
 
 // delayRun is the prepared closed loop: the collocation operators of one
@@ -259,7 +262,7 @@ func prepareDelay(loop tf.TF, s ClosedLoopSettings) (*delayRun, error) {
 		return nil, fmt.Errorf("%w: eigenvalues of the realisation of %v did not converge", ErrNotFinite, loop)
 	}
 	run.M = max(1, int(math.Ceil(tau*rho/collocReach)))
-	if run.M > maxSamples {
+	if run.M > maxIntervals {
 		return nil, fmt.Errorf("%w: dead time %v s against poles of modulus %v needs %d collocation intervals per delay", ErrSettings, tau, rho, run.M)
 	}
 	run.h = tau / float64(run.M)
@@ -408,11 +411,11 @@ func (r *delayRun) operators(A *mat.Dense, b1, b2, c []float64, d1, d2 float64) 
 func (r *delayRun) integrate(H float64) ([][]float64, float64, error) {
 	p := collocDegree
 	count := max(1, int(math.Ceil(H/r.h-1e-9)))
-	if count > maxSamples {
-		return nil, 0, fmt.Errorf("%w: horizon %v s needs %d collocation intervals of %v s", ErrSettings, H, count, r.h)
+	if count > maxIntervals {
+		return nil, 0, fmt.Errorf("%w: horizon %v s needs %d collocation intervals of %v s (at most %d)", ErrSettings, H, count, r.h, maxIntervals)
 	}
 	ys := make([][]float64, count)
-	es := make([][]float64, count) // e at the nodes
+	es := make([][]float64, r.M) // e at the nodes of the last M intervals (ring)
 	x := make([]float64, r.nx)
 	nx := make([]float64, r.nx)
 	zero := make([]float64, p+1)
@@ -421,7 +424,7 @@ func (r *delayRun) integrate(H float64) ([][]float64, float64, error) {
 	for i := range count {
 		u := zero
 		if i >= r.M {
-			u = es[i-r.M]
+			u = es[i%r.M]
 		}
 		uf := 0.0
 		if r.filt && i >= r.M {
@@ -456,7 +459,7 @@ func (r *delayRun) integrate(H float64) ([][]float64, float64, error) {
 			nx[k] = v
 		}
 		x, nx = nx, x
-		ys[i], es[i] = y, e
+		ys[i], es[i%r.M] = y, e
 		tail = math.Max(tail, chebTail(y))
 	}
 	if peak == 0 {

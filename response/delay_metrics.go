@@ -93,14 +93,19 @@ func (r *delayRun) finalValue(loop tf.TF, s ClosedLoopSettings) (float64, error)
 	case OutputDisturbance:
 		f = d0 / c
 	default:
-		fn, fd := s.Filter.Num().Eval(0), s.Filter.Den().Eval(0)
-		switch {
-		case fd != 0:
-			f = fn / fd * d0 / c
-		case d0 == 0:
-			return 0, fmt.Errorf("%w: the filter and the loop both integrate; the final value needs their common factor removed", ErrDelay)
-		default:
-			return 0, fmt.Errorf("%w: the filter %v integrates and the loop does not: the output grows without bound", ErrUnstable, s.Filter)
+		// lim_{s→0} F·D/(D + N), with the powers of s that F's and the
+		// loop's integrators share cancelled exactly.
+		a := s.Filter.Num().Mul(loop.Den()).Ascending()
+		b := s.Filter.Den().Mul(loop.Den().Add(loop.Num())).Ascending()
+		i := 0
+		for i < len(b) && b[i] == 0 {
+			if i < len(a) && a[i] != 0 {
+				return 0, fmt.Errorf("%w: the filter %v integrates more often than the loop: the output grows without bound", ErrUnstable, s.Filter)
+			}
+			i++
+		}
+		if i < len(a) && i < len(b) {
+			f = a[i] / b[i]
 		}
 	}
 	if f == 0 {

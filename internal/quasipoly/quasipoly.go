@@ -55,6 +55,8 @@ var (
 	ErrOnContour = errors.New("quasipoly: a root lies on the counting contour")
 	// ErrTooMany reports a region holding more roots than allowed.
 	ErrTooMany = errors.New("quasipoly: too many roots in the region")
+	// ErrBudget reports a count that needs more steps than allowed.
+	ErrBudget = errors.New("quasipoly: counting budget exceeded")
 	// ErrNotFound reports roots counted in the region but not found.
 	ErrNotFound = errors.New("quasipoly: roots counted but not found")
 )
@@ -171,8 +173,10 @@ func (q Q) derivBound(a, b complex128) float64 {
 	return dd + e*(nd+q.Tau*nv)
 }
 
-// maxContourSteps bounds the steps of one winding-number computation.
-const maxContourSteps = 2_000_000
+// maxContourSteps bounds the steps of one winding-number computation
+// (about 10 ms each 100 000). A dead time very long against the loop's
+// time scale (τ·R in the hundreds of thousands) exceeds it.
+const maxContourSteps = 200_000
 
 // winding returns the change of arg f along the polygon through pts
 // (closed), divided by 2π and rounded.
@@ -211,7 +215,7 @@ func (q Q) winding(pts []complex128) (int, error) {
 			total += cmplx.Phase(nf / fa)
 			fa = nf
 			if steps++; steps > maxContourSteps {
-				return 0, fmt.Errorf("%w: the argument principle needed more than %d steps", ErrOnContour, maxContourSteps)
+				return 0, fmt.Errorf("%w: the argument principle needs more than %d steps (dead time %g s against roots up to |s| = %g)", ErrBudget, maxContourSteps, q.Tau, cmplx.Abs(b))
 			}
 		}
 	}
@@ -225,6 +229,11 @@ func (q Q) Count(sigma0 float64) (int, float64, error) {
 	R := q.Radius(sigma0)
 	if sigma0 >= R {
 		return 0, R, nil
+	}
+	// Each contour step covers at most about 1/τ of the axis where
+	// e^(−sτ) turns: refuse counts that cannot finish within the budget.
+	if R*q.Tau > maxContourSteps/4 || R > 1e150 {
+		return 0, R, fmt.Errorf("%w: the roots with Re s > %g reach |s| = %.3g, which with a dead time of %g s is too many turns of e^(−sτ) to count", ErrBudget, sigma0, R, q.Tau)
 	}
 	pts := []complex128{complex(sigma0, -R), complex(R, -R), complex(R, R), complex(sigma0, R)}
 	c, err := q.winding(pts)
