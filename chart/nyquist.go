@@ -64,20 +64,7 @@ func Nyquist(n margins.Nyquist, m *margins.Result, set *NyquistSettings) (*Figur
 	if len(n.Positive) == 0 && len(n.Mirror) == 0 {
 		return nil, fmt.Errorf("%w: Nyquist curve has no points", ErrNoData)
 	}
-	th := DefaultTheme()
-	title := "Nyquist curve of the loop"
-	var size Size
-	viewR := 0.0
-	if set != nil {
-		if set.Theme != nil {
-			th = set.Theme.withDefaults()
-		}
-		if set.Title != "" {
-			title = set.Title
-		}
-		size, viewR = set.Size, set.ViewRadius
-	}
-	p := newPanel(th, title, "real part of L", "imaginary part of L")
+	th, size, viewR, p := set.panel("Nyquist curve of the loop")
 	avoid := &obstacles{}
 
 	// Key points that must be in view.

@@ -31,20 +31,7 @@ func RobustNyquist(b robust.NyquistBand, set *NyquistSettings) (*Figure, error) 
 	if len(b.Curves) == 0 {
 		return nil, fmt.Errorf("%w: the band has no curve", ErrNoData)
 	}
-	th := DefaultTheme()
-	title := "Nyquist curves over the parameter box"
-	var size Size
-	viewR := 0.0
-	if set != nil {
-		if set.Theme != nil {
-			th = set.Theme.withDefaults()
-		}
-		if set.Title != "" {
-			title = set.Title
-		}
-		size, viewR = set.Size, set.ViewRadius
-	}
-	p := newPanel(th, title, "real part of L", "imaginary part of L")
+	th, size, viewR, p := set.panel("Nyquist curves over the parameter box")
 	avoid := &obstacles{}
 	p.Add(&hLine{Y: 0, LineStyle: draw.LineStyle{Color: th.Guide, Width: th.GuideWidth * 0.8}})
 	p.Add(&vLine{X: 0, LineStyle: draw.LineStyle{Color: th.Guide, Width: th.GuideWidth * 0.8}})
@@ -127,6 +114,23 @@ func RobustNyquist(b robust.NyquistBand, set *NyquistSettings) (*Figure, error) 
 	f := newFigure(p, size, th)
 	f.square[0] = true
 	return f, nil
+}
+
+// panel resolves the settings' theme, size and view radius and returns the
+// complex-plane panel of a Nyquist figure with the given default title
+// (shared by Nyquist and RobustNyquist).
+func (s *NyquistSettings) panel(defaultTitle string) (th Theme, size Size, viewR float64, p *plot.Plot) {
+	th, title := DefaultTheme(), defaultTitle
+	if s != nil {
+		if s.Theme != nil {
+			th = s.Theme.withDefaults()
+		}
+		if s.Title != "" {
+			title = s.Title
+		}
+		size, viewR = s.Size, s.ViewRadius
+	}
+	return th, size, viewR, newPanel(th, title, "real part of L", "imaginary part of L")
 }
 
 // rectangles fills axis-aligned rectangles given as [xmin, xmax, ymin, ymax].

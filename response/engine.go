@@ -73,7 +73,7 @@ func stepLoop(phi []float64, x, g, c []float64, d float64, out []float64) {
 }
 
 // addFree adds the free response Scale[0]·z[0] (z advanced by Φ) to out.
-func (s *system) addFree(phi []float64, z []float64, out []float64) {
+func (s *system) addFree(phi transition, z []float64, out []float64) {
 	if z == nil {
 		return
 	}
@@ -85,9 +85,98 @@ func (s *system) addFree(phi []float64, z []float64, out []float64) {
 	y := w[0] * z[0]
 	for k := range out {
 		out[k] += y
-		y = advance(phi, z, nz, zero, 0, nil, 0, w)
+		y = phi.advance(z, nz, zero, 0, w)
 		z, nz = nz, z
 	}
+}
+
+// transition is the matrix Φ of one sample, x ← Φ·x + g·a, stored densely
+// (row-major) or, when at most a quarter of its entries are nonzero, as
+// the nonzero entries of each row (compressed sparse rows; Y. Saad,
+// Iterative Methods for Sparse Linear Systems, 2nd ed., SIAM 2003,
+// Sec. 3.4). A discrete transfer function runs through its companion
+// realisation, whose state matrix has one row of denominator coefficients
+// and a subdiagonal of ones (the two diagonal scalings keep that
+// pattern): a dead time of d samples, the factor z^(−d), adds d states
+// that form a shift register but only d entries. A sample then costs the
+// nonzero entries, O(n), instead of n² multiply–adds. The sparse form does
+// the same multiply–adds in the same order without the zero products, so
+// both forms give the same numbers.
+//
+// In the δ form (deltaform.go) the matrix is A_w and a sample is
+// x ← x + (A_w·x + g·a): the increment is formed first, then added.
+type transition struct {
+	n     int
+	delta bool      // δ form: nx = x + Φ·x + g·a
+	dense []float64 // n×n row-major, nil in the sparse form
+	start []int     // row i holds entries start[i] … start[i+1]−1
+	col   []int
+	val   []float64
+}
+
+// newTransition returns Φ (n×n row-major in phi) in the cheaper form.
+func newTransition(phi []float64, n int) transition {
+	nnz := 0
+	for _, v := range phi[:n*n] {
+		if v != 0 {
+			nnz++
+		}
+	}
+	if 4*nnz > n*n {
+		return transition{n: n, dense: phi}
+	}
+	t := transition{n: n, start: make([]int, n+1), col: make([]int, 0, nnz), val: make([]float64, 0, nnz)}
+	for i := 0; i < n; i++ {
+		for j, v := range phi[i*n : i*n+n] {
+			if v != 0 {
+				t.col = append(t.col, j)
+				t.val = append(t.val, v)
+			}
+		}
+		t.start[i+1] = len(t.col)
+	}
+	return t
+}
+
+// entries returns the number of entries a sample multiplies: n² when
+// dense, the nonzero count when sparse.
+func (t transition) entries() int {
+	if t.dense != nil {
+		return t.n * t.n
+	}
+	return len(t.val)
+}
+
+// advance sets nx = Φ·x + g·a and returns c·nx, as the function advance.
+func (t transition) advance(x, nx, g []float64, a float64, c []float64) float64 {
+	if t.dense != nil && !t.delta {
+		return advance(t.dense, x, nx, g, a, nil, 0, c)
+	}
+	n := t.n
+	x = x[:n]
+	nx = nx[:n]
+	g = g[:n]
+	c = c[:n]
+	y := 0.0
+	for i := 0; i < n; i++ {
+		s := g[i] * a
+		if t.dense != nil {
+			for j, v := range t.dense[i*n : i*n+n] {
+				s += v * x[j]
+			}
+		} else {
+			lo, hi := t.start[i], t.start[i+1]
+			for k, j := range t.col[lo:hi] {
+				s += t.val[lo+k] * x[j]
+			}
+		}
+		if t.delta {
+			s += x[i]
+		}
+		nx[i] = s
+		y += c[i] * s
+	}
+	return y
 }
 
 func (s *system) runContinuous(kind inputKind, h float64, out []float64, z []float64) error {
@@ -176,7 +265,7 @@ func (s *system) runContinuous(kind inputKind, h float64, out []float64, z []flo
 		if err != nil {
 			return err
 		}
-		s.addFree(flat(p), z, out)
+		s.addFree(newTransition(flat(p), s.n), z, out)
 	}
 	return nil
 }
@@ -212,30 +301,61 @@ func (s *system) runDiscrete(kind inputKind, out []float64, z []float64) error {
 	for k := range u {
 		u[k] = discreteInput(kind, k, s.delaySamp, s.ts)
 	}
-	s.discreteSequence(u, out)
+	s.newSequence().run(u, out)
 	if z != nil {
-		s.addFree(flat(s.m.A), z, out)
+		s.addFree(newTransition(flat(s.m.A), s.n), z, out)
 	}
 	return nil
 }
 
-// discreteSequence runs x[k+1] = A·x[k] + B·u[k], y[k] = C·x[k] + D·u[k]
-// from rest.
-func (s *system) discreteSequence(u, out []float64) {
-	m := s.m
-	if s.n == 0 {
+// sequence runs the difference equation x[k+1] = A·x[k] + B·u[k],
+// y[k] = C·x[k] + D·u[k] of a discrete system from rest; successive calls
+// of run continue where the last one stopped. A system whose poles crowd
+// at z = 1 runs in the δ form instead (deltaform.go); its state is then
+// not the companion state of s.m (free responses use s.m).
+type sequence struct {
+	s     *system
+	a     transition
+	b, c  []float64
+	x, nx []float64
+	y     float64 // C·x of the current state
+}
+
+func (s *system) newSequence() *sequence {
+	q := &sequence{s: s}
+	if s.n > 0 {
+		a, b, c, delta := s.m.A, s.m.B, s.m.C, false
+		if needsDelta(s.sys.Den().Coeffs()) {
+			if dm, err := s.deltaModel(); err == nil && dm.Order() == s.n {
+				a, b, c, delta = dm.A, dm.B, dm.C, true
+			}
+		}
+		q.a = newTransition(flat(a), s.n)
+		q.a.delta = delta
+		q.b, q.c = b, c
+		q.x = make([]float64, s.n)
+		q.nx = make([]float64, s.n)
+	}
+	return q
+}
+
+// run writes the outputs for the inputs u, one per sample.
+func (q *sequence) run(u, out []float64) {
+	m := q.s.m
+	if q.s.n == 0 {
 		for k, v := range u {
 			out[k] = m.D * v
 		}
 		return
 	}
-	a := flat(m.A)
-	x := make([]float64, s.n)
-	nx := make([]float64, s.n)
-	y := 0.0
 	for k, v := range u {
-		out[k] = y + m.D*v
-		y = advance(a, x, nx, m.B, v, nil, 0, m.C)
-		x, nx = nx, x
+		out[k] = q.y + m.D*v
+		q.y = q.a.advance(q.x, q.nx, q.b, v, q.c)
+		q.x, q.nx = q.nx, q.x
 	}
+}
+
+// discreteSequence runs the difference equation from rest (see sequence).
+func (s *system) discreteSequence(u, out []float64) {
+	s.newSequence().run(u, out)
 }

@@ -38,22 +38,10 @@ func benchMetricsRatio(b *testing.B, name string, sys tf.TF) {
 		if _, err := StepMetrics(sys, nil); err != nil {
 			b.Fatal(err)
 		}
-		var tStep, tMetrics time.Duration
-		runtime.LockOSThread()
-		defer runtime.UnlockOSThread()
-		for b.Loop() {
-			t0 := threadCPU()
-			if _, err := Step(sys, nil); err != nil {
-				b.Fatal(err)
-			}
-			t1 := threadCPU()
-			if _, err := StepMetrics(sys, nil); err != nil {
-				b.Fatal(err)
-			}
-			t2 := threadCPU()
-			tStep += t1 - t0
-			tMetrics += t2 - t1
-		}
+		ts := interleavedCPU(b,
+			func() error { _, err := Step(sys, nil); return err },
+			func() error { _, err := StepMetrics(sys, nil); return err })
+		tStep, tMetrics := ts[0], ts[1]
 		b.ReportMetric(float64(tStep.Microseconds())/float64(b.N), "step-µs/op")
 		b.ReportMetric(float64(tMetrics.Microseconds())/float64(b.N), "metrics-µs/op")
 		b.ReportMetric(tMetrics.Seconds()/tStep.Seconds(), "metrics/step")
@@ -105,4 +93,54 @@ func closedLoopFamily() []namedSystem {
 		out = append(out, namedSystem{fmt.Sprintf("closedloop/order=%d", n), tf.MustNew(nc, dc)})
 	}
 	return out
+}
+
+// BenchmarkMetricsDeadTime times StepMetrics of the sampled loop with a
+// 100-sample dead time (delayedLoop, order 101, settling after 958 779
+// samples) against one Step on the automatic grid (20 000 samples) and one
+// Step over the horizon the metrics need (the samples of discretePoints),
+// on thread CPU time. It reports metrics/step and metrics/samegrid.
+//
+//	go test -cpu 1 -run '^$' -bench MetricsDeadTime -benchtime 5x ./response/
+func BenchmarkMetricsDeadTime(b *testing.B) {
+	sys, _, _ := delayedLoop(b)
+	s, err := prepare(sys, "step metrics")
+	if err != nil {
+		b.Fatal(err)
+	}
+	if err := s.findPoles(); err != nil {
+		b.Fatal(err)
+	}
+	pts, err := s.discretePoints(0.5, 0.02)
+	if err != nil {
+		b.Fatal(err)
+	}
+	same := &Settings{HorizonSec: pts[len(pts)-1].t}
+	ts := interleavedCPU(b,
+		func() error { _, err := Step(sys, nil); return err },
+		func() error { _, err := Step(sys, same); return err },
+		func() error { _, err := StepMetrics(sys, nil); return err })
+	tStep, tSame, tMetrics := ts[0], ts[1], ts[2]
+	b.ReportMetric(float64(tMetrics.Microseconds())/float64(b.N), "metrics-µs/op")
+	b.ReportMetric(tMetrics.Seconds()/tStep.Seconds(), "metrics/step")
+	b.ReportMetric(tMetrics.Seconds()/tSame.Seconds(), "metrics/samegrid")
+}
+
+// interleavedCPU runs every function once per benchmark iteration, in
+// turn, and returns the thread CPU time each took in total (see
+// BenchmarkRatio). It stops the benchmark on the first error.
+func interleavedCPU(b *testing.B, fns ...func() error) []time.Duration {
+	total := make([]time.Duration, len(fns))
+	runtime.LockOSThread()
+	defer runtime.UnlockOSThread()
+	for b.Loop() {
+		for i, f := range fns {
+			t0 := threadCPU()
+			if err := f(); err != nil {
+				b.Fatal(err)
+			}
+			total[i] += threadCPU() - t0
+		}
+	}
+	return total
 }

@@ -79,7 +79,9 @@ func (k inputKind) String() string {
 // of the peak for orders 2–24, see the benchmarks). Dead time is an exact
 // shift: the first partial interval is integrated exactly.
 // Discrete time: the difference equation is run through the same
-// realisation; a dead time must be a whole number of samples.
+// realisation (its companion matrix stored sparse), or in the δ form when
+// the poles crowd at z = 1 (see the package doc); a dead time must be a
+// whole number of samples.
 //
 // Errors: ErrImproper, ErrSettings, ErrNotFinite, ErrInitialState, ErrDelay.
 func Step(sys tf.TF, set *Settings) (Response, error) { return run(sys, set, stepInput) }

@@ -113,7 +113,7 @@ func Simulate(sys tf.TF, timeSec, input []float64, set *SimulateSettings) (Respo
 		}
 		s.discreteSequence(v, r.Output)
 		if z != nil {
-			s.addFree(flat(s.m.A), z, r.Output)
+			s.addFree(newTransition(flat(s.m.A), s.n), z, r.Output)
 		}
 	} else if err := s.simulateContinuous(timeSec, u, interp, z, r.Output); err != nil {
 		return Response{}, err

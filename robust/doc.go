@@ -37,6 +37,16 @@
 // keeps the class of dependence. Bounds on margins come from the same engine
 // applied to families widened by the margin (WorstCases).
 //
+// # Speed
+//
+// BenchmarkThroughput (raw output in testdata/bench_throughput.txt) runs
+// MonteCarlo with margins and step-metric requirements: on one core of the
+// shared 2-core test machine about 3200 loops/s at order 2 and 580 at
+// order 10; two workers gave 1.48× to 1.80× (load average 0.96 during the
+// run, so the second core was partly busy). A stability proof of the
+// pick-and-place example (two parameters, edge theorem) takes about a
+// millisecond; worst cases with bounds about 0.4 s.
+//
 // # Invariants
 //
 // A verdict "stable for the whole box" or "met for the whole box" is a proof

@@ -325,3 +325,32 @@ func TestHurwitzExact(t *testing.T) {
 		}
 	}
 }
+
+// Multilinear and polynomial families with a closed-form answer: the loops
+// k/(s(s + a)(s + b)) and k/(s(s + a)²) have the characteristic polynomials
+// s³ + (a + b)s² + ab·s + k and s³ + 2a·s² + a²·s + k; Routh–Hurwitz for the
+// cubic says stable iff (a + b)·ab > k, resp. 2a³ > k. With a, b ∈ [1, 2]
+// the smallest left side is 2 (at a = b = 1), so the box is stable iff
+// k_max < 2.
+func TestMultilinearAndPolynomialRouth(t *testing.T) {
+	for _, test := range []struct {
+		text  string
+		class Class
+	}{{"k/(s*(s+a)*(s+b))", Multilinear}, {"k/(s*(s+a)^2)", Polynomial}} {
+		for _, kmax := range []float64{1.9, 2.1} {
+			params := []Param{{Name: "a", Min: 1, Max: 2}, {Name: "k", Min: 0.5, Max: kmax}}
+			if test.class == Multilinear {
+				params = append(params, Param{Name: "b", Min: 1, Max: 2})
+			}
+			l := mustLoop(t, Description{Expressions: []string{test.text}, Params: params})
+			if l.Class() != test.class {
+				t.Fatalf("%s: class %v, want %v", test.text, l.Class(), test.class)
+			}
+			want := StableForBox
+			if kmax > 2 {
+				want = UnstableAtPoint
+			}
+			checkVerdict(t, l, want, &Settings{Probes: 1, Seed: 3})
+		}
+	}
+}
