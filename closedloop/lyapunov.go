@@ -64,7 +64,10 @@ func h2Squared(g tf.TF) (float64, error) {
 	}
 	var w mat.VecDense
 	if err := w.SolveVec(K, rhs); err != nil {
-		return math.NaN(), fmt.Errorf("%w: Lyapunov equation of %v: %v", ErrNumerical, g, err)
+		// gonum reports a singular or near-singular system (its message
+		// carries the condition estimate, possibly +Inf); say what that
+		// means for the integral instead of passing it on.
+		return math.NaN(), fmt.Errorf("%w: the Lyapunov equation of %v is singular to working precision (the poles of its realisation are too widely spread or nearly symmetric about the stability boundary), so the quadratic integral cannot be computed", ErrNumerical, g)
 	}
 	v := 0.0
 	for j := range n {

@@ -214,6 +214,7 @@ func mirrors(z []complex128, a, b []int) bool {
 // splitComponent finds multiple roots among the points z[idx].
 func splitComponent(tc *taylor, z []complex128, idx []int, tol float64) []candidate {
 	remaining := append([]int(nil), idx...)
+	member := make([]bool, len(z)) // member[i]: z[i] is in the group under test
 	var out []candidate
 	for len(remaining) >= 2 {
 		// For every member, the others by increasing distance: the group
@@ -230,12 +231,29 @@ func splitComponent(tc *taylor, z []complex128, idx []int, tol float64) []candid
 			seen := map[string]bool{}
 			for k := range remaining {
 				set := orders[k][:m]
-				key := setKey(set)
-				if seen[key] {
+				for _, i := range set {
+					member[i] = true
+				}
+				// The isolation test is cheap (O(len(z))) and rejects
+				// most prefixes, so it runs before the duplicate check,
+				// whose key costs a sort.
+				mean, rad0 := centre(z, set)
+				isolated := isolatedGroup(z, member, mean, rad0)
+				if isolated {
+					key := setKey(set)
+					isolated = !seen[key]
+					seen[key] = true
+				}
+				if !isolated {
+					for _, i := range set {
+						member[i] = false
+					}
 					continue
 				}
-				seen[key] = true
-				cd, eta, ok := testGroup(tc, z, set, m, tol)
+				cd, eta, ok := testGroup(tc, z, set, member, m, tol)
+				for _, i := range set {
+					member[i] = false
+				}
 				if ok && eta < bestEta {
 					best, bestSet, bestEta = cd, set, eta
 				}
@@ -297,32 +315,42 @@ func setKey(set []int) string {
 	return string(b)
 }
 
-// testGroup decides whether the points z[set] form one root of
-// multiplicity m; it returns the candidate, its backward error and whether
-// it is accepted.
-func testGroup(tc *taylor, z []complex128, set []int, m int, tol float64) (candidate, float64, bool) {
-	isolated := func(c complex128, rad float64) bool {
-		for i, v := range z {
-			if !slices.Contains(set, i) && abs(v-c) <= clusterIsolationFactor*rad {
-				return false
-			}
-		}
-		return true
-	}
-	var mean complex128
-	up, down := false, false
+// centre returns the mean of the points z[set] and their largest
+// distance from it.
+func centre(z []complex128, set []int) (mean complex128, rad float64) {
 	for _, i := range set {
 		mean += z[i]
-		up = up || imag(z[i]) > 0
-		down = down || imag(z[i]) < 0
 	}
 	mean /= complex(float64(len(set)), 0)
-	rad0 := 0.0
 	for _, i := range set {
-		rad0 = math.Max(rad0, abs(z[i]-mean))
+		rad = math.Max(rad, abs(z[i]-mean))
 	}
-	if !isolated(mean, rad0) {
+	return mean, rad
+}
+
+// isolatedGroup reports whether every point z[i] outside the group
+// (member[i] false) lies farther than clusterIsolationFactor·rad from c.
+func isolatedGroup(z []complex128, member []bool, c complex128, rad float64) bool {
+	for i, v := range z {
+		if !member[i] && abs(v-c) <= clusterIsolationFactor*rad {
+			return false
+		}
+	}
+	return true
+}
+
+// testGroup decides whether the points z[set] (marked in member) form one
+// root of multiplicity m; it returns the candidate, its backward error and
+// whether it is accepted.
+func testGroup(tc *taylor, z []complex128, set []int, member []bool, m int, tol float64) (candidate, float64, bool) {
+	mean, rad0 := centre(z, set)
+	if !isolatedGroup(z, member, mean, rad0) {
 		return candidate{}, 0, false
+	}
+	up, down := false, false
+	for _, i := range set {
+		up = up || imag(z[i]) > 0
+		down = down || imag(z[i]) < 0
 	}
 	if up && down || math.Abs(imag(mean)) <= rad0 {
 		mean = complex(real(mean), 0)
@@ -335,7 +363,7 @@ func testGroup(tc *taylor, z []complex128, set []int, m int, tol float64) (candi
 	for _, i := range set {
 		rad = math.Max(rad, abs(z[i]-cen))
 	}
-	if !isolated(cen, rad) {
+	if !isolatedGroup(z, member, cen, rad) {
 		return candidate{}, 0, false
 	}
 	tm := abs(tc.evalPlain(m, cen))
