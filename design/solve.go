@@ -342,9 +342,10 @@ func (p *problem) groupMin(x float64, group string) float64 {
 // margins and poles) and G over the bracketed ones (a step response each).
 // E is maximised first by golden-section search (Kiefer 1953) from six
 // samples; where G ≥ E at that maximum it is the maximum of F too (F ≤ E
-// everywhere). Otherwise, when a value already evaluated inside iv has
-// G > E, the two cross between it and the maximum of E, and the crossing
-// (Brent's method on G − E to 1e-3 relative) is the maximum of F when E
+// everywhere). Otherwise, when a value already evaluated inside iv (or the
+// outer sample where E is smaller) has G > E, the two cross between it and
+// the maximum of E, and the crossing (Brent's method on G − E to 1e-3 of
+// the interval's width) is the maximum of F when E
 // and G are monotone there (the usual case: one end bound by each group);
 // the best of the values tried is returned. Without such a value, F is
 // maximised by golden-section search from the values evaluated inside or a
@@ -381,10 +382,16 @@ func (p *problem) searchInterval(iv Interval, F func(float64) float64) (float64,
 			return xe, se
 		}
 		try(xe)
-		// A value evaluated inside with G > E brackets a crossing.
-		for _, x := range p.evaluatedGeneric(iv.Lo, iv.Hi) {
-			if h := p.groupMin(x, "generic") - E(x); h > 0 {
-				xc := rootfind.Brent(func(x float64) float64 { return p.groupMin(x, "generic") - E(x) }, xe, x, ge-se, h, 1e-3)
+		// A value evaluated inside with G > E brackets a crossing; if
+		// there is none, the outer sample where E is smaller is tried.
+		probe := xs[len(xs)-1]
+		if vals[0] < vals[len(vals)-1] {
+			probe = xs[0]
+		}
+		h := func(x float64) float64 { return p.groupMin(x, "generic") - E(x) }
+		for _, x := range append(p.evaluatedGeneric(iv.Lo, iv.Hi), probe) {
+			if hx := h(x); hx > 0 && x != xe {
+				xc := rootfind.Brent(h, xe, x, ge-se, hx, 1e-3*(iv.Hi-iv.Lo)/math.Max(math.Abs(xe), 1e-300))
 				try(x)
 				try(xc)
 				return bx, bs
@@ -722,15 +729,20 @@ func mergeTouching(ivs []Interval) []Interval {
 // Brent's method (Brent 1973) first locates it to 1e-5 relative; where the
 // slack at both ends of its last bracket is small (|f| ≤ 1e-3, the quantity
 // is continuous) a second Brent run on that bracket polishes it to 1e-11
-// relative. Where it
-// is not, the quantity jumps past its limit there (the settling time when
-// the last exit from the band moves to another extremum) and the jump is
-// located to 1e-5 relative.
+// relative. Either run stops at a value where the slack is within
+// slackResolved of zero. Where the slack is not small, the quantity jumps
+// past its limit there (the settling time when the last exit from the band
+// moves to another extremum) and the jump is located to 1e-5 relative.
 func (p *problem) refine(f func(float64) float64, a, b, fa, fb float64) float64 {
 	// Record the evaluations to recover the final bracket of the first run.
 	lo, hi, flo, fhi := a, b, fa, fb
+	done := false
 	rec := func(x float64) float64 {
 		v := f(x)
+		if settled(v) == 0 {
+			done = true
+			return 0
+		}
 		if (v < 0) == (flo < 0) {
 			if math.Abs(x-hi) < math.Abs(lo-hi) {
 				lo, flo = x, v
@@ -741,10 +753,28 @@ func (p *problem) refine(f func(float64) float64, a, b, fa, fb float64) float64 
 		return v
 	}
 	x := rootfind.Brent(rec, a, b, fa, fb, 1e-5)
+	if done {
+		return x
+	}
 	if math.Abs(flo) > 1e-3 || math.Abs(fhi) > 1e-3 {
 		return x
 	}
-	return rootfind.Brent(f, lo, hi, flo, fhi, 1e-11)
+	return rootfind.Brent(func(x float64) float64 { return settled(f(x)) }, lo, hi, flo, fhi, 1e-11)
+}
+
+// slackResolved is the slack below which a bracketed end is final: the
+// quantity equals its limit to 1e-12 relative, about the accuracy of the
+// step metrics themselves (1e-13), so a further bracketing step would
+// only move the end within that accuracy.
+const slackResolved = 1e-12
+
+// settled returns 0 for a slack within slackResolved of zero, which ends
+// Brent's method at that value.
+func settled(v float64) float64 {
+	if math.Abs(v) <= slackResolved {
+		return 0
+	}
+	return v
 }
 
 func brent(f func(float64) float64, a, b, fa, fb float64) float64 {
