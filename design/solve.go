@@ -653,12 +653,11 @@ func (p *problem) solveGeneric(req spec.Requirements, idx []int, res *Result) {
 					b := pieceStart(xs, x)
 					start, startLabel = b, p.endLabel(b, nil)
 				} else {
-					e := p.refine(slack, prevX, x, prevS, s)
-					start, startLabel = e, p.boundLabel(req, i, e)
+					start, startLabel = p.bracketEnd(req, i, slack, prevX, x, prevS, s)
 				}
 			} else if !met && !math.IsNaN(start) {
-				e := p.refine(slack, prevX, x, prevS, s)
-				ivs = append(ivs, Interval{Lo: start, Hi: e, LoBinding: startLabel, HiBinding: p.boundLabel(req, i, e)})
+				e, label := p.bracketEnd(req, i, slack, prevX, x, prevS, s)
+				ivs = append(ivs, Interval{Lo: start, Hi: e, LoBinding: startLabel, HiBinding: label})
 				start = math.NaN()
 			}
 			prevX, prevS = x, s
@@ -789,7 +788,31 @@ func (p *problem) boundLabel(req spec.Requirements, i int, x float64) string {
 	if !math.IsNaN(r.Value) && math.Abs(r.Value-lim) <= 1e-6*math.Max(math.Abs(lim), 1e-12) {
 		return strings.TrimPrefix(strings.TrimPrefix(r.Name, "minimum "), "maximum ") + " = " + fmtNum(lim) + unitSuffix(r.Requirement)
 	}
-	return fmt.Sprintf("%s jumps past its limit %s%s", strings.TrimPrefix(strings.TrimPrefix(r.Name, "minimum "), "maximum "), fmtNum(lim), unitSuffix(r.Requirement))
+	return jumpLabel(r.Requirement)
+}
+
+// jumpLabel says that the requirement's quantity jumps past its limit.
+func jumpLabel(r spec.Requirement) string {
+	return fmt.Sprintf("%s jumps past its limit %s%s", strings.TrimPrefix(strings.TrimPrefix(r.Name(), "minimum "), "maximum "), fmtNum(r.Limit()), unitSuffix(r))
+}
+
+// bracketEnd locates the end of a requirement's set between a and b (the
+// slack f changes sign there): for the settling time on its continuous
+// excess over the band (settlingEnd), else by refine; it
+// returns the end and what binds there.
+func (p *problem) bracketEnd(req spec.Requirements, i int, f func(float64) float64, a, b, fa, fb float64) (float64, string) {
+	xp, xf := a, b
+	if fa < 0 {
+		xp, xf = b, a
+	}
+	if x, label, ok := p.settlingEnd(req, i, f, xp, xf); ok {
+		return x, label
+	}
+	if x, label, ok := p.directEnd(req, i, f, xp, xf); ok {
+		return x, label
+	}
+	e := p.refine(f, a, b, fa, fb)
+	return e, p.boundLabel(req, i, e)
 }
 
 func unitSuffix(r spec.Requirement) string {

@@ -1,0 +1,317 @@
+package design
+
+import (
+	"math"
+
+	"github.com/loopwise/loopwise/internal/rootfind"
+	"github.com/loopwise/loopwise/response"
+	"github.com/loopwise/loopwise/spec"
+	"github.com/loopwise/loopwise/tf"
+)
+
+// This file locates the ends of the settling-time set without bisecting
+// on the step metrics. The settling time T_s is the last time |y − y_∞|
+// equals the band b·|y_∞|, so T_s ≤ T exactly when
+//
+//	B(x) = max over t ≥ T of |y_x(t) − y_∞(x)|/|y_∞(x)| ≤ b,
+//
+// and B is a continuous function of the variable x, also where T_s jumps
+// (where a local extremum of y after T touches the band: T_s moves from
+// an earlier crossing to one after that extremum). The maximum is taken
+// at t = T or at an extremum of y in the next two periods of the least
+// damped oscillating pole pair (the step response decays after T; a
+// later extremum exceeding the earlier ones would need a slower
+// oscillation than that pair). y and y′ = impulse response come from
+// response.Step and response.Impulse on a grid through T with eight
+// points per half period, which brackets the extrema; the two largest are
+// located by Brent's method on y′ and their deviation evaluated exactly
+// (one-interval grids: exact values of the continuous response). The end
+// is the root of B − b by Brent's method (Brent 1973), then confirmed by
+// the step metrics themselves (spec.CheckWith, response.StepMetrics) on
+// both sides at jumpConfirm relative: the requirement holds on one side
+// and fails on the other, so the end lies within that distance whatever
+// the accuracy of B. A jump (the maximum at an extremum) is returned as
+// located; where the maximum is at t = T the settling time is continuous
+// and the end is polished on the step metrics from that narrow bracket
+// (refine). When any step fails — no oscillating pole pair, B − b of one
+// sign at both ends, no confirmation — the caller bisects as before.
+
+// jumpConfirm is the relative distance from the root of B − b at which the
+// step metrics confirm it (inside the 1e-5 to which bisection locates a
+// jump, and far above the accuracy of B, whose values are exact to about
+// 1e-12 relative).
+const jumpConfirm = 1e-6
+
+// settlingBand is the half-width of the settling band that spec uses
+// (response.StepMetrics' default, 2 %).
+const settlingBand = 0.02
+
+// closedAt returns the closed loop at x, its final value and the half
+// period π/ω_d of its least damped oscillating pole pair.
+func (p *problem) closedAt(x float64) (cl tf.TF, final, half float64, ok bool) {
+	l, err := p.v.LoopAt(x)
+	if err != nil {
+		return cl, 0, 0, false
+	}
+	if cl, err = l.ClosedLoop(); err != nil {
+		return cl, 0, 0, false
+	}
+	if final, err = cl.StaticGain(); err != nil || final == 0 || math.IsNaN(final) || math.IsInf(final, 0) {
+		return cl, 0, 0, false
+	}
+	poles, err := cl.Poles()
+	if err != nil {
+		return cl, 0, 0, false
+	}
+	best := math.Inf(-1)
+	for _, q := range poles {
+		if imag(q) > 0 && real(q) > best {
+			best, half = real(q), math.Pi/imag(q)
+		}
+	}
+	return cl, final, half, half > 0
+}
+
+// lastSample returns the last output of a response on the grid of one
+// interval [0, t]: the exact value at t.
+func lastSample(r response.Response, err error) float64 {
+	if err != nil || len(r.Output) < 2 {
+		return math.NaN()
+	}
+	return r.Output[len(r.Output)-1]
+}
+
+func pointY(cl tf.TF, t float64) float64 {
+	return lastSample(response.Step(cl, &response.Settings{HorizonSec: t, StepSec: t}))
+}
+
+func pointDY(cl tf.TF, t float64) float64 {
+	return lastSample(response.Impulse(cl, &response.Settings{HorizonSec: t, StepSec: t}))
+}
+
+// bandExcess returns B(x) − b for the time limit T and whether the
+// maximum is at an extremum after T (a jump of the settling time) rather
+// than at T.
+func (p *problem) bandExcess(x, T float64) (excess float64, atExtremum, ok bool) {
+	cl, final, half, ok := p.closedAt(x)
+	if !ok {
+		return 0, false, false
+	}
+	m := math.Ceil(T / (half / 8))
+	h := T / m
+	n := int(m) + 33 // two periods beyond T
+	set := &response.Settings{HorizonSec: float64(n) * h, StepSec: h}
+	ys, err := response.Step(cl, set)
+	if err != nil {
+		return 0, false, false
+	}
+	ds, err := response.Impulse(cl, set)
+	if err != nil || len(ds.Output) != len(ys.Output) || len(ys.Output) <= n {
+		return 0, false, false
+	}
+	dev := func(y float64) float64 { return math.Abs(y-final) / math.Abs(final) }
+	iT := int(m)
+	best := dev(ys.Output[iT])
+	// The two extrema after T with the largest deviation on the grid.
+	var top [2]int
+	var topDev [2]float64
+	for i := iT; i < n; i++ {
+		d0, d1 := ds.Output[i], ds.Output[i+1]
+		if (d0 > 0) == (d1 > 0) {
+			continue
+		}
+		v := math.Max(dev(ys.Output[i]), dev(ys.Output[i+1]))
+		switch {
+		case v > topDev[0]:
+			top[1], topDev[1] = top[0], topDev[0]
+			top[0], topDev[0] = i, v
+		case v > topDev[1]:
+			top[1], topDev[1] = i, v
+		}
+	}
+	for k, i := range top {
+		if topDev[k] == 0 {
+			continue
+		}
+		t0, t1 := ys.TimeSec[i], ys.TimeSec[i+1]
+		te := rootfind.Brent(func(t float64) float64 { return pointDY(cl, t) }, t0, t1, ds.Output[i], ds.Output[i+1], 1e-12)
+		y := pointY(cl, te)
+		if math.IsNaN(y) {
+			return 0, false, false
+		}
+		if d := dev(y); d > best {
+			best, atExtremum = d, true
+		}
+	}
+	return best - settlingBand, atExtremum, true
+}
+
+// settlingEnd returns the end of the settling-time set between xp (the
+// requirement met) and xf (not met) and what binds there, located on B
+// (see the file comment), and false when it cannot be located that way.
+func (p *problem) settlingEnd(req spec.Requirements, i int, f func(float64) float64, xp, xf float64) (float64, string, bool) {
+	if p.v.ts > 0 || p.v.delay > 0 || req[i].Key() != keySettling {
+		return 0, "", false
+	}
+	T := req[i].Limit()
+	if !(T > 0) {
+		return 0, "", false
+	}
+	failed := false
+	g := func(x float64) float64 {
+		e, _, ok := p.bandExcess(x, T)
+		if !ok {
+			failed = true
+			return 0
+		}
+		return e
+	}
+	gp, gf := g(xp), g(xf)
+	if failed || !(gp < 0) || !(gf > 0) {
+		return 0, "", false
+	}
+	x := rootfind.Brent(g, xp, xf, gp, gf, 1e-11)
+	if failed {
+		return 0, "", false
+	}
+	d := jumpConfirm * math.Max(math.Abs(x), 1e-300)
+	in, out := x-d, x+d
+	if xp > xf {
+		in, out = x+d, x-d
+	}
+	if (in-xp)*(in-xf) > 0 || (out-xp)*(out-xf) > 0 {
+		return 0, "", false
+	}
+	fin, fout := f(in), f(out)
+	if !(fin >= 0) || !(fout < 0) {
+		return 0, "", false
+	}
+	if _, jump, ok := p.bandExcess(x, T); ok && jump {
+		return x, jumpLabel(req[i]), true
+	}
+	e := p.refine(f, in, out, fin, fout)
+	return e, p.boundLabel(req, i, e), true
+}
+
+// The overshoot and the rise time are located the same way: the metric is
+// computed from exact values of the response at located times (the peak
+// as the largest extremum of y on a grid of eight points per half period
+// over four periods, refined by Brent's method on y′; the rise as the
+// first crossings of 10 % and 90 % of the final value on that grid,
+// refined by Brent's method on y), its root found by Brent's method, and
+// the result accepted only if the step metrics there (spec.CheckWith,
+// response.StepMetrics) equal the limit to 1e-10 relative; otherwise the
+// caller brackets on the step metrics as before.
+
+// directResolved is the relative difference between the step metrics and
+// the limit below which a directly computed end is accepted: well inside
+// the 1e-9 to which every end is polished.
+const directResolved = 1e-10
+
+// gridAt returns the unit-step response and its derivative at x on the grid
+// of eight points per half period of the least damped oscillating pair
+// over eight half periods.
+func (p *problem) gridAt(x float64) (cl tf.TF, final float64, ys, ds response.Response, ok bool) {
+	cl, final, half, ok := p.closedAt(x)
+	if !ok {
+		return cl, 0, ys, ds, false
+	}
+	set := &response.Settings{HorizonSec: 8 * half, StepSec: half / 8}
+	ys, err := response.Step(cl, set)
+	if err != nil {
+		return cl, 0, ys, ds, false
+	}
+	ds, err = response.Impulse(cl, set)
+	if err != nil || len(ds.Output) != len(ys.Output) {
+		return cl, 0, ys, ds, false
+	}
+	return cl, final, ys, ds, true
+}
+
+// overshootAt returns the overshoot in per cent of the final value.
+func (p *problem) overshootAt(x float64) (float64, bool) {
+	cl, final, ys, ds, ok := p.gridAt(x)
+	if !ok {
+		return 0, false
+	}
+	best, at := math.Inf(-1), -1
+	for i := 0; i+1 < len(ys.Output); i++ {
+		if ds.Output[i]*final > 0 && ds.Output[i+1]*final <= 0 {
+			if v := math.Max(ys.Output[i], ys.Output[i+1]) / final; v > best {
+				best, at = v, i
+			}
+		}
+	}
+	if at < 0 {
+		return 0, false
+	}
+	te := rootfind.Brent(func(t float64) float64 { return pointDY(cl, t) }, ys.TimeSec[at], ys.TimeSec[at+1], ds.Output[at], ds.Output[at+1], 1e-12)
+	y := pointY(cl, te) / final
+	if math.IsNaN(y) {
+		return 0, false
+	}
+	return math.Max(0, 100*(y-1)), true
+}
+
+// riseAt returns the 10 % to 90 % rise time.
+func (p *problem) riseAt(x float64) (float64, bool) {
+	cl, final, ys, _, ok := p.gridAt(x)
+	if !ok {
+		return 0, false
+	}
+	first := func(level float64) (float64, bool) {
+		for i := 1; i < len(ys.Output); i++ {
+			if ys.Output[i]/final >= level {
+				f := func(t float64) float64 { return pointY(cl, t)/final - level }
+				return rootfind.Brent(f, ys.TimeSec[i-1], ys.TimeSec[i], ys.Output[i-1]/final-level, ys.Output[i]/final-level, 1e-13), true
+			}
+		}
+		return 0, false
+	}
+	t10, ok1 := first(0.1)
+	t90, ok2 := first(0.9)
+	if !ok1 || !ok2 {
+		return 0, false
+	}
+	return t90 - t10, true
+}
+
+// directEnd returns the end of the set of a maximum on the overshoot or
+// the rise time between xp (met) and xf (not met), computed directly and
+// confirmed by the step metrics, and false when it cannot be.
+func (p *problem) directEnd(req spec.Requirements, i int, f func(float64) float64, xp, xf float64) (float64, string, bool) {
+	if p.v.ts > 0 || p.v.delay > 0 {
+		return 0, "", false
+	}
+	var metric func(float64) (float64, bool)
+	switch req[i].Key() {
+	case keyOvershoot:
+		metric = p.overshootAt
+	case keyRiseTime:
+		metric = p.riseAt
+	default:
+		return 0, "", false
+	}
+	lim := req[i].Limit()
+	failed := false
+	g := func(x float64) float64 {
+		v, ok := metric(x)
+		if !ok {
+			failed = true
+			return 0
+		}
+		return (v - lim) / math.Max(math.Abs(lim), 1e-300)
+	}
+	gp, gf := g(xp), g(xf)
+	if failed || !(gp < 0) || !(gf > 0) {
+		return 0, "", false
+	}
+	x := rootfind.Brent(g, xp, xf, gp, gf, 1e-13)
+	if failed {
+		return 0, "", false
+	}
+	if s := f(x); !(math.Abs(s) <= directResolved) {
+		return 0, "", false
+	}
+	return x, p.boundLabel(req, i, x), true
+}
