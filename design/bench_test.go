@@ -1,7 +1,9 @@
 package design
 
 import (
+	"runtime"
 	"testing"
+	"time"
 
 	"github.com/loopwise/loopwise/margins"
 	"github.com/loopwise/loopwise/response"
@@ -42,6 +44,43 @@ func BenchmarkBaselineOneCheck(b *testing.B) {
 			b.Fatal(err)
 		}
 	}
+}
+
+// BenchmarkRatio runs the one-variable design with all nine requirement
+// kinds and the baseline (one margins.Compute and one response.StepMetrics
+// at k = 30) alternately in one loop, timed by the CPU clock of the
+// calling thread (Linux; wall clock elsewhere) so that the load of a
+// shared machine cancels, and reports their ratio (the target:
+// under 50):
+//
+//	go test ./design -cpu 1 -run '^$' -bench Ratio -benchtime 20x -count 3
+func BenchmarkRatio(b *testing.B) {
+	v, err := Gain(tf.MustParse(benchLoop))
+	if err != nil {
+		b.Fatal(err)
+	}
+	l, _ := tf.MustParse(benchLoop).Scale(30)
+	runtime.LockOSThread()
+	defer runtime.UnlockOSThread()
+	var design, base time.Duration
+	for b.Loop() {
+		t0 := threadCPU()
+		if _, err := Solve(v, benchReq, nil); err != nil {
+			b.Fatal(err)
+		}
+		t1 := threadCPU()
+		if _, err := margins.Compute(l, nil); err != nil {
+			b.Fatal(err)
+		}
+		cl, _ := l.ClosedLoop()
+		if _, err := response.StepMetrics(cl, nil); err != nil {
+			b.Fatal(err)
+		}
+		design, base = design+t1-t0, base+threadCPU()-t1
+	}
+	b.ReportMetric(float64(design)/float64(base), "design/baseline")
+	b.ReportMetric(float64(design.Microseconds())/float64(b.N), "design-µs/op")
+	b.ReportMetric(float64(base.Microseconds())/float64(b.N), "baseline-µs/op")
 }
 
 // BenchmarkPlanePI is the stability plane of PI control of an order-7

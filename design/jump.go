@@ -31,9 +31,10 @@ import (
 // both sides at jumpConfirm relative: the requirement holds on one side
 // and fails on the other, so the end lies within that distance whatever
 // the accuracy of B. A jump (the maximum at an extremum) is returned as
-// located; where the maximum is at t = T the settling time is continuous
-// and the end is polished on the step metrics from that narrow bracket
-// (refine). When any step fails — no oscillating pole pair, B − b of one
+// located. Where the maximum is at t = T the settling time is continuous
+// and equals T at the root: it is accepted when the step metrics there
+// equal T to directResolved, else polished on the step metrics from the
+// confirmed narrow bracket (refine). When any step fails — no oscillating pole pair, B − b of one
 // sign at both ends, no confirmation — the caller bisects as before.
 
 // jumpConfirm is the relative distance from the root of B − b at which the
@@ -174,6 +175,17 @@ func (p *problem) settlingEnd(req spec.Requirements, i int, f func(float64) floa
 	if failed {
 		return 0, "", false
 	}
+	_, jump, ok := p.bandExcess(x, T)
+	if !ok {
+		return 0, "", false
+	}
+	if !jump {
+		// The maximum is at T: the settling time equals T there, which
+		// the step metrics confirm to directResolved in one evaluation.
+		if s := f(x); math.Abs(s) <= directResolved {
+			return x, p.boundLabel(req, i, x), true
+		}
+	}
 	d := jumpConfirm * math.Max(math.Abs(x), 1e-300)
 	in, out := x-d, x+d
 	if xp > xf {
@@ -186,7 +198,7 @@ func (p *problem) settlingEnd(req spec.Requirements, i int, f func(float64) floa
 	if !(fin >= 0) || !(fout < 0) {
 		return 0, "", false
 	}
-	if _, jump, ok := p.bandExcess(x, T); ok && jump {
+	if jump {
 		return x, jumpLabel(req[i]), true
 	}
 	e := p.refine(f, in, out, fin, fout)
