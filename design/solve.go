@@ -349,7 +349,8 @@ func (p *problem) groupMin(x float64, group string) float64 {
 // and G are monotone there (the usual case: one end bound by each group);
 // the best of the values tried is returned. Without such a value, F is
 // maximised by golden-section search from the values evaluated inside or a
-// few samples. Infinite intervals are only sampled.
+// few samples (the only search when every requirement has an exact
+// construction: F is cheap then). Infinite intervals are only sampled.
 func (p *problem) searchInterval(iv Interval, F func(float64) float64) (float64, float64) {
 	finite := !math.IsInf(iv.Lo, 0) && !math.IsInf(iv.Hi, 0)
 	bx, bs := math.NaN(), math.Inf(-1)
@@ -358,7 +359,7 @@ func (p *problem) searchInterval(iv Interval, F func(float64) float64) (float64,
 			bx, bs = x, s
 		}
 	}
-	if finite && len(p.exact) > 0 {
+	if finite && len(p.exact) > 0 && len(p.generic) > 0 {
 		E := func(x float64) float64 { return p.groupMin(x, "exact") }
 		xs := samplesIn(iv.Lo, iv.Hi, 6)
 		vals := make([]float64, len(xs))
@@ -374,9 +375,6 @@ func (p *problem) searchInterval(iv Interval, F func(float64) float64) (float64,
 			hi = xs[j+1]
 		}
 		xe, se := golden(E, lo, hi, xs[j], vals[j], 12)
-		if len(p.generic) == 0 {
-			return xe, se
-		}
 		ge := p.groupMin(xe, "generic")
 		if ge >= se {
 			return xe, se
