@@ -116,29 +116,37 @@ func (p *problem) bandExcess(x, T float64) (excess float64, atExtremum, ok bool)
 		return 0, false, false
 	}
 	dev := func(y float64) float64 { return math.Abs(y-final) / math.Abs(final) }
-	iT := int(m)
-	best := dev(ys.Output[iT])
-	// The two extrema after T with the largest deviation on the grid.
-	var top [2]int
-	var topDev [2]float64
-	for i := iT; i < n; i++ {
-		d0, d1 := ds.Output[i], ds.Output[i+1]
-		if (d0 > 0) == (d1 > 0) {
+	anyExtremum := func(d0, d1 float64) bool { return (d0 > 0) != (d1 > 0) }
+	best, atExtremum, ok := gridPeak(cl, ys, ds, int(m), n, dev, anyExtremum, dev(ys.Output[int(m)]))
+	return best - settlingBand, atExtremum, ok
+}
+
+// gridPeak returns the largest of edge and val(y) at the extrema of y
+// between the grid points lo and hi that isExtremum accepts (from the
+// signs of y′ at two neighbouring points), and whether it is at an
+// extremum. The two largest on the grid are located by Brent's method on
+// y′ and evaluated exactly.
+func gridPeak(cl tf.TF, ys, ds response.Response, lo, hi int, val func(float64) float64, isExtremum func(d0, d1 float64) bool, edge float64) (best float64, atExtremum, ok bool) {
+	best = edge
+	top := [2]int{-1, -1}
+	topVal := [2]float64{math.Inf(-1), math.Inf(-1)}
+	for i := lo; i < hi && i+1 < len(ys.Output); i++ {
+		if !isExtremum(ds.Output[i], ds.Output[i+1]) {
 			continue
 		}
-		v := math.Max(dev(ys.Output[i]), dev(ys.Output[i+1]))
+		v := math.Max(val(ys.Output[i]), val(ys.Output[i+1]))
 		switch {
-		case v > topDev[0]:
-			top[1], topDev[1] = top[0], topDev[0]
-			top[0], topDev[0] = i, v
-		case v > topDev[1]:
-			top[1], topDev[1] = i, v
+		case v > topVal[0]:
+			top[1], topVal[1] = top[0], topVal[0]
+			top[0], topVal[0] = i, v
+		case v > topVal[1]:
+			top[1], topVal[1] = i, v
 		}
 	}
 	for k, i := range top {
 		// The grid value of an extremum is within 1 − cos(π/16) ≈ 2 % of
 		// its amplitude: the second needs locating only when it is close.
-		if topDev[k] == 0 || k == 1 && topDev[1] < 0.95*topDev[0] {
+		if i < 0 || k == 1 && topVal[1] < topVal[0]-0.05*math.Abs(topVal[0]) {
 			continue
 		}
 		t0, t1 := ys.TimeSec[i], ys.TimeSec[i+1]
@@ -147,18 +155,27 @@ func (p *problem) bandExcess(x, T float64) (excess float64, atExtremum, ok bool)
 		if math.IsNaN(y) {
 			return 0, false, false
 		}
-		if d := dev(y); d > best {
-			best, atExtremum = d, true
+		if v := val(y); v > best {
+			best, atExtremum = v, true
 		}
 	}
-	return best - settlingBand, atExtremum, true
+	return best, atExtremum, true
 }
 
-// settlingEnd returns the end of the settling-time set between xp (the
+// windowEnd returns the end of the settling-time set between xp (the
 // requirement met) and xf (not met) and what binds there, located on B
 // (see the file comment), and false when it cannot be located that way.
-func (p *problem) settlingEnd(req spec.Requirements, i int, f func(float64) float64, xp, xf float64) (float64, string, bool) {
-	if p.v.ts > 0 || p.v.delay > 0 || req[i].Key() != keySettling {
+func (p *problem) windowEnd(req spec.Requirements, i int, f func(float64) float64, xp, xf float64) (float64, string, bool) {
+	if p.v.ts > 0 || p.v.delay > 0 {
+		return 0, "", false
+	}
+	var excess func(x, T float64) (float64, bool, bool)
+	switch req[i].Key() {
+	case keySettling:
+		excess = p.bandExcess
+	case keyRiseTime:
+		excess = p.riseExcess
+	default:
 		return 0, "", false
 	}
 	T := req[i].Limit()
@@ -167,7 +184,7 @@ func (p *problem) settlingEnd(req spec.Requirements, i int, f func(float64) floa
 	}
 	failed := false
 	g := func(x float64) float64 {
-		e, _, ok := p.bandExcess(x, T)
+		e, _, ok := excess(x, T)
 		if !ok {
 			failed = true
 			return 0
@@ -182,7 +199,7 @@ func (p *problem) settlingEnd(req spec.Requirements, i int, f func(float64) floa
 	if failed {
 		return 0, "", false
 	}
-	_, jump, ok := p.bandExcess(x, T)
+	_, jump, ok := excess(x, T)
 	if !ok {
 		return 0, "", false
 	}
@@ -272,32 +289,52 @@ func (p *problem) overshootAt(x float64) (float64, bool) {
 	return math.Max(0, 100*(y-1)), true
 }
 
-// riseAt returns the 10 % to 90 % rise time.
-func (p *problem) riseAt(x float64) (float64, bool) {
+// riseExcess returns 0.9 − M(x), M the largest value of y/y_∞ up to
+// t₁₀ + T (t₁₀ the first time y reaches 10 % of y_∞, T the limit on the
+// rise time): the rise time is at most T exactly when y reaches 90 % by
+// then, M ≥ 0.9. M is continuous in x; it is taken at t₁₀ + T (the rise
+// time is continuous there) or at a local maximum of y (the rise time
+// jumps when that maximum touches 90 %), which the second result says.
+func (p *problem) riseExcess(x, T float64) (excess float64, atExtremum, ok bool) {
 	cl, final, ys, _, ok := p.gridAt(x)
 	if !ok {
-		return 0, false
+		return 0, false, false
 	}
-	first := func(level float64) (float64, bool) {
-		for i := 1; i < len(ys.Output); i++ {
-			if ys.Output[i]/final >= level {
-				f := func(t float64) float64 { return pointY(cl, t)/final - level }
-				return rootfind.Brent(f, ys.TimeSec[i-1], ys.TimeSec[i], ys.Output[i-1]/final-level, ys.Output[i]/final-level, 1e-13), true
-			}
+	var t10 float64
+	found := false
+	for i := 1; i < len(ys.Output); i++ {
+		if ys.Output[i]/final >= 0.1 {
+			f := func(t float64) float64 { return pointY(cl, t)/final - 0.1 }
+			t10 = rootfind.Brent(f, ys.TimeSec[i-1], ys.TimeSec[i], ys.Output[i-1]/final-0.1, ys.Output[i]/final-0.1, 1e-13)
+			found = true
+			break
 		}
-		return 0, false
 	}
-	t10, ok1 := first(0.1)
-	t90, ok2 := first(0.9)
-	if !ok1 || !ok2 {
-		return 0, false
+	if !found {
+		return 0, false, false
 	}
-	return t90 - t10, true
+	_, _, half, _ := p.closedAt(x)
+	w := t10 + T
+	m := math.Ceil(w / (half / 8))
+	set := &response.Settings{HorizonSec: w, StepSec: w / m}
+	ws, err := response.Step(cl, set)
+	if err != nil {
+		return 0, false, false
+	}
+	wd, err := response.Impulse(cl, set)
+	if err != nil || len(wd.Output) != len(ws.Output) {
+		return 0, false, false
+	}
+	n := len(ws.Output) - 1
+	val := func(y float64) float64 { return y / final }
+	isMax := func(d0, d1 float64) bool { return d0/final > 0 && d1/final <= 0 }
+	mx, at, ok := gridPeak(cl, ws, wd, 0, n, val, isMax, val(ws.Output[n]))
+	return 0.9 - mx, at, ok
 }
 
-// directEnd returns the end of the set of a maximum on the overshoot or
-// the rise time between xp (met) and xf (not met), computed directly and
-// confirmed by the step metrics, and false when it cannot be.
+// directEnd returns the end of the set of a maximum on the overshoot
+// between xp (met) and xf (not met), computed directly and confirmed by
+// the step metrics, and false when it cannot be.
 func (p *problem) directEnd(req spec.Requirements, i int, f func(float64) float64, xp, xf float64) (float64, string, bool) {
 	if p.v.ts > 0 || p.v.delay > 0 {
 		return 0, "", false
@@ -306,8 +343,6 @@ func (p *problem) directEnd(req spec.Requirements, i int, f func(float64) float6
 	switch req[i].Key() {
 	case keyOvershoot:
 		metric = p.overshootAt
-	case keyRiseTime:
-		metric = p.riseAt
 	default:
 		return 0, "", false
 	}

@@ -74,8 +74,8 @@ func TestDirectEnds(t *testing.T) {
 				want := bisectSlack(t, v, rs.Requirement, xp, xf, 1e-8)
 				var got float64
 				var ok bool
-				if rs.Key == keySettling {
-					got, _, ok = p.settlingEnd(req, 0, slack, xp, xf)
+				if rs.Key == keySettling || rs.Key == keyRiseTime {
+					got, _, ok = p.windowEnd(req, 0, slack, xp, xf)
 				} else {
 					got, _, ok = p.directEnd(req, 0, slack, xp, xf)
 				}

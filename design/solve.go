@@ -796,14 +796,14 @@ func jumpLabel(r spec.Requirement) string {
 
 // bracketEnd locates the end of a requirement's set between a and b (the
 // slack f changes sign there): for the settling time on its continuous
-// excess over the band (settlingEnd), else by refine; it
+// excess over the band (windowEnd), else by refine; it
 // returns the end and what binds there.
 func (p *problem) bracketEnd(req spec.Requirements, i int, f func(float64) float64, a, b, fa, fb float64) (float64, string) {
 	xp, xf := a, b
 	if fa < 0 {
 		xp, xf = b, a
 	}
-	if x, label, ok := p.settlingEnd(req, i, f, xp, xf); ok {
+	if x, label, ok := p.windowEnd(req, i, f, xp, xf); ok {
 		return x, label
 	}
 	if x, label, ok := p.directEnd(req, i, f, xp, xf); ok {
