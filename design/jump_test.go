@@ -40,11 +40,17 @@ func bisectSlack(t *testing.T, v Variable, r spec.Requirement, xp, xf, rel float
 // and that these constructions, not the fallback, produced them on the
 // benchmark loop (a silent fallback would be correct but slow).
 func TestDirectEnds(t *testing.T) {
-	v, err := Gain(tf.MustParse(benchLoop))
+	for _, c := range ratioLoops {
+		t.Run(c.name, func(t *testing.T) { checkDirectEnds(t, c.loop, c.req) })
+	}
+}
+
+func checkDirectEnds(t *testing.T, loop string, reqs spec.Requirements) {
+	v, err := Gain(tf.MustParse(loop))
 	if err != nil {
 		t.Fatal(err)
 	}
-	res, err := Solve(v, benchReq, nil)
+	res, err := Solve(v, reqs, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -99,8 +105,9 @@ func TestDirectEnds(t *testing.T) {
 			}
 		}
 	}
-	// Overshoot (upper end), rise time (lower), settling time (both:
-	// continuous below, a jump above).
+	// Overshoot (upper end), rise time (lower: continuous for the order-10
+	// loop, a jump for the order-6 loop), settling time (both: continuous
+	// below, a jump above).
 	if checked != 4 {
 		t.Errorf("%d ends checked, want 4", checked)
 	}
