@@ -374,7 +374,7 @@ func (p *problem) searchInterval(iv Interval, F func(float64) float64) (float64,
 		if j+1 < len(xs) {
 			hi = xs[j+1]
 		}
-		xe, se := golden(E, lo, hi, xs[j], vals[j], 12)
+		xe, se := golden(E, lo, hi, xs[j], vals[j], 8)
 		ge := p.groupMin(xe, "generic")
 		if ge >= se {
 			return xe, se
