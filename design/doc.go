@@ -114,7 +114,7 @@
 // response.StepMetrics of the same loop (it was 130–350 before the
 // constructions above); for an order-6 PI loop whose baseline is very
 // cheap (0.13–0.22 ms) it costs about 12 ms, 53–97 times the baseline. The
-// plane of a PI loop of order 8 takes 20–45 ms on one core.
+// plane of a PI loop of order 8 takes about 10 ms on one core.
 //
 // # Conventions
 //
