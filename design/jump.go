@@ -182,21 +182,11 @@ func (p *problem) windowEnd(req spec.Requirements, i int, f func(float64) float6
 	if !(T > 0) {
 		return 0, "", false
 	}
-	failed := false
-	g := func(x float64) float64 {
+	x, ok := crossing(func(x float64) (float64, bool) {
 		e, _, ok := excess(x, T)
-		if !ok {
-			failed = true
-			return 0
-		}
-		return e
-	}
-	gp, gf := g(xp), g(xf)
-	if failed || !(gp < 0) || !(gf > 0) {
-		return 0, "", false
-	}
-	x := rootfind.Brent(g, xp, xf, gp, gf, 1e-11)
-	if failed {
+		return e, ok
+	}, xp, xf, 1e-11)
+	if !ok {
 		return 0, "", false
 	}
 	_, jump, ok := excess(x, T)
@@ -347,25 +337,36 @@ func (p *problem) directEnd(req spec.Requirements, i int, f func(float64) float6
 		return 0, "", false
 	}
 	lim := req[i].Limit()
-	failed := false
-	g := func(x float64) float64 {
+	x, ok := crossing(func(x float64) (float64, bool) {
 		v, ok := metric(x)
-		if !ok {
-			failed = true
-			return 0
-		}
-		return (v - lim) / math.Max(math.Abs(lim), 1e-300)
-	}
-	gp, gf := g(xp), g(xf)
-	if failed || !(gp < 0) || !(gf > 0) {
-		return 0, "", false
-	}
-	x := rootfind.Brent(g, xp, xf, gp, gf, 1e-13)
-	if failed {
+		return (v - lim) / math.Max(math.Abs(lim), 1e-300), ok
+	}, xp, xf, 1e-13)
+	if !ok {
 		return 0, "", false
 	}
 	if s := f(x); !(math.Abs(s) <= directResolved) {
 		return 0, "", false
 	}
 	return x, p.boundLabel(req, i, x), true
+}
+
+// crossing returns the root of g between xp (g < 0) and xf (g > 0) by
+// Brent's method to relTol relative, and false when g cannot be computed
+// somewhere on the way or has not those signs.
+func crossing(g func(float64) (float64, bool), xp, xf, relTol float64) (float64, bool) {
+	failed := false
+	h := func(x float64) float64 {
+		v, ok := g(x)
+		if !ok {
+			failed = true
+			return 0
+		}
+		return v
+	}
+	gp, gf := h(xp), h(xf)
+	if failed || !(gp < 0) || !(gf > 0) {
+		return 0, false
+	}
+	x := rootfind.Brent(h, xp, xf, gp, gf, relTol)
+	return x, !failed
 }

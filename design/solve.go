@@ -362,19 +362,7 @@ func (p *problem) searchInterval(iv Interval, F func(float64) float64) (float64,
 	if finite && len(p.exact) > 0 && len(p.generic) > 0 {
 		E := func(x float64) float64 { return p.groupMin(x, "exact") }
 		xs := samplesIn(iv.Lo, iv.Hi, 6)
-		vals := make([]float64, len(xs))
-		for j, x := range xs {
-			vals[j] = E(x)
-		}
-		j := argmax(vals)
-		lo, hi := iv.Lo, iv.Hi
-		if j > 0 {
-			lo = xs[j-1]
-		}
-		if j+1 < len(xs) {
-			hi = xs[j+1]
-		}
-		xe, se := golden(E, lo, hi, xs[j], vals[j], 8)
+		vals, xe, se := sampleThenGolden(E, xs, iv, 8)
 		ge := p.groupMin(xe, "generic")
 		if ge >= se {
 			return xe, se
@@ -401,9 +389,25 @@ func (p *problem) searchInterval(iv Interval, F func(float64) float64) (float64,
 		xs = append(xs, samplesIn(iv.Lo, iv.Hi, 5)...)
 		slices.Sort(xs)
 	}
-	vals := make([]float64, len(xs))
+	iters := 5
+	if !finite {
+		iters = 0
+	}
+	_, x, s := sampleThenGolden(F, xs, iv, iters)
+	if s > bs || math.IsNaN(bx) {
+		bx, bs = x, s
+	}
+	return bx, bs
+}
+
+// sampleThenGolden evaluates f at xs (ascending, inside iv) and refines
+// the best sample by golden-section search with iters steps between its
+// neighbours (the ends of iv beyond the first and last sample); iters = 0
+// keeps the best sample. It returns the sampled values and the best point.
+func sampleThenGolden(f func(float64) float64, xs []float64, iv Interval, iters int) (vals []float64, x, fx float64) {
+	vals = make([]float64, len(xs))
 	for j, x := range xs {
-		vals[j] = F(x)
+		vals[j] = f(x)
 	}
 	j := argmax(vals)
 	lo, hi := iv.Lo, iv.Hi
@@ -413,14 +417,11 @@ func (p *problem) searchInterval(iv Interval, F func(float64) float64) (float64,
 	if j+1 < len(xs) {
 		hi = xs[j+1]
 	}
-	x, s := xs[j], vals[j]
-	if finite {
-		x, s = golden(F, lo, hi, xs[j], vals[j], 5)
+	if iters == 0 {
+		return vals, xs[j], vals[j]
 	}
-	if s > bs || math.IsNaN(bx) {
-		bx, bs = x, s
-	}
-	return bx, bs
+	x, fx = golden(f, lo, hi, xs[j], vals[j], iters)
+	return vals, x, fx
 }
 
 // evaluatedGeneric returns the values strictly inside (lo, hi) at which
