@@ -4,9 +4,7 @@ import (
 	"math"
 
 	"github.com/loopwise/loopwise/internal/rootfind"
-	"github.com/loopwise/loopwise/response"
 	"github.com/loopwise/loopwise/spec"
-	"github.com/loopwise/loopwise/tf"
 )
 
 // This file locates the ends of the settling-time set without bisecting
@@ -21,8 +19,8 @@ import (
 // at t = T or at an extremum of y in the next two periods of the least
 // damped oscillating pole pair (the step response decays after T; a
 // later extremum exceeding the earlier ones would need a slower
-// oscillation than that pair). y and y′ = impulse response come from
-// response.Step and response.Impulse on a grid through T with eight
+// oscillation than that pair). y and y′ = impulse response come from one
+// zero-order-hold recursion of the closed loop (points.go) on a grid through T with eight
 // points per half period, which brackets the extrema; the two largest are
 // located by Brent's method on y′ and their deviation evaluated exactly
 // (one-interval grids: exact values of the continuous response). The end
@@ -52,72 +50,23 @@ const extremumTol = 1e-9
 // (response.StepMetrics' default, 2 %).
 const settlingBand = 0.02
 
-// closedAt returns the closed loop at x, its final value and the half
-// period π/ω_d of its least damped oscillating pole pair.
-func (p *problem) closedAt(x float64) (cl tf.TF, final, half float64, ok bool) {
-	l, err := p.v.LoopAt(x)
-	if err != nil {
-		return cl, 0, 0, false
-	}
-	if cl, err = l.ClosedLoop(); err != nil {
-		return cl, 0, 0, false
-	}
-	if final, err = cl.StaticGain(); err != nil || final == 0 || math.IsNaN(final) || math.IsInf(final, 0) {
-		return cl, 0, 0, false
-	}
-	poles, err := cl.Poles()
-	if err != nil {
-		return cl, 0, 0, false
-	}
-	best := math.Inf(-1)
-	for _, q := range poles {
-		if imag(q) > 0 && real(q) > best {
-			best, half = real(q), math.Pi/imag(q)
-		}
-	}
-	return cl, final, half, half > 0
-}
-
-// lastSample returns the last output of a response on the grid of one
-// interval [0, t]: the exact value at t.
-func lastSample(r response.Response, err error) float64 {
-	if err != nil || len(r.Output) < 2 {
-		return math.NaN()
-	}
-	return r.Output[len(r.Output)-1]
-}
-
-func pointY(cl tf.TF, t float64) float64 {
-	return lastSample(response.Step(cl, &response.Settings{HorizonSec: t, StepSec: t}))
-}
-
-func pointDY(cl tf.TF, t float64) float64 {
-	return lastSample(response.Impulse(cl, &response.Settings{HorizonSec: t, StepSec: t}))
-}
-
 // bandExcess returns B(x) − b for the time limit T and whether the
 // maximum is at an extremum after T (a jump of the settling time) rather
 // than at T.
 func (p *problem) bandExcess(x, T float64) (excess float64, atExtremum, ok bool) {
-	cl, final, half, ok := p.closedAt(x)
+	c, ok := p.closedAt(x)
 	if !ok {
 		return 0, false, false
 	}
-	m := math.Ceil(T / (half / 8))
-	h := T / m
+	m := math.Ceil(T / (c.half / 8))
 	n := int(m) + 33 // two periods beyond T
-	set := &response.Settings{HorizonSec: float64(n) * h, StepSec: h}
-	ys, err := response.Step(cl, set)
-	if err != nil {
+	g, ok := c.grid(T/m, n)
+	if !ok {
 		return 0, false, false
 	}
-	ds, err := response.Impulse(cl, set)
-	if err != nil || len(ds.Output) != len(ys.Output) || len(ys.Output) <= n {
-		return 0, false, false
-	}
-	dev := func(y float64) float64 { return math.Abs(y-final) / math.Abs(final) }
+	dev := func(y float64) float64 { return math.Abs(y-c.final) / math.Abs(c.final) }
 	anyExtremum := func(d0, d1 float64) bool { return (d0 > 0) != (d1 > 0) }
-	best, atExtremum, ok := gridPeak(cl, ys, ds, int(m), n, dev, anyExtremum, dev(ys.Output[int(m)]))
+	best, atExtremum, ok := gridPeak(c, g, int(m), n, dev, anyExtremum, dev(g.y[int(m)]))
 	return best - settlingBand, atExtremum, ok
 }
 
@@ -126,15 +75,15 @@ func (p *problem) bandExcess(x, T float64) (excess float64, atExtremum, ok bool)
 // signs of y′ at two neighbouring points), and whether it is at an
 // extremum. The two largest on the grid are located by Brent's method on
 // y′ and evaluated exactly.
-func gridPeak(cl tf.TF, ys, ds response.Response, lo, hi int, val func(float64) float64, isExtremum func(d0, d1 float64) bool, edge float64) (best float64, atExtremum, ok bool) {
+func gridPeak(c *closedLoop, g samples, lo, hi int, val func(float64) float64, isExtremum func(d0, d1 float64) bool, edge float64) (best float64, atExtremum, ok bool) {
 	best = edge
 	top := [2]int{-1, -1}
 	topVal := [2]float64{math.Inf(-1), math.Inf(-1)}
-	for i := lo; i < hi && i+1 < len(ys.Output); i++ {
-		if !isExtremum(ds.Output[i], ds.Output[i+1]) {
+	for i := lo; i < hi && i+1 < len(g.y); i++ {
+		if !isExtremum(g.dy[i], g.dy[i+1]) {
 			continue
 		}
-		v := math.Max(val(ys.Output[i]), val(ys.Output[i+1]))
+		v := math.Max(val(g.y[i]), val(g.y[i+1]))
 		switch {
 		case v > topVal[0]:
 			top[1], topVal[1] = top[0], topVal[0]
@@ -149,9 +98,8 @@ func gridPeak(cl tf.TF, ys, ds response.Response, lo, hi int, val func(float64) 
 		if i < 0 || k == 1 && topVal[1] < topVal[0]-0.05*math.Abs(topVal[0]) {
 			continue
 		}
-		t0, t1 := ys.TimeSec[i], ys.TimeSec[i+1]
-		te := rootfind.Brent(func(t float64) float64 { return pointDY(cl, t) }, t0, t1, ds.Output[i], ds.Output[i+1], extremumTol)
-		y := pointY(cl, te)
+		te := rootfind.Brent(c.dy, g.t[i], g.t[i+1], g.dy[i], g.dy[i+1], extremumTol)
+		y := c.y(te)
 		if math.IsNaN(y) {
 			return 0, false, false
 		}
@@ -234,36 +182,29 @@ func (p *problem) windowEnd(req spec.Requirements, i int, f func(float64) float6
 // the 1e-9 to which every end is polished.
 const directResolved = 1e-10
 
-// gridAt returns the unit-step response and its derivative at x on the grid
-// of eight points per half period of the least damped oscillating pair
-// over eight half periods.
-func (p *problem) gridAt(x float64) (cl tf.TF, final float64, ys, ds response.Response, ok bool) {
-	cl, final, half, ok := p.closedAt(x)
+// gridAt returns the closed loop at x with its unit-step response and the
+// derivative on the grid of eight points per half period of the least
+// damped oscillating pair over eight half periods.
+func (p *problem) gridAt(x float64) (*closedLoop, samples, bool) {
+	c, ok := p.closedAt(x)
 	if !ok {
-		return cl, 0, ys, ds, false
+		return nil, samples{}, false
 	}
-	set := &response.Settings{HorizonSec: 8 * half, StepSec: half / 8}
-	ys, err := response.Step(cl, set)
-	if err != nil {
-		return cl, 0, ys, ds, false
-	}
-	ds, err = response.Impulse(cl, set)
-	if err != nil || len(ds.Output) != len(ys.Output) {
-		return cl, 0, ys, ds, false
-	}
-	return cl, final, ys, ds, true
+	g, ok := c.grid(c.half/8, 64)
+	return c, g, ok
 }
 
 // overshootAt returns the overshoot in per cent of the final value.
 func (p *problem) overshootAt(x float64) (float64, bool) {
-	cl, final, ys, ds, ok := p.gridAt(x)
+	c, g, ok := p.gridAt(x)
 	if !ok {
 		return 0, false
 	}
+	final := c.final
 	best, at := math.Inf(-1), -1
-	for i := 0; i+1 < len(ys.Output); i++ {
-		if ds.Output[i]*final > 0 && ds.Output[i+1]*final <= 0 {
-			if v := math.Max(ys.Output[i], ys.Output[i+1]) / final; v > best {
+	for i := 0; i+1 < len(g.y); i++ {
+		if g.dy[i]*final > 0 && g.dy[i+1]*final <= 0 {
+			if v := math.Max(g.y[i], g.y[i+1]) / final; v > best {
 				best, at = v, i
 			}
 		}
@@ -271,8 +212,8 @@ func (p *problem) overshootAt(x float64) (float64, bool) {
 	if at < 0 {
 		return 0, false
 	}
-	te := rootfind.Brent(func(t float64) float64 { return pointDY(cl, t) }, ys.TimeSec[at], ys.TimeSec[at+1], ds.Output[at], ds.Output[at+1], extremumTol)
-	y := pointY(cl, te) / final
+	te := rootfind.Brent(c.dy, g.t[at], g.t[at+1], g.dy[at], g.dy[at+1], extremumTol)
+	y := c.y(te) / final
 	if math.IsNaN(y) {
 		return 0, false
 	}
@@ -286,16 +227,17 @@ func (p *problem) overshootAt(x float64) (float64, bool) {
 // time is continuous there) or at a local maximum of y (the rise time
 // jumps when that maximum touches 90 %), which the second result says.
 func (p *problem) riseExcess(x, T float64) (excess float64, atExtremum, ok bool) {
-	cl, final, ys, _, ok := p.gridAt(x)
+	c, g, ok := p.gridAt(x)
 	if !ok {
 		return 0, false, false
 	}
+	final := c.final
 	var t10 float64
 	found := false
-	for i := 1; i < len(ys.Output); i++ {
-		if ys.Output[i]/final >= 0.1 {
-			f := func(t float64) float64 { return pointY(cl, t)/final - 0.1 }
-			t10 = rootfind.Brent(f, ys.TimeSec[i-1], ys.TimeSec[i], ys.Output[i-1]/final-0.1, ys.Output[i]/final-0.1, 1e-13)
+	for i := 1; i < len(g.y); i++ {
+		if g.y[i]/final >= 0.1 {
+			f := func(t float64) float64 { return c.y(t)/final - 0.1 }
+			t10 = rootfind.Brent(f, g.t[i-1], g.t[i], g.y[i-1]/final-0.1, g.y[i]/final-0.1, 1e-13)
 			found = true
 			break
 		}
@@ -303,22 +245,16 @@ func (p *problem) riseExcess(x, T float64) (excess float64, atExtremum, ok bool)
 	if !found {
 		return 0, false, false
 	}
-	_, _, half, _ := p.closedAt(x)
 	w := t10 + T
-	m := math.Ceil(w / (half / 8))
-	set := &response.Settings{HorizonSec: w, StepSec: w / m}
-	ws, err := response.Step(cl, set)
-	if err != nil {
+	m := math.Ceil(w / (c.half / 8))
+	wg, ok := c.grid(w/m, int(m))
+	if !ok {
 		return 0, false, false
 	}
-	wd, err := response.Impulse(cl, set)
-	if err != nil || len(wd.Output) != len(ws.Output) {
-		return 0, false, false
-	}
-	n := len(ws.Output) - 1
+	n := len(wg.y) - 1
 	val := func(y float64) float64 { return y / final }
 	isMax := func(d0, d1 float64) bool { return d0/final > 0 && d1/final <= 0 }
-	mx, at, ok := gridPeak(cl, ws, wd, 0, n, val, isMax, val(ws.Output[n]))
+	mx, at, ok := gridPeak(c, wg, 0, n, val, isMax, val(wg.y[n]))
 	return 0.9 - mx, at, ok
 }
 

@@ -145,6 +145,9 @@ type problem struct {
 	// delay margins (nil until first needed).
 	tangencies, wraps []candidate
 	cache             map[cacheKey]spec.Report
+	// closed caches the closed loops of the direct step-metric
+	// constructions (nil where they do not apply).
+	closed map[float64]*closedLoop
 	// The requirements with an exact construction and the others, with
 	// their indices in the caller's list.
 	exact, generic       spec.Requirements
@@ -160,7 +163,7 @@ func newProblem(v Variable, set *Settings) (*problem, error) {
 	if v.num0.IsZero() && v.num1.IsZero() {
 		return nil, fmt.Errorf("%w: the zero Variable; make it with Gain, Parameter or ParameterText", ErrInvalidInput)
 	}
-	p := &problem{v: v, rng: Range{0, math.Inf(1)}, pade: 6, samples: 10, cache: map[cacheKey]spec.Report{}}
+	p := &problem{v: v, rng: Range{0, math.Inf(1)}, pade: 6, samples: 10, cache: map[cacheKey]spec.Report{}, closed: map[float64]*closedLoop{}}
 	if set != nil {
 		if set.Range != (Range{}) {
 			p.rng = set.Range
