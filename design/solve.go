@@ -1,6 +1,7 @@
 package design
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -152,6 +153,9 @@ type problem struct {
 	// their indices in the caller's list.
 	exact, generic       spec.Requirements
 	exactIdx, genericIdx []int
+	// exactMet is the set where every requirement with an exact
+	// construction holds.
+	exactMet []Interval
 }
 
 type cacheKey struct {
@@ -364,7 +368,13 @@ func (p *problem) searchInterval(iv Interval, F func(float64) float64) (float64,
 	}
 	if finite && len(p.exact) > 0 && len(p.generic) > 0 {
 		E := func(x float64) float64 { return p.groupMin(x, "exact") }
-		xs := samplesIn(iv.Lo, iv.Hi, 6)
+		// The values where the exact group has been evaluated already
+		// (the midpoints of its pieces, see solveExact) serve as the
+		// samples when there are enough of them.
+		xs := p.evaluatedIn(iv.Lo, iv.Hi, "exact")
+		if len(xs) < 5 {
+			xs = samplesIn(iv.Lo, iv.Hi, 6)
+		}
 		vals, xe, se := sampleThenGolden(E, xs, iv, 8)
 		ge := p.groupMin(xe, "generic")
 		if ge >= se {
@@ -378,7 +388,32 @@ func (p *problem) searchInterval(iv Interval, F func(float64) float64) (float64,
 			probe = xs[0]
 		}
 		h := func(x float64) float64 { return p.groupMin(x, "generic") - E(x) }
-		for _, x := range append(p.evaluatedGeneric(iv.Lo, iv.Hi), probe) {
+		// The sets of the exact requirements give the sign of E without
+		// evaluating it: E ≥ 0 inside the set where they all hold, E < 0
+		// outside. A value outside with G ≥ 0 has G > E for sure; the
+		// nearest such value to the maximum of E is tried first.
+		cands := append(p.evaluatedIn(iv.Lo, iv.Hi, "generic"), probe)
+		sure := func(x float64) bool {
+			return p.cached(x, "generic") && p.groupMin(x, "generic") >= 0 && p.outsideExactMet(x)
+		}
+		slices.SortStableFunc(cands, func(a, b float64) int {
+			sa, sb := sure(a), sure(b)
+			switch {
+			case sa && sb:
+				return cmp.Compare(math.Abs(a-xe), math.Abs(b-xe))
+			case sa:
+				return -1
+			case sb:
+				return 1
+			}
+			return 0
+		})
+		for _, x := range cands {
+			// Where the exact requirements all hold and a bracketed one
+			// fails, G − E < 0 without evaluating E.
+			if p.inExactMet(x) && p.cached(x, "generic") && p.groupMin(x, "generic") < 0 {
+				continue
+			}
 			if hx := h(x); hx > 0 && x != xe {
 				xc := rootfind.Brent(h, xe, x, ge-se, hx, 1e-3*(iv.Hi-iv.Lo)/math.Max(math.Abs(xe), 1e-300))
 				try(x)
@@ -427,17 +462,46 @@ func sampleThenGolden(f func(float64) float64, xs []float64, iv Interval, iters 
 	return vals, x, fx
 }
 
-// evaluatedGeneric returns the values strictly inside (lo, hi) at which
-// the bracketed group has been evaluated, ascending.
-func (p *problem) evaluatedGeneric(lo, hi float64) []float64 {
+// evaluatedIn returns the values strictly inside (lo, hi) at which the
+// group has been evaluated, ascending.
+func (p *problem) evaluatedIn(lo, hi float64, group string) []float64 {
 	var out []float64
 	for k := range p.cache {
-		if k.group == "generic" && k.x > lo && k.x < hi {
+		if k.group == group && k.x > lo && k.x < hi {
 			out = append(out, k.x)
 		}
 	}
 	slices.Sort(out)
 	return out
+}
+
+// outsideExactMet reports whether x lies outside the set where every
+// requirement with an exact construction holds, farther than 1e-9
+// relative from its ends.
+func (p *problem) outsideExactMet(x float64) bool {
+	for _, iv := range p.exactMet {
+		if iv.Contains(x) || sameValue(x, iv.Lo) || sameValue(x, iv.Hi) {
+			return false
+		}
+	}
+	return true
+}
+
+func (p *problem) cached(x float64, group string) bool {
+	_, ok := p.cache[cacheKey{x, group}]
+	return ok
+}
+
+// inExactMet reports whether x lies strictly inside the set where every
+// requirement with an exact construction holds (their ends excluded to
+// 1e-9 relative).
+func (p *problem) inExactMet(x float64) bool {
+	for _, iv := range p.exactMet {
+		if x > iv.Lo && x < iv.Hi && !sameValue(x, iv.Lo) && !sameValue(x, iv.Hi) {
+			return true
+		}
+	}
+	return false
 }
 
 // evaluated returns the values in (lo, hi) already evaluated for both
@@ -545,6 +609,10 @@ func Solve(v Variable, req spec.Requirements, set *Settings) (Result, error) {
 	}
 	if len(p.exact) > 0 {
 		p.solveExact(p.exact, p.exactIdx, own, all, &res)
+		p.exactMet = []Interval{{Lo: math.Inf(-1), Hi: math.Inf(1)}}
+		for _, i := range p.exactIdx {
+			p.exactMet = intersectSets(p.exactMet, res.Requirements[i].Intervals)
+		}
 	}
 	if len(p.generic) > 0 {
 		p.solveGeneric(p.generic, p.genericIdx, &res)
