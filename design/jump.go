@@ -23,7 +23,7 @@ import (
 // zero-order-hold recursion of the closed loop (points.go) on a grid through T with eight
 // points per half period, which brackets the extrema; the two largest are
 // located by Brent's method on y′ and their deviation evaluated exactly
-// (one-interval grids: exact values of the continuous response). The end
+// (from the grid state and one short transition: exact values of the continuous response). The end
 // is the root of B − b by Brent's method (Brent 1973), then confirmed by
 // the step metrics themselves (spec.CheckWith, response.StepMetrics) on
 // both sides at jumpConfirm relative: the requirement holds on one side
@@ -98,8 +98,9 @@ func gridPeak(c *closedLoop, g samples, lo, hi int, val func(float64) float64, i
 		if i < 0 || k == 1 && topVal[1] < topVal[0]-0.05*math.Abs(topVal[0]) {
 			continue
 		}
-		te := rootfind.Brent(c.dy, g.t[i], g.t[i+1], g.dy[i], g.dy[i+1], extremumTol)
-		y := c.y(te)
+		dy := func(t float64) float64 { _, d := c.between(g, i, t); return d }
+		te := rootfind.Brent(dy, g.t[i], g.t[i+1], g.dy[i], g.dy[i+1], extremumTol)
+		y, _ := c.between(g, i, te)
 		if math.IsNaN(y) {
 			return 0, false, false
 		}
@@ -212,8 +213,10 @@ func (p *problem) overshootAt(x float64) (float64, bool) {
 	if at < 0 {
 		return 0, false
 	}
-	te := rootfind.Brent(c.dy, g.t[at], g.t[at+1], g.dy[at], g.dy[at+1], extremumTol)
-	y := c.y(te) / final
+	dy := func(t float64) float64 { _, d := c.between(g, at, t); return d }
+	te := rootfind.Brent(dy, g.t[at], g.t[at+1], g.dy[at], g.dy[at+1], extremumTol)
+	y, _ := c.between(g, at, te)
+	y /= final
 	if math.IsNaN(y) {
 		return 0, false
 	}
@@ -236,7 +239,7 @@ func (p *problem) riseExcess(x, T float64) (excess float64, atExtremum, ok bool)
 	found := false
 	for i := 1; i < len(g.y); i++ {
 		if g.y[i]/final >= 0.1 {
-			f := func(t float64) float64 { return c.y(t)/final - 0.1 }
+			f := func(t float64) float64 { y, _ := c.between(g, i-1, t); return y/final - 0.1 }
 			t10 = rootfind.Brent(f, g.t[i-1], g.t[i], g.y[i-1]/final-0.1, g.y[i]/final-0.1, 1e-13)
 			found = true
 			break

@@ -15,7 +15,8 @@ import (
 // form), from which the unit-step response y and its derivative y′ (the
 // impulse response) are evaluated exactly, as response.Step and
 // response.Impulse evaluate them, without realising the loop and finding
-// its poles again for every time.
+// its poles again for every time: on a grid (grid) and between its points
+// (between).
 type closedLoop struct {
 	cl          tf.TF
 	final, half float64
@@ -66,35 +67,14 @@ func (p *problem) newClosedLoop(x float64) *closedLoop {
 	return &closedLoop{cl: cl, final: final, half: half, m: m}
 }
 
-// at returns y(t) and y′(t) for t > 0 from one zero-order-hold transition
-// from rest over [0, t] (Van Loan 1978, statespace.ZeroOrderHold): the
-// state of the unit step is Γ(t), so y = C·Γ + D, and the impulse response
-// is y′ = C·Φ(t)·B. NaN when the transition cannot be computed.
-func (c *closedLoop) at(t float64) (y, dy float64) {
-	phi, gamma, err := c.m.ZeroOrderHold(t)
-	if err != nil {
-		return math.NaN(), math.NaN()
-	}
-	n := c.m.Order()
-	y = c.m.D
-	for i, g := range gamma {
-		y += c.m.C[i] * g
-	}
-	for i := 0; i < n; i++ {
-		s := 0.0
-		for j := 0; j < n; j++ {
-			s += phi.At(i, j) * c.m.B[j]
-		}
-		dy += c.m.C[i] * s
-	}
-	return y, dy
+// samples are y and y′ on the grid t_k = k·h, k = 0…n, with the states
+// of the step (x) and of the impulse response (w) at every point, n
+// values each, from which values between grid points are computed.
+type samples struct {
+	t, y, dy []float64
+	x, w     []float64
+	n        int
 }
-
-func (c *closedLoop) y(t float64) float64  { y, _ := c.at(t); return y }
-func (c *closedLoop) dy(t float64) float64 { _, d := c.at(t); return d }
-
-// samples are y and y′ on the grid t_k = k·h, k = 0…n.
-type samples struct{ t, y, dy []float64 }
 
 // grid returns y and y′ on the grid k·h, k = 0…n, from one zero-order-hold
 // transition Φ(h), Γ(h): the step state advances as x ← Φ·x + Γ from rest,
@@ -108,11 +88,12 @@ func (c *closedLoop) grid(h float64, n int) (samples, bool) {
 	}
 	N := c.m.Order()
 	phi := phiM.RawMatrix()
-	s := samples{t: make([]float64, n+1), y: make([]float64, n+1), dy: make([]float64, n+1)}
-	x, w := make([]float64, N), append([]float64(nil), c.m.B...)
-	nx, nw := make([]float64, N), make([]float64, N)
+	s := samples{t: make([]float64, n+1), y: make([]float64, n+1), dy: make([]float64, n+1),
+		x: make([]float64, (n+1)*N), w: make([]float64, (n+1)*N), n: N}
+	copy(s.w, c.m.B)
 	C := c.m.C
 	for k := 0; k <= n; k++ {
+		x, w := s.x[k*N:(k+1)*N], s.w[k*N:(k+1)*N]
 		s.t[k] = float64(k) * h
 		y, d := c.m.D, 0.0
 		for i := 0; i < N; i++ {
@@ -126,6 +107,7 @@ func (c *closedLoop) grid(h float64, n int) (samples, bool) {
 		if k == n {
 			break
 		}
+		nx, nw := s.x[(k+1)*N:(k+2)*N], s.w[(k+1)*N:(k+2)*N]
 		for i := 0; i < N; i++ {
 			row := phi.Data[i*phi.Stride : i*phi.Stride+N]
 			sx, sw := gamma[i], 0.0
@@ -135,8 +117,41 @@ func (c *closedLoop) grid(h float64, n int) (samples, bool) {
 			}
 			nx[i], nw[i] = sx, sw
 		}
-		x, nx = nx, x
-		w, nw = nw, w
 	}
 	return s, true
+}
+
+// between returns y(t) and y′(t) for t in [t_k, t_{k+1}] from the states
+// at t_k and one zero-order-hold transition over τ = t − t_k:
+// y = C·(Φ(τ)·x_k + Γ(τ)) + D and y′ = C·Φ(τ)·w_k. The short transition
+// (at most one grid step) keeps ‖A·τ‖ small, which makes the matrix
+// exponential cheaper and more accurate than one from t = 0. NaN when the
+// transition cannot be computed.
+func (c *closedLoop) between(g samples, k int, t float64) (y, dy float64) {
+	tau := t - g.t[k]
+	if tau == 0 {
+		return g.y[k], g.dy[k]
+	}
+	if !(tau > 0) {
+		return math.NaN(), math.NaN()
+	}
+	phi, gamma, err := c.m.ZeroOrderHold(tau)
+	if err != nil {
+		return math.NaN(), math.NaN()
+	}
+	N := g.n
+	x, w := g.x[k*N:(k+1)*N], g.w[k*N:(k+1)*N]
+	raw := phi.RawMatrix()
+	y = c.m.D
+	for i := 0; i < N; i++ {
+		row := raw.Data[i*raw.Stride : i*raw.Stride+N]
+		sx, sw := gamma[i], 0.0
+		for j, v := range row {
+			sx += v * x[j]
+			sw += v * w[j]
+		}
+		y += c.m.C[i] * sx
+		dy += c.m.C[i] * sw
+	}
+	return y, dy
 }
