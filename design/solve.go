@@ -156,6 +156,8 @@ type problem struct {
 	// exactMet is the set where every requirement with an exact
 	// construction holds.
 	exactMet []Interval
+	// genericMet is the set where every bracketed requirement holds.
+	genericMet []Interval
 }
 
 type cacheKey struct {
@@ -376,11 +378,18 @@ func (p *problem) searchInterval(iv Interval, F func(float64) float64) (float64,
 			xs = samplesIn(iv.Lo, iv.Hi, 6)
 		}
 		vals, xe, se := sampleThenGolden(E, xs, iv, 8)
-		ge := p.groupMin(xe, "generic")
-		if ge >= se {
-			return xe, se
+		// G(xe) < 0 ≤ E(xe) when the sets of the bracketed requirements
+		// exclude xe: the step response there (often a slow one, at the
+		// low end of the range) is then not computed unless no nearer
+		// bracket of the crossing is found below.
+		ge, geKnown := math.NaN(), !(se >= 0 && outside(p.genericMet, xe))
+		if geKnown {
+			ge = p.groupMin(xe, "generic")
+			if ge >= se {
+				return xe, se
+			}
+			try(xe)
 		}
-		try(xe)
 		// A value evaluated inside with G > E brackets a crossing; if
 		// there is none, the outer sample where E is smaller is tried.
 		probe := xs[len(xs)-1]
@@ -415,7 +424,27 @@ func (p *problem) searchInterval(iv Interval, F func(float64) float64) (float64,
 				continue
 			}
 			if hx := h(x); hx > 0 && x != xe {
-				xc := rootfind.Brent(h, xe, x, ge-se, hx, 1e-3*(iv.Hi-iv.Lo)/math.Max(math.Abs(xe), 1e-300))
+				a, fa := xe, math.NaN()
+				if !geKnown {
+					// The values evaluated between xe and x, nearest x
+					// first, narrow the bracket [xe, x] of G − E.
+					for _, y := range p.evaluatedBetween(xe, x) {
+						if hy := h(y); hy < 0 {
+							a, fa = y, hy
+							break
+						} else if hy > 0 {
+							x, hx = y, hy
+						}
+					}
+				}
+				if math.IsNaN(fa) {
+					if !geKnown {
+						ge = p.groupMin(xe, "generic")
+						try(xe)
+					}
+					fa = ge - se
+				}
+				xc := rootfind.Brent(h, a, x, fa, hx, 1e-3*(iv.Hi-iv.Lo)/math.Max(math.Abs(xe), 1e-300))
 				try(x)
 				try(xc)
 				return bx, bs
@@ -478,13 +507,25 @@ func (p *problem) evaluatedIn(lo, hi float64, group string) []float64 {
 // outsideExactMet reports whether x lies outside the set where every
 // requirement with an exact construction holds, farther than 1e-9
 // relative from its ends.
-func (p *problem) outsideExactMet(x float64) bool {
-	for _, iv := range p.exactMet {
+func (p *problem) outsideExactMet(x float64) bool { return outside(p.exactMet, x) }
+
+// outside reports whether x lies outside every interval of set, farther
+// than 1e-9 relative from their ends.
+func outside(set []Interval, x float64) bool {
+	for _, iv := range set {
 		if iv.Contains(x) || sameValue(x, iv.Lo) || sameValue(x, iv.Hi) {
 			return false
 		}
 	}
 	return true
+}
+
+// evaluatedBetween returns the values strictly between a and b at which
+// the bracketed group has been evaluated, nearest b first.
+func (p *problem) evaluatedBetween(a, b float64) []float64 {
+	out := p.evaluatedIn(math.Min(a, b), math.Max(a, b), "generic")
+	slices.SortFunc(out, func(u, v float64) int { return cmp.Compare(math.Abs(u-b), math.Abs(v-b)) })
+	return out
 }
 
 func (p *problem) cached(x float64, group string) bool {
@@ -616,6 +657,10 @@ func Solve(v Variable, req spec.Requirements, set *Settings) (Result, error) {
 	}
 	if len(p.generic) > 0 {
 		p.solveGeneric(p.generic, p.genericIdx, &res)
+		p.genericMet = []Interval{{Lo: math.Inf(-1), Hi: math.Inf(1)}}
+		for _, i := range p.genericIdx {
+			p.genericMet = intersectSets(p.genericMet, res.Requirements[i].Intervals)
+		}
 	}
 	p.intersect(&res)
 	p.suggest(req, &res)
