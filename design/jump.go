@@ -131,7 +131,7 @@ func (p *problem) windowEnd(req spec.Requirements, i int, f func(float64) float6
 	if !(T > 0) {
 		return 0, "", false
 	}
-	x, ok := crossing(func(x float64) (float64, bool) {
+	x, ok := p.hintedCrossing(func(x float64) (float64, bool) {
 		e, _, ok := excess(x, T)
 		return e, ok
 	}, xp, xf, 1e-11)
@@ -276,7 +276,7 @@ func (p *problem) directEnd(req spec.Requirements, i int, f func(float64) float6
 		return 0, "", false
 	}
 	lim := req[i].Limit()
-	x, ok := crossing(func(x float64) (float64, bool) {
+	x, ok := p.hintedCrossing(func(x float64) (float64, bool) {
 		v, ok := metric(x)
 		return (v - lim) / math.Max(math.Abs(lim), 1e-300), ok
 	}, xp, xf, 1e-13)

@@ -24,7 +24,9 @@ type closedLoop struct {
 }
 
 // closedAt returns the closed loop at x (cached), and false when it has no
-// finite non-zero final value or no oscillating pole pair.
+// finite non-zero final value or no oscillating pole pair. Inside a
+// bracket (see hintedCrossing) the half period is the smaller of those at
+// the bracket's ends instead of being computed from the poles at x.
 func (p *problem) closedAt(x float64) (*closedLoop, bool) {
 	if c, ok := p.closed[x]; ok {
 		return c, c != nil
@@ -47,18 +49,21 @@ func (p *problem) newClosedLoop(x float64) *closedLoop {
 	if err != nil || final == 0 || math.IsNaN(final) || math.IsInf(final, 0) {
 		return nil
 	}
-	poles, err := cl.Poles()
-	if err != nil {
-		return nil
-	}
-	best, half := math.Inf(-1), 0.0
-	for _, q := range poles {
-		if imag(q) > 0 && real(q) > best {
-			best, half = real(q), math.Pi/imag(q)
-		}
-	}
+	half := p.halfHint
 	if !(half > 0) {
-		return nil
+		poles, err := cl.Poles()
+		if err != nil {
+			return nil
+		}
+		best := math.Inf(-1)
+		for _, q := range poles {
+			if imag(q) > 0 && real(q) > best {
+				best, half = real(q), math.Pi/imag(q)
+			}
+		}
+		if !(half > 0) {
+			return nil
+		}
 	}
 	m, err := statespace.FromTransferFunction(cl.Num().Coeffs(), cl.Den().Coeffs())
 	if err != nil || m.Order() == 0 {
@@ -154,4 +159,21 @@ func (c *closedLoop) between(g samples, k int, t float64) (y, dy float64) {
 		dy += c.m.C[i] * sw
 	}
 	return y, dy
+}
+
+// hintedCrossing is crossing (Brent's method on g between xp and xf) with
+// the grids of every value inside the bracket spaced by the half period at
+// its ends: the closed loops at xp and xf are found first (with their
+// poles); when both have an oscillating pair whose half periods agree to
+// 25 %, the smaller is used for every value tried inside, which saves a
+// pole computation per value and keeps the grid (so the computed function)
+// the same across the bracket. Otherwise every value gets its own.
+func (p *problem) hintedCrossing(g func(float64) (float64, bool), xp, xf, relTol float64) (float64, bool) {
+	cp, okp := p.closedAt(xp)
+	cf, okf := p.closedAt(xf)
+	if okp && okf && math.Abs(cp.half-cf.half) <= 0.25*math.Max(cp.half, cf.half) {
+		p.halfHint = math.Min(cp.half, cf.half)
+		defer func() { p.halfHint = 0 }()
+	}
+	return crossing(g, xp, xf, relTol)
 }

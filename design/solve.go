@@ -149,6 +149,9 @@ type problem struct {
 	// closed caches the closed loops of the direct step-metric
 	// constructions (nil where they do not apply).
 	closed map[float64]*closedLoop
+	// halfHint, when positive, is the half period used by closedAt in
+	// place of the poles' (inside a bracket, see hintedCrossing).
+	halfHint float64
 	// The requirements with an exact construction and the others, with
 	// their indices in the caller's list.
 	exact, generic       spec.Requirements
