@@ -206,9 +206,13 @@ func bigAberth(c []float64, z []complex128, k int, e complex128) complex128 {
 
 // bigRatio returns the Newton correction p(z)/p′(z) with p and p′
 // evaluated by Horner's scheme in math/big at bigPrecision bits (no
-// overflow for any double coefficients and argument).
+// overflow for any double coefficients and argument); NaN when z or a
+// coefficient is not finite.
 func bigRatio(c []float64, z complex128) complex128 {
 	n := len(c) - 1
+	if !finite([]float64{real(z), imag(z)}) || !finite(c) {
+		return complex(math.NaN(), math.NaN()) // no ratio (big.Float has no NaN)
+	}
 	nf := func() *big.Float { return new(big.Float).SetPrec(bigPrecision) }
 	zr, zi := nf().SetFloat64(real(z)), nf().SetFloat64(imag(z))
 	pr, pi := nf().SetFloat64(c[n]), nf()
