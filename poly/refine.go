@@ -235,8 +235,10 @@ func wideRatio(c []float64, z complex128) complex128 {
 }
 
 // wide is the complex number m·2^e, kept with max(|Re m|, |Im m|) in
-// [1/2, 1) (or m = 0), so that no product or sum of two wides overflows or
-// underflows.
+// [2⁻⁴⁰⁰, 2⁴⁰⁰] (or m = 0), so that no product or sum of two wides
+// overflows or underflows; m is rescaled (by a power of two, exactly) only
+// when it leaves that range, so in the common case e stays 0 and the
+// arithmetic is plain complex128.
 type wide struct {
 	m complex128
 	e int
@@ -244,12 +246,17 @@ type wide struct {
 
 func newWide(z complex128) wide { return wide{m: z}.norm() }
 
-// norm rescales m into [1/2, 1) by a power of two (exact).
+// norm rescales m into [1/2, 1) by a power of two when it has left
+// [2⁻⁴⁰⁰, 2⁴⁰⁰].
 func (w wide) norm() wide {
-	if w.m == 0 {
+	a := math.Max(math.Abs(real(w.m)), math.Abs(imag(w.m)))
+	switch {
+	case a == 0:
 		return wide{}
+	case a >= 0x1p-400 && a <= 0x1p400:
+		return w
 	}
-	_, e := math.Frexp(math.Max(math.Abs(real(w.m)), math.Abs(imag(w.m))))
+	_, e := math.Frexp(a)
 	return wide{m: complex(math.Ldexp(real(w.m), -e), math.Ldexp(imag(w.m), -e)), e: w.e + e}
 }
 
@@ -264,6 +271,8 @@ func (w wide) add(v wide) wide {
 		return v
 	case v.m == 0:
 		return w
+	case w.e == v.e:
+		return wide{m: w.m + v.m, e: w.e}.norm()
 	}
 	if w.e < v.e {
 		w, v = v, w
