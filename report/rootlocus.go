@@ -83,6 +83,7 @@ func (a *analysis) rootLocus() {
 	for _, iv := range an.StableIntervals {
 		l.StableIntervals = append(l.StableIntervals, Interval{Number(iv.Lo), Number(iv.Hi)})
 	}
+	a.deadTimeLocus(loop, set) // deadtime.go: exact crossings with dead time
 	l.Notes = append(l.Notes, an.Notes...)
 	for _, n := range an.Notes {
 		a.warn("root locus: %s", n)
