@@ -24,6 +24,7 @@ import (
 	"math"
 	"strings"
 
+	"github.com/loopwise/loopwise/chart"
 	"github.com/loopwise/loopwise/locus"
 	"github.com/loopwise/loopwise/response"
 	"github.com/loopwise/loopwise/tf"
@@ -210,30 +211,76 @@ func (a *analysis) stepCurve() (response.Response, error) {
 	return response.Step(a.refOut, nil)
 }
 
-// deadTimeLocus replaces the locus section's axis crossings and stable
-// intervals, computed on the Padé approximation by locus.Analyze, by the
-// exact ones of locus.DelayedStableGains for the loop (or the parametric
-// loop of an affine parameter) with its dead time; called by rootLocus.
-func (a *analysis) deadTimeLocus(loop tf.TF, set *locus.Settings) {
+// deadTimeLocus replaces the locus section, computed on the Padé
+// approximation by locus.Analyze, by the exact construction quantities of
+// locus.DelayedAnalyze for the loop (or the parametric loop of an affine
+// parameter) with its dead time; called by rootLocus, which keeps the Padé
+// section when it returns false.
+func (a *analysis) deadTimeLocus(loop tf.TF, set *locus.Settings) bool {
 	if a.dead == nil || loop.DelaySec() <= 0 {
-		return
+		return false
+	}
+	an, err := locus.DelayedAnalyze(loop, &locus.Settings{Range: set.Range, Variable: set.Variable})
+	if err != nil {
+		a.warn("root locus: the locus with the dead time exact could not be analysed (%s); the locus keys are those of the %s-order Padé approximation", short(err), ordinal(padeOrder))
+		return false
 	}
 	l := &a.rep.Locus
-	st, err := locus.DelayedStableGains(loop, &locus.Settings{Range: set.Range, Variable: set.Variable})
-	if err != nil {
-		a.warn("root locus: the exact crossings with the dead time could not be computed (%s); the crossings and stable intervals of the locus are those of the %s-order Padé approximation", short(err), ordinal(padeOrder))
-		return
+	l.Centroid, l.AsymptoteAnglesDeg = nan, []Number{}
+	l.RealAxisSegments, l.DepartureAngles, l.ArrivalAngles = []Interval{}, []AngleAt{}, []AngleAt{}
+	l.BreakPoints, l.AxisCrossings, l.StableIntervals = []BreakPoint{}, []AxisCrossing{}, []Interval{}
+	for _, iv := range an.RealAxisSegments {
+		l.RealAxisSegments = append(l.RealAxisSegments, Interval{Number(iv.Lo), Number(iv.Hi)})
 	}
-	l.AxisCrossings, l.StableIntervals = []AxisCrossing{}, []Interval{}
-	for _, c := range st.Crossings {
-		l.AxisCrossings = append(l.AxisCrossings, AxisCrossing{FrequencyRadPerSec: Number(c.FrequencyRadPerSec),
-			Point: Complex{Re: 0, Im: Number(c.FrequencyRadPerSec)}, Value: Number(c.Value)})
+	for _, d := range an.Departures {
+		p := newComplex(d.Point)
+		l.DepartureAngles = append(l.DepartureAngles, AngleAt{Pole: &p, AngleDeg: Number(d.AngleDeg)})
 	}
-	for _, iv := range st.StableIntervals {
+	for _, d := range an.Arrivals {
+		z := newComplex(d.Point)
+		l.ArrivalAngles = append(l.ArrivalAngles, AngleAt{Zero: &z, AngleDeg: Number(d.AngleDeg)})
+	}
+	for _, b := range an.BreakPoints {
+		l.BreakPoints = append(l.BreakPoints, BreakPoint{S: newComplex(b.Point), Value: Number(b.Value), Branches: b.Branches})
+	}
+	for _, c := range an.AxisCrossings {
+		l.AxisCrossings = append(l.AxisCrossings, AxisCrossing{FrequencyRadPerSec: Number(c.FrequencyRadPerSec), Point: newComplex(c.Point), Value: Number(c.Value)})
+	}
+	for _, iv := range an.StableIntervals {
 		l.StableIntervals = append(l.StableIntervals, Interval{Number(iv.Lo), Number(iv.Hi)})
 	}
-	l.Notes = append(l.Notes, fmt.Sprintf("the axis crossings and stable intervals are exact with the dead time of %s s; the asymptotes, angles and break points are those of the rational part with a %s-order Padé approximation of the dead time",
-		g(Number(loop.DelaySec())), ordinal(padeOrder)))
+	l.Notes = []string{fmt.Sprintf("dead time of %s s kept exact: no asymptotes (the branches to infinity are chains of roots that come in from Re s = −∞); break points, angles, crossings and stable intervals are those of the exact closed loop", g(Number(loop.DelaySec())))}
+	return true
+}
+
+// deadTimeLocusFigure draws the root locus with the dead time exact
+// (locus.DelayedTrace) when the loop's dead time is kept exact; ok is
+// false otherwise and plots.go draws the locus of the rational loop.
+func (a *analysis) deadTimeLocusFigure(set *locus.Settings, value float64) (fig *chart.Figure, ok bool, err error) {
+	if a.dead == nil || a.locusFor.DelaySec() <= 0 || set.Range.Min < 0 {
+		return nil, false, nil
+	}
+	l, err := locus.DelayedTrace(a.locusFor, set)
+	if err != nil {
+		a.warn("root locus figure: the locus with the dead time exact could not be traced (%s); the figure shows the %s-order Padé approximation", short(err), ordinal(padeOrder))
+		return nil, false, nil
+	}
+	ls := &chart.LocusSettings{PlaneSettings: chart.PlaneSettings{Grid: true,
+		Title: fmt.Sprintf("Root locus over %s, dead time %s s exact", variableWords(l.Analysis.Variable), g(Number(a.locusFor.DelaySec())))}}
+	if l.Analysis.Range.Contains(value) && a.dead.rootsErr == nil {
+		// The exact closed-loop roots at the nominal value that lie in the
+		// view (the others are far left).
+		var in []complex128
+		v := l.View
+		for _, s := range a.dead.roots.Roots {
+			if real(s) >= v.ReMin && real(s) <= v.ReMax && imag(s) >= v.ImMin && imag(s) <= v.ImMax {
+				in = append(in, s)
+			}
+		}
+		ls.Mark = &chart.LocusMark{Value: value, Poles: in}
+	}
+	fig, err = chart.RootLocus(l, ls)
+	return fig, true, err
 }
 
 // DeadTimeResult is the "dead_time" section: the closed loop of a

@@ -153,3 +153,31 @@ func TestDeadTimeUnstableAndBiproper(t *testing.T) {
 		t.Errorf("biproper: dead_time %v, warnings %q", r.DeadTime, r.Warnings)
 	}
 }
+
+// TestDeadTimeLocusFigure: with the dead time exact the root-locus figure
+// is traced on the exact closed loop (no fallback warning).
+func TestDeadTimeLocusFigure(t *testing.T) {
+	if testing.Short() {
+		t.Skip("draws every figure")
+	}
+	lf, err := ReadLoop("x.json", []byte(`{"plant": "1/(0.1s+1)", "controller": "2(1+1/(0.05s))", "delay_sec": 0.02}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := Analyze(lf, &Settings{Plots: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, w := range r.Warnings {
+		if strings.Contains(w, "root locus") {
+			t.Errorf("warning %q", w)
+		}
+	}
+	found := false
+	for _, f := range r.Figures {
+		found = found || (f.File == "root-locus" && strings.Contains(string(f.SVG), "dead time 0.02 s exact"))
+	}
+	if !found {
+		t.Errorf("no exact root-locus figure")
+	}
+}

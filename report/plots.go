@@ -57,6 +57,9 @@ func (a *analysis) plots() []Figure {
 			}
 			set := &locus.Settings{PadeOrder: padeOrder, Range: a.locus.Range, Variable: a.locus.Variable,
 				Progress: func(f float64) { a.fraction("plots: tracing the root locus", f) }}
+			if fig, ok, err := a.deadTimeLocusFigure(set, value); ok { // deadtime.go
+				return fig, err
+			}
 			l, err := locus.Trace(a.locusFor, set)
 			if err != nil {
 				return nil, err

@@ -83,7 +83,9 @@ func (a *analysis) rootLocus() {
 	for _, iv := range an.StableIntervals {
 		l.StableIntervals = append(l.StableIntervals, Interval{Number(iv.Lo), Number(iv.Hi)})
 	}
-	a.deadTimeLocus(loop, set) // deadtime.go: exact crossings with dead time
+	if a.deadTimeLocus(loop, set) { // deadtime.go: the exact locus with dead time
+		return
+	}
 	l.Notes = append(l.Notes, an.Notes...)
 	for _, n := range an.Notes {
 		a.warn("root locus: %s", n)
@@ -106,6 +108,8 @@ func locusTables(r *Report) []table {
 			angles[i] = gUnit(a, "°")
 		}
 		ls.rows = append(ls.rows, row{"asymptotes", fmt.Sprintf("centroid %s, angles %s", g(lo.Centroid), strings.Join(angles, ", "))})
+	} else if r.DeadTime != nil {
+		ls.rows = append(ls.rows, row{"asymptotes", "none: with the dead time exact, the branches to infinity come in from Re s = −∞"})
 	} else {
 		ls.rows = append(ls.rows, row{"asymptotes", "none (as many zeros as poles)"})
 	}
