@@ -226,29 +226,7 @@ func (a *analysis) deadTimeLocus(loop tf.TF, set *locus.Settings) bool {
 		return false
 	}
 	l := &a.rep.Locus
-	l.Centroid, l.AsymptoteAnglesDeg = nan, []Number{}
-	l.RealAxisSegments, l.DepartureAngles, l.ArrivalAngles = []Interval{}, []AngleAt{}, []AngleAt{}
-	l.BreakPoints, l.AxisCrossings, l.StableIntervals = []BreakPoint{}, []AxisCrossing{}, []Interval{}
-	for _, iv := range an.RealAxisSegments {
-		l.RealAxisSegments = append(l.RealAxisSegments, Interval{Number(iv.Lo), Number(iv.Hi)})
-	}
-	for _, d := range an.Departures {
-		p := newComplex(d.Point)
-		l.DepartureAngles = append(l.DepartureAngles, AngleAt{Pole: &p, AngleDeg: Number(d.AngleDeg)})
-	}
-	for _, d := range an.Arrivals {
-		z := newComplex(d.Point)
-		l.ArrivalAngles = append(l.ArrivalAngles, AngleAt{Zero: &z, AngleDeg: Number(d.AngleDeg)})
-	}
-	for _, b := range an.BreakPoints {
-		l.BreakPoints = append(l.BreakPoints, BreakPoint{S: newComplex(b.Point), Value: Number(b.Value), Branches: b.Branches})
-	}
-	for _, c := range an.AxisCrossings {
-		l.AxisCrossings = append(l.AxisCrossings, AxisCrossing{FrequencyRadPerSec: Number(c.FrequencyRadPerSec), Point: newComplex(c.Point), Value: Number(c.Value)})
-	}
-	for _, iv := range an.StableIntervals {
-		l.StableIntervals = append(l.StableIntervals, Interval{Number(iv.Lo), Number(iv.Hi)})
-	}
+	l.fill(an)
 	l.Notes = []string{fmt.Sprintf("dead time of %s s kept exact: no asymptotes (the branches to infinity are chains of roots that come in from Re s = −∞); break points, angles, crossings and stable intervals are those of the exact closed loop", g(Number(loop.DelaySec())))}
 	return true
 }
