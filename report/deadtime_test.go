@@ -181,3 +181,25 @@ func TestDeadTimeLocusFigure(t *testing.T) {
 		t.Errorf("no exact root-locus figure")
 	}
 }
+
+// TestDeadTimeUnstablePlant checks k·e^(−sτ)/(s − 1) at k = 2: stable for
+// τ < arctan(√(k² − 1))/√(k² − 1) = (π/3)/√3 (closed form from the axis
+// crossing at ω = √(k² − 1), where ωτ = arctan ω; by hand), and for k > 1
+// only.
+func TestDeadTimeUnstablePlant(t *testing.T) {
+	r := analyzeText(t, `{"plant": "1/(s-1)", "gain": 2, "delay_sec": 0.2}`)
+	d := r.DeadTime
+	if d == nil || r.ClosedLoop.Stable == nil || !*r.ClosedLoop.Stable {
+		t.Fatalf("dead_time %v, verdict %v: want stable", d, r.ClosedLoop.Stable)
+	}
+	tauMax := math.Pi / 3 / math.Sqrt(3)
+	if len(d.StableDelayIntervalsSec) != 1 || !relClose(d.StableDelayIntervalsSec[0][1], tauMax, 1e-12) {
+		t.Errorf("stable delay intervals %v, want [[0, %v]]", d.StableDelayIntervalsSec, tauMax)
+	}
+	if !relClose(d.DelayMarginSec, tauMax-0.2, 1e-12) {
+		t.Errorf("delay margin %v, want %v", d.DelayMarginSec, tauMax-0.2)
+	}
+	if iv := r.Locus.StableIntervals; len(iv) != 1 || !relClose(iv[0][0], 1, 1e-12) {
+		t.Errorf("stable gain intervals %v, want one starting at k = 1 (D(0) + k·N(0) = 0)", iv)
+	}
+}
