@@ -94,3 +94,29 @@ func TestDiscreteDelayCapped(t *testing.T) {
 		}
 	}
 }
+
+// TestDegree500Margins: the report's margins section on 1/(s+1)^500 was a
+// recovered panic (index out of range [-1] in the real-root isolation,
+// whose shifted polynomial overflowed). Closed form as for order 30: the
+// phase crossover at ω = tan(π/500), gain margin sec(π/500)^500; |L| < 1
+// for every ω > 0, so there is no gain crossover.
+func TestDegree500Margins(t *testing.T) {
+	if testing.Short() {
+		t.Skip("degree-500 root solves take seconds")
+	}
+	res, err := Compute(tf.MustParse("1/(s+1)^500"), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	wantW := math.Tan(math.Pi / 500)
+	wantGM := math.Pow(1/math.Cos(math.Pi/500), 500)
+	// The roots of (s+1)^500 in double precision spread over a disc of
+	// radius about 1 (a 500-fold cluster), but the margins come from
+	// |L(jω)| and ∠L(jω) evaluated directly: 1e-9 relative.
+	if !closeRel(res.PhaseCrossoverRadPerSec, wantW, 1e-9) || !closeRel(res.GainMargin, wantGM, 1e-9) {
+		t.Errorf("phase crossover %v rad/s, gain margin %v; want %v, %v", res.PhaseCrossoverRadPerSec, res.GainMargin, wantW, wantGM)
+	}
+	if len(res.GainCrossovers) != 0 {
+		t.Errorf("gain crossovers %v; want none", res.GainCrossovers)
+	}
+}
