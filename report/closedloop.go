@@ -250,6 +250,9 @@ func (a *analysis) loopParts() (closedloop.Loop, error) {
 // ahead of the plant. The description names the difference.
 func sampledParts(l closedloop.Loop, d *Discretize, unitySensor bool) (closedloop.Loop, error) {
 	T := d.SampleTimeSec
+	if !l.Controller.IsProper() && d.Method != "tustin" {
+		return closedloop.Loop{}, fmt.Errorf("the controller %s is improper (a derivative without filter), and \"discretize.method\" %q cannot convert it to z on its own; use \"tustin\" or give the derivative a filter", l.Controller, d.Method)
+	}
 	c, err := discretize(l.Controller, d)
 	if err != nil {
 		return closedloop.Loop{}, fmt.Errorf("the controller cannot be converted to z on its own: %s", strings.TrimPrefix(short(err), "key \"discretize\": the loop cannot be converted to z: "))

@@ -205,3 +205,31 @@ func TestDiscretizedLoopAgainstDifferenceEquations(t *testing.T) {
 		}
 	}
 }
+
+// TestWholeLoopRequirementWithoutParts: with "discretize" and the method
+// "zoh", an improper controller (2 + s) cannot be converted to z on its
+// own, so the sampled-data loop has no parts. The requirement on the
+// disturbance peak then fails with a message in words (no Go field names)
+// and the warnings say why in the loop file's terms.
+func TestWholeLoopRequirementWithoutParts(t *testing.T) {
+	r := analyzeText(t, `{"plant": "1/((s+1)(s+2))", "controller": "2 + s", "discretize": {"method": "zoh", "sample_time_sec": 0.1},
+		"requirements": {"max_disturbance_peak": 1}}`)
+	if len(r.Requirements) != 1 {
+		t.Fatalf("requirements %+v", r.Requirements)
+	}
+	q := r.Requirements[0]
+	if q.Pass || strings.Contains(q.Message, "Settings") || !strings.Contains(q.Message, "the plant and the controller taken apart") {
+		t.Errorf("message %q: want a failure in words, without Go names", q.Message)
+	}
+	found := false
+	for _, w := range r.Warnings {
+		found = found || strings.Contains(w, `"discretize.method" "zoh" cannot convert it to z on its own`)
+	}
+	if !found {
+		t.Errorf("no warning says why: %v", r.Warnings)
+	}
+	t.Logf("message: %s", q.Message)
+	for _, w := range r.Warnings {
+		t.Logf("warning: %s", w)
+	}
+}
