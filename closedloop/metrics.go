@@ -132,6 +132,9 @@ func (fs *Functions) StepDeviation(from Input, to Output, set *Settings) (StepDe
 	if err := fs.requireStable(); err != nil {
 		return StepDeviation{}, err
 	}
+	if fs.loopDelay() > 0 {
+		return fs.delayedDeviation(from, to, band)
+	}
 	g := fs.fns[from][to].TF
 	tr, err := newTrajectory(g, true)
 	if err != nil {
@@ -162,6 +165,17 @@ func (fs *Functions) ControlEffort(from Input) (ControlEffort, error) {
 	if err := fs.requireStable(); err != nil {
 		return ControlEffort{}, err
 	}
+	if fs.loopDelay() > 0 {
+		d, err := fs.delayedStep(from, Control)
+		if err != nil {
+			return ControlEffort{}, fmt.Errorf("%v → control signal: %w", from, err)
+		}
+		var c ControlEffort
+		c.InitialValue = d.initial()
+		c.PeakValue, c.PeakTimeSec = d.peak()
+		c.FinalValue = d.final
+		return c, nil
+	}
 	g := fs.fns[from][Control].TF
 	tr, err := newTrajectory(g, false)
 	if err != nil {
@@ -186,6 +200,15 @@ func (fs *Functions) ControlEffort(from Input) (ControlEffort, error) {
 func (fs *Functions) ErrorIntegrals(from Input) (IntegralCriteria, error) {
 	if err := fs.requireStable(); err != nil {
 		return IntegralCriteria{}, err
+	}
+	if fs.loopDelay() > 0 {
+		d, err := fs.delayedStep(from, Error)
+		if err != nil {
+			return IntegralCriteria{}, fmt.Errorf("%v → error: %w", from, err)
+		}
+		var c IntegralCriteria
+		c.IntegratedAbsoluteError, c.IntegratedTimeAbsoluteError, c.IntegratedSquaredError, c.AbsoluteErrorBound, c.TimeAbsoluteErrorBound = d.integrals()
+		return c, nil
 	}
 	g := fs.fns[from][Error].TF
 	tr, err := newTrajectory(g, true)
@@ -233,6 +256,25 @@ func stepEnergy(g tf.TF) (float64, error) {
 		v *= ts
 	}
 	return v, err
+}
+
+// delayedDeviation is StepDeviation for a continuous loop with dead time,
+// on the exact delayed response (delayed.go).
+func (fs *Functions) delayedDeviation(from Input, to Output, band float64) (StepDeviation, error) {
+	d, err := fs.delayedStep(from, to)
+	if err != nil {
+		return StepDeviation{}, fmt.Errorf("%v → %v: %w", from, to, err)
+	}
+	var s StepDeviation
+	s.PeakDeviation, s.PeakTimeSec = d.peak()
+	s.FinalValue = d.final
+	if s.PeakDeviation == 0 {
+		s.PeakTimeSec = 0
+	} else {
+		s.RecoveryTimeSec = d.lastExit(band * math.Abs(s.PeakDeviation))
+	}
+	s.IntegratedAbsoluteError, s.IntegratedTimeAbsoluteError, s.IntegratedSquaredError, s.AbsoluteErrorBound, s.TimeAbsoluteErrorBound = d.integrals()
+	return s, nil
 }
 
 // NoiseGains returns the noise gains. Errors: ErrInternallyUnstable.
