@@ -61,14 +61,48 @@ type delayedResponse struct {
 	wmax        float64
 }
 
-// loopDelay returns the dead time of the continuous loop (0 in discrete
-// time: there it is exact poles at z = 0).
+// loopDelay returns the dead time of the continuous loop that the time
+// metrics treat exactly: 0 in discrete time (there it is exact poles at
+// z = 0) and 0 for a negligible dead time (see negligibleDelay), whose
+// rational functions are exact to that level.
 func (fs *Functions) loopDelay() float64 {
-	if fs.SampleTimeSec > 0 {
+	if fs.SampleTimeSec > 0 || fs.delayNegligible {
 		return 0
 	}
 	p := fs.exact
 	return p.c.DelaySec() + p.g.DelaySec() + p.h.DelaySec()
+}
+
+// negligibleDelayTol is the size of τ·ρ (ρ the largest modulus of a pole
+// or zero of the parts) below which a dead time is negligible: e^(−sτ)
+// differs from its Padé approximant of order 1 by about (τρ)³/12 < 1e-25
+// at the loop's own frequencies, far below rounding, while the exact
+// method would need the root count of a quasi-polynomial at a time scale
+// 1e8 times finer than the loop's.
+const negligibleDelayTol = 1e-8
+
+// negligibleDelay reports whether the continuous dead time tau of the
+// loop p is negligible against its fastest pole or zero.
+func negligibleDelay(p parts, tau float64) bool {
+	if tau == 0 {
+		return false
+	}
+	rho := 0.0
+	for _, g := range []tf.TF{p.c, p.g, p.h} {
+		for _, q := range []func() ([]complex128, error){g.WithoutDelay().Poles, g.WithoutDelay().Zeros} {
+			rs, err := q()
+			if err != nil {
+				return false
+			}
+			for _, r := range rs {
+				rho = math.Max(rho, math.Hypot(real(r), imag(r)))
+			}
+		}
+	}
+	if rho == 0 {
+		rho = math.Abs(p.k) // a static loop: its only scale is the gain
+	}
+	return tau*rho < negligibleDelayTol
 }
 
 // samplesPerInterval is how many samples of w each collocation interval of
@@ -392,4 +426,48 @@ func (d *delayedResponse) integrals() (iae, itae, ise, iaeBound, itaeBound float
 	iaeBound = tail1 + interp*H + 1e-13*iae
 	itaeBound = tail2 + interp*H*H/2 + 1e-13*itae
 	return iae, itae, ise, iaeBound, itaeBound
+}
+
+// plotSamples is the number of intervals of StepResponse's grid for a loop
+// with dead time.
+const plotSamples = 1000
+
+// StepResponse returns the unit-step response of the function from input
+// to output on a grid for plotting: response.Step of Function.TF for a
+// loop without continuous dead time; for one with dead time the exact
+// delayed response (see the package documentation) sampled on plotSamples
+// intervals over t₀ + 3τ + 10/σ (t₀ the function's own dead time, τ the
+// loop's, σ the decay rate of the rightmost closed-loop root), with both
+// sides of the jump at t₀ when there is one. Errors: as StepDeviation.
+func (fs *Functions) StepResponse(from Input, to Output) (response.Response, error) {
+	if err := fs.requireStable(); err != nil {
+		return response.Response{}, err
+	}
+	if fs.loopDelay() == 0 {
+		r, err := response.Step(fs.fns[from][to].TF, nil)
+		if err != nil {
+			return response.Response{}, fmt.Errorf("%w: %v → %v: %v", ErrNumerical, from, to, err)
+		}
+		return r, nil
+	}
+	d, err := fs.delayedStep(from, to)
+	if err != nil {
+		return response.Response{}, fmt.Errorf("%v → %v: %w", from, to, err)
+	}
+	end := float64(len(d.w)-1)*d.step - d.delta
+	H := math.Min(end, d.t0+3*d.tau+10/d.sigma)
+	h := H / plotSamples
+	var r response.Response
+	for k := 0; k <= plotSamples; k++ {
+		t := float64(k) * h
+		y := d.off
+		if t >= d.t0 {
+			if len(r.TimeSec) > 0 && r.TimeSec[len(r.TimeSec)-1] < d.t0 && d.jump != 0 {
+				r.TimeSec, r.Output = append(r.TimeSec, d.t0, d.t0), append(r.Output, d.off, d.initial())
+			}
+			y = d.yAt(t)
+		}
+		r.TimeSec, r.Output = append(r.TimeSec, t), append(r.Output, y)
+	}
+	return r, nil
 }

@@ -7,7 +7,6 @@ import (
 
 	"github.com/loopwise/loopwise/chart"
 	"github.com/loopwise/loopwise/closedloop"
-	"github.com/loopwise/loopwise/response"
 	"github.com/loopwise/loopwise/tf"
 )
 
@@ -227,6 +226,12 @@ func (a *analysis) loopParts() (closedloop.Loop, error) {
 		}
 	}
 	l := closedloop.Loop{Plant: plant, Controller: m.controller, Sensor: m.sensor, Gain: m.gain}
+	if m.delayIgnored {
+		// The dead time is negligible against the loop's dynamics and the
+		// other sections leave it out (build.go, negligibleDelay): so do
+		// these.
+		l.Plant, l.Controller, l.Sensor = l.Plant.WithoutDelay(), l.Controller.WithoutDelay(), l.Sensor.WithoutDelay()
+	}
 	if d := m.file.Discretize; d != nil {
 		return sampledParts(l, d, m.unitySensor)
 	}
@@ -315,7 +320,7 @@ func (a *analysis) closedLoopStage() {
 		return
 	}
 	if fs.DelayApproximated {
-		a.warn("load disturbance, control effort and noise: the dead time inside the loop is replaced by its Padé approximation of order %d for the responses and H2 norms (the frequency peaks are exact)", padeOrder)
+		a.warn("load disturbance, control effort and noise: the responses, peaks, recovery time, IAE and ISE are those of the exact dead time (method of steps), the noise H2 norms use its Padé approximation of order %d", padeOrder)
 	}
 	var m closedloop.Metrics
 	var errs [8]error
@@ -428,7 +433,7 @@ func (a *analysis) closedLoopPlots(add func(title, file, caption string, draw fu
 		add("Load-disturbance response", "load-disturbance",
 			"Output after a unit step of load disturbance at the plant input: the peak deviation, the recovery band (2 % of the peak) and the recovery time.",
 			func() (*chart.Figure, error) {
-				r, err := response.Step(c.fs.Function(closedloop.LoadDisturbance, closedloop.ProcessOutput).TF, nil)
+				r, err := c.fs.StepResponse(closedloop.LoadDisturbance, closedloop.ProcessOutput)
 				if err != nil {
 					return nil, err
 				}
@@ -439,7 +444,7 @@ func (a *analysis) closedLoopPlots(add func(title, file, caption string, draw fu
 		add("Control signal", "control-signal",
 			"Control signal after a unit reference step: the initial kick u(0+), the peak and the final value.",
 			func() (*chart.Figure, error) {
-				r, err := response.Step(c.fs.Function(closedloop.Reference, closedloop.Control).TF, nil)
+				r, err := c.fs.StepResponse(closedloop.Reference, closedloop.Control)
 				if err != nil {
 					return nil, err
 				}
