@@ -319,18 +319,7 @@ func (d *delayedResponse) points(M int) {
 
 // peak returns the value of largest magnitude and its time, or (final,
 // +Inf) for a response that creeps to its final value, as trajectory.peak.
-func (d *delayedResponse) peak() (value, timeSec float64) {
-	best := d.pts[0]
-	for _, p := range d.pts[1:] {
-		if math.Abs(p.y) > math.Abs(best.y)*(1+1e-13) {
-			best = p
-		}
-	}
-	if d.final != 0 && math.Abs(best.y) <= math.Abs(d.final)*(1+1e-12) {
-		return d.final, math.Inf(1)
-	}
-	return best.y, best.t
-}
+func (d *delayedResponse) peak() (value, timeSec float64) { return peakOf(d.pts, d.final) }
 
 // initial returns y just after the function's own dead time t0 (y(0+)
 // when t0 = 0): the kick of the control signal when the step reaches it.
@@ -339,12 +328,7 @@ func (d *delayedResponse) initial() float64 { return d.off + d.sgn*d.jump }
 // lastExit returns the last time |y − final| equals level; 0 if never
 // outside, t0 when y jumps into the band there.
 func (d *delayedResponse) lastExit(level float64) float64 {
-	last := -1
-	for i, p := range d.pts {
-		if math.Abs(p.y-d.final) > level {
-			last = i
-		}
-	}
+	last := lastOutside(d.pts, d.final, level)
 	switch {
 	case last < 0:
 		return 0

@@ -140,14 +140,7 @@ func (fs *Functions) StepDeviation(from Input, to Output, set *Settings) (StepDe
 	if err != nil {
 		return StepDeviation{}, fmt.Errorf("%v → %v: %w", from, to, err)
 	}
-	var d StepDeviation
-	d.PeakDeviation, d.PeakTimeSec = tr.peak()
-	d.FinalValue = tr.final
-	if d.PeakDeviation == 0 {
-		d.PeakTimeSec = 0
-	} else {
-		d.RecoveryTimeSec = tr.lastExit(band * math.Abs(d.PeakDeviation))
-	}
+	d := deviation(tr, tr.final, band)
 	c, err := fs.criteria(g, tr)
 	if err != nil {
 		return StepDeviation{}, fmt.Errorf("%v → %v: %w", from, to, err)
@@ -258,6 +251,27 @@ func stepEnergy(g tf.TF) (float64, error) {
 	return v, err
 }
 
+// located is a step response whose peak and band exit are located:
+// trajectory (rational) or delayedResponse (exact dead time).
+type located interface {
+	peak() (value, timeSec float64)
+	lastExit(level float64) float64
+}
+
+// deviation fills the peak, final value and recovery time of a
+// StepDeviation from r.
+func deviation(r located, final, band float64) StepDeviation {
+	var d StepDeviation
+	d.PeakDeviation, d.PeakTimeSec = r.peak()
+	d.FinalValue = final
+	if d.PeakDeviation == 0 {
+		d.PeakTimeSec = 0
+	} else {
+		d.RecoveryTimeSec = r.lastExit(band * math.Abs(d.PeakDeviation))
+	}
+	return d
+}
+
 // delayedDeviation is StepDeviation for a continuous loop with dead time,
 // on the exact delayed response (delayed.go).
 func (fs *Functions) delayedDeviation(from Input, to Output, band float64) (StepDeviation, error) {
@@ -265,14 +279,7 @@ func (fs *Functions) delayedDeviation(from Input, to Output, band float64) (Step
 	if err != nil {
 		return StepDeviation{}, fmt.Errorf("%v → %v: %w", from, to, err)
 	}
-	var s StepDeviation
-	s.PeakDeviation, s.PeakTimeSec = d.peak()
-	s.FinalValue = d.final
-	if s.PeakDeviation == 0 {
-		s.PeakTimeSec = 0
-	} else {
-		s.RecoveryTimeSec = d.lastExit(band * math.Abs(s.PeakDeviation))
-	}
+	s := deviation(d, d.final, band)
 	s.IntegratedAbsoluteError, s.IntegratedTimeAbsoluteError, s.IntegratedSquaredError, s.AbsoluteErrorBound, s.TimeAbsoluteErrorBound = d.integrals()
 	return s, nil
 }
