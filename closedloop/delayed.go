@@ -186,15 +186,13 @@ func (fs *Functions) delayedStep(from Input, to Output) (*delayedResponse, error
 		d.jump = phi.GainFactor()
 	}
 	// Exact stability and time scale: the rightmost root of the
-	// quasi-polynomial (locus.DelayedRoots, with its count proof).
-	roots, err := locus.DelayedRoots(loop, 1, &locus.DelaySettings{Count: 1})
-	if err != nil && !errors.Is(err, locus.ErrTraceFailed) {
-		return nil, fmt.Errorf("%w: closed-loop roots of %v: %v", ErrNumerical, loop, err)
+	// quasi-polynomial (locus.DelayedRoots, with its count proof), found
+	// once per Functions.
+	fs.rightmostOnce.Do(func() { fs.rightmost, fs.rightmostErr = rightmostRoot(loop) })
+	if fs.rightmostErr != nil {
+		return nil, fs.rightmostErr
 	}
-	if len(roots.Roots) == 0 || !roots.CountVerified {
-		return nil, fmt.Errorf("%w: the rightmost closed-loop root of %v was not found with a proof", ErrNumerical, loop)
-	}
-	rm := roots.Roots[0]
+	rm := fs.rightmost
 	if real(rm) >= -axisTol*math.Max(1, math.Abs(imag(rm))) {
 		return nil, fmt.Errorf("%w: with the exact dead time %v s the closed-loop root %v has Re s ≥ 0", ErrInternallyUnstable, tau, rm)
 	}
@@ -242,6 +240,19 @@ func (fs *Functions) delayedStep(from Input, to Output) (*delayedResponse, error
 	}
 	d.points(M)
 	return d, nil
+}
+
+// rightmostRoot returns the rightmost closed-loop root of the loop with
+// dead time, with the proof that none lies further right.
+func rightmostRoot(loop tf.TF) (complex128, error) {
+	roots, err := locus.DelayedRoots(loop, 1, &locus.DelaySettings{Count: 1})
+	if err != nil && !errors.Is(err, locus.ErrTraceFailed) {
+		return 0, fmt.Errorf("%w: closed-loop roots of %v: %v", ErrNumerical, loop, err)
+	}
+	if len(roots.Roots) == 0 || !roots.CountVerified {
+		return 0, fmt.Errorf("%w: the rightmost closed-loop root of %v was not found with a proof", ErrNumerical, loop)
+	}
+	return roots.Roots[0], nil
 }
 
 // wAt returns w at w-time tw from the degree-6 interpolant of the seven

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"sync"
 
 	"github.com/loopwise/loopwise/poly"
 	"github.com/loopwise/loopwise/tf"
@@ -123,6 +124,11 @@ type Functions struct {
 	// delayNegligible: the loop's continuous dead time is negligible
 	// (negligibleDelay), and the time metrics use the rational functions.
 	delayNegligible bool
+	// rightmost is the exact rightmost closed-loop root of a continuous
+	// loop with dead time, found once (delayed.go).
+	rightmostOnce sync.Once
+	rightmost     complex128
+	rightmostErr  error
 
 	// ClosedLoopPoles are the roots of the characteristic polynomial
 	// D_C·D_G·D_H + k·N_C·N_G·N_H of the loop (no cancellation), and the
