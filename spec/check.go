@@ -233,7 +233,9 @@ func (e *evaluator) getWhole() (closedloop.Metrics, string, error) {
 			return e.whole, "", err
 		}
 		if fs.DelayApproximated {
-			e.wholeNote = fmt.Sprintf("dead time approximated by a Padé approximation of order %d", e.padeOrder)
+			// The time metrics of closedloop use the exact delayed
+			// response and the frequency peaks the exact dead time; say so.
+			e.wholeNote = "with the exact dead time"
 		}
 		e.whole, e.wholeErr = fs.Analyze(nil)
 	}
