@@ -34,7 +34,12 @@
 // exclusion of the value set on a subdivided box with outward-rounded
 // interval arithmetic — see Stability for the sources. Discrete loops are
 // mapped exactly to the axis by the bilinear map (poly.CircleToAxis), which
-// keeps the class of dependence. Bounds on margins come from the same engine
+// keeps the class of dependence. A loop written in s and converted to z
+// (Description.Discretize) is supported for the Tustin method, whose
+// substitution s = c(z − 1)/(z + 1) is a fixed linear map of the recovered
+// coefficients, so they stay polynomial in the parameters; the holds and
+// the matched pole-zero map (exponentials of parameter-dependent poles) are
+// refused with ErrUnsupported rather than proven on an approximation. Bounds on margins come from the same engine
 // applied to families widened by the margin (WorstCases).
 //
 // # Speed
