@@ -17,11 +17,9 @@ mp.mp.dps = 40
 
 
 def mul(a, b):
-    out = [0.0] * (len(a) + len(b) - 1)
-    for i, x in enumerate(a):
-        for j, y in enumerate(b):
-            out[i + j] += x * y
-    return out
+    """Product of two polynomials, ascending coefficients (exact here)."""
+    return [sum(a[i] * b[k - i] for i in range(len(a)) if 0 <= k - i < len(b))
+            for k in range(len(a) + len(b) - 1)]
 
 
 centre = [1.0]
