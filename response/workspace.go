@@ -1,14 +1,11 @@
 package response
 
-import "sync"
-
 // stepWork holds the buffers of one StepMetrics call that grow with the
 // number of samples: the sampled output and its slope, the state
 // checkpoints of the evaluator, the located points, and the input and
 // output of a discrete run. A call takes one from stepWorkPool and puts it
 // back when done, so a sweep that calls StepMetrics many times on several
-// goroutines reuses the buffers of the worker it runs on (sync.Pool keeps
-// a cache per processor) instead of allocating about (n/16 + 4)·8 bytes
+// goroutines reuses buffers instead of allocating about (n/16 + 4)·8 bytes
 // per sample on every call: that allocation, not the arithmetic, bound
 // parallel sweeps, because every goroutine waited for the garbage
 // collector. Nothing in a result refers to a workspace.
@@ -24,21 +21,37 @@ type stepWork struct {
 }
 
 // maxPooledFloats bounds the float64s a workspace may hold and still be
-// pooled (8 MB): a rare long run (up to maxSamples samples) does not keep
-// its memory alive for the next short one.
-const maxPooledFloats = 1 << 20
+// kept (2 MB; the automatic grid of 20 000 samples needs about 100 000): a
+// rare long run (up to maxSamples samples) does not keep its memory alive
+// for the next short one.
+const maxPooledFloats = 1 << 18
 
-var stepWorkPool = sync.Pool{New: func() any { return new(stepWork) }}
+// stepWorkPool holds up to 16 idle workspaces (at most 32 MB). A buffered
+// channel rather than a sync.Pool: a sync.Pool is emptied by every second
+// garbage collection, which in a sweep that allocates elsewhere (margins,
+// poly) happens every few calls, and the buffers were then grown afresh.
+var stepWorkPool = make(chan *stepWork, 16)
 
-func getStepWork() *stepWork { return stepWorkPool.Get().(*stepWork) }
+func getStepWork() *stepWork {
+	select {
+	case w := <-stepWorkPool:
+		return w
+	default:
+		return new(stepWork)
+	}
+}
 
-// release puts w back into the pool unless it grew beyond maxPooledFloats.
+// release keeps w for a later call unless it grew beyond maxPooledFloats
+// or 16 are kept already.
 func (w *stepWork) release() {
 	size := cap(w.ys) + cap(w.ds) + cap(w.checkpoints) + cap(w.lattice) + 2*cap(w.pts) + cap(w.u) + cap(w.y)
 	if size > maxPooledFloats {
 		return
 	}
-	stepWorkPool.Put(w)
+	select {
+	case stepWorkPool <- w:
+	default:
+	}
 }
 
 // zeroed returns buf resliced to length n and set to zero, reallocated only
