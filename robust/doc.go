@@ -54,9 +54,10 @@
 // lock or slice on the sample path). StepMetrics now reuses its buffers
 // (19× to 40× less allocation per loop, results bit-identical). The
 // wall-clock 1→2-core ratio could not be re-measured (the machine was
-// saturated, load average 8.5–11); the CPU time for the same work at
-// GOMAXPROCS 2 is now 1–14 % above that at 1 (33–114 % before), which
-// bounds the speed-up on two free cores at 1.75–1.98 (0.94–1.51 before).
+// saturated, load average 4.4–11); the CPU time for the same work at
+// GOMAXPROCS 2 is now 3–16 % above that at 1 (34–114 % before), which
+// bounds the speed-up on two free cores at 1.82–1.95 in 14 of 15 runs and
+// 1.73 in one (0.94–1.51 before).
 // MonteCarlo streams its statistics: 10⁶ samples (stability and margins,
 // order 2) ran to completion in 33 MB resident memory
 // (testdata/million.txt). A stability proof of the pick-and-place example
