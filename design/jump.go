@@ -98,8 +98,7 @@ func gridPeak(c *closedLoop, g samples, lo, hi int, val func(float64) float64, i
 		if i < 0 || k == 1 && topVal[1] < topVal[0]-0.05*math.Abs(topVal[0]) {
 			continue
 		}
-		dy := func(t float64) float64 { _, d := c.between(g, i, t); return d }
-		te := rootfind.Brent(dy, g.t[i], g.t[i+1], g.dy[i], g.dy[i+1], extremumTol)
+		te := newtonRoot(func(t float64) (float64, float64) { _, d, dd := c.between2(g, i, t); return d, dd }, g.t[i], g.t[i+1], g.dy[i], g.dy[i+1], extremumTol)
 		y, _ := c.between(g, i, te)
 		if math.IsNaN(y) {
 			return 0, false, false
@@ -213,8 +212,7 @@ func (p *problem) overshootAt(x float64) (float64, bool) {
 	if at < 0 {
 		return 0, false
 	}
-	dy := func(t float64) float64 { _, d := c.between(g, at, t); return d }
-	te := rootfind.Brent(dy, g.t[at], g.t[at+1], g.dy[at], g.dy[at+1], extremumTol)
+	te := newtonRoot(func(t float64) (float64, float64) { _, d, dd := c.between2(g, at, t); return d, dd }, g.t[at], g.t[at+1], g.dy[at], g.dy[at+1], extremumTol)
 	y, _ := c.between(g, at, te)
 	y /= final
 	if math.IsNaN(y) {
@@ -239,8 +237,8 @@ func (p *problem) riseExcess(x, T float64) (excess float64, atExtremum, ok bool)
 	found := false
 	for i := 1; i < len(g.y); i++ {
 		if g.y[i]/final >= 0.1 {
-			f := func(t float64) float64 { y, _ := c.between(g, i-1, t); return y/final - 0.1 }
-			t10 = rootfind.Brent(f, g.t[i-1], g.t[i], g.y[i-1]/final-0.1, g.y[i]/final-0.1, 1e-13)
+			f := func(t float64) (float64, float64) { y, d := c.between(g, i-1, t); return y/final - 0.1, d / final }
+			t10 = newtonRoot(f, g.t[i-1], g.t[i], g.y[i-1]/final-0.1, g.y[i]/final-0.1, 1e-13)
 			found = true
 			break
 		}

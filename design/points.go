@@ -133,32 +133,104 @@ func (c *closedLoop) grid(h float64, n int) (samples, bool) {
 // exponential cheaper and more accurate than one from t = 0. NaN when the
 // transition cannot be computed.
 func (c *closedLoop) between(g samples, k int, t float64) (y, dy float64) {
+	y, dy, _ = c.between2(g, k, t)
+	return y, dy
+}
+
+// between2 is between with the second derivative y″ = C·A·Φ(τ)·w_k too.
+func (c *closedLoop) between2(g samples, k int, t float64) (y, dy, ddy float64) {
 	tau := t - g.t[k]
-	if tau == 0 {
-		return g.y[k], g.dy[k]
-	}
-	if !(tau > 0) {
-		return math.NaN(), math.NaN()
-	}
-	phi, gamma, err := c.m.ZeroOrderHold(tau)
-	if err != nil {
-		return math.NaN(), math.NaN()
+	if !(tau >= 0) {
+		return math.NaN(), math.NaN(), math.NaN()
 	}
 	N := g.n
 	x, w := g.x[k*N:(k+1)*N], g.w[k*N:(k+1)*N]
-	raw := phi.RawMatrix()
-	y = c.m.D
-	for i := 0; i < N; i++ {
-		row := raw.Data[i*raw.Stride : i*raw.Stride+N]
-		sx, sw := gamma[i], 0.0
-		for j, v := range row {
-			sx += v * x[j]
-			sw += v * w[j]
+	pw := make([]float64, N)
+	if tau == 0 {
+		y, dy = g.y[k], g.dy[k]
+		copy(pw, w)
+	} else {
+		phi, gamma, err := c.m.ZeroOrderHold(tau)
+		if err != nil {
+			return math.NaN(), math.NaN(), math.NaN()
 		}
-		y += c.m.C[i] * sx
-		dy += c.m.C[i] * sw
+		raw := phi.RawMatrix()
+		y = c.m.D
+		for i := 0; i < N; i++ {
+			row := raw.Data[i*raw.Stride : i*raw.Stride+N]
+			sx, sw := gamma[i], 0.0
+			for j, v := range row {
+				sx += v * x[j]
+				sw += v * w[j]
+			}
+			y += c.m.C[i] * sx
+			dy += c.m.C[i] * sw
+			pw[i] = sw
+		}
 	}
-	return y, dy
+	for i := 0; i < N; i++ {
+		s := 0.0
+		for j := 0; j < N; j++ {
+			s += c.m.A.At(i, j) * pw[j]
+		}
+		ddy += c.m.C[i] * s
+	}
+	return y, dy, ddy
+}
+
+// newtonRoot returns the root of f in [a, b], where fa = f(a) and fb = f(b)
+// have opposite signs, by Newton's method safeguarded by bisection (the
+// "rtsafe" scheme of Press, Teukolsky, Vetterling & Flannery, Numerical
+// Recipes, 3rd ed., 2007, Sec. 9.4, from memory): f and f′ come from one
+// evaluation; a Newton step that would leave the bracket, or that does not
+// shrink the step fast enough, is replaced by bisection, so the bracket
+// always holds the root. It starts from the secant point of the bracket
+// and stops when a step is at most relTol·|x| (Newton converges
+// quadratically near a simple root, so the last iterate is then accurate
+// to about that step squared), after at most 100 evaluations.
+func newtonRoot(fdf func(float64) (float64, float64), a, b, fa, fb, relTol float64) float64 {
+	if fa == 0 {
+		return a
+	}
+	if fb == 0 {
+		return b
+	}
+	lo, hi := a, b
+	if fa > 0 {
+		lo, hi = b, a
+	}
+	x := a - fa*(b-a)/(fb-fa)
+	if !(x > math.Min(a, b) && x < math.Max(a, b)) {
+		x = 0.5 * (a + b)
+	}
+	dxOld := math.Abs(b - a)
+	dx := dxOld
+	f, df := fdf(x)
+	for range 100 {
+		if math.IsNaN(f) || math.IsNaN(df) {
+			return math.NaN()
+		}
+		if f == 0 {
+			return x
+		}
+		if f < 0 {
+			lo = x
+		} else {
+			hi = x
+		}
+		if ((x-hi)*df-f)*((x-lo)*df-f) > 0 || math.Abs(2*f) > math.Abs(dxOld*df) {
+			dxOld, dx = dx, 0.5*(hi-lo)
+			x = lo + dx
+		} else {
+			dxOld, dx = dx, f/df
+			x -= dx
+		}
+		if math.Abs(dx) <= relTol*math.Abs(x)+1e-300 {
+			return x
+		}
+		f, df = fdf(x)
+	}
+	return x
 }
 
 // hintedCrossing is crossing (Brent's method on g between xp and xf) with
