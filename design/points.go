@@ -133,12 +133,16 @@ func (c *closedLoop) grid(h float64, n int) (samples, bool) {
 // exponential cheaper and more accurate than one from t = 0. NaN when the
 // transition cannot be computed.
 func (c *closedLoop) between(g samples, k int, t float64) (y, dy float64) {
-	y, dy, _ = c.between2(g, k, t)
+	y, dy, _ = c.values(g, k, t, false)
 	return y, dy
 }
 
 // between2 is between with the second derivative y″ = C·A·Φ(τ)·w_k too.
 func (c *closedLoop) between2(g samples, k int, t float64) (y, dy, ddy float64) {
+	return c.values(g, k, t, true)
+}
+
+func (c *closedLoop) values(g samples, k int, t float64, second bool) (y, dy, ddy float64) {
 	tau := t - g.t[k]
 	if !(tau >= 0) {
 		return math.NaN(), math.NaN(), math.NaN()
@@ -167,6 +171,9 @@ func (c *closedLoop) between2(g samples, k int, t float64) (y, dy, ddy float64) 
 			dy += c.m.C[i] * sw
 			pw[i] = sw
 		}
+	}
+	if !second {
+		return y, dy, 0
 	}
 	for i := 0; i < N; i++ {
 		s := 0.0

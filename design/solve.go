@@ -380,7 +380,16 @@ func (p *problem) searchInterval(iv Interval, F func(float64) float64) (float64,
 		if len(xs) < 5 {
 			xs = samplesIn(iv.Lo, iv.Hi, 6)
 		}
-		vals, xe, se := sampleThenGolden(E, xs, iv, 8)
+		// Where the best sample meets the exact requirements but not the
+		// bracketed ones, F = G < 0 ≤ E there and the maximum of F lies
+		// at the crossing of G and E located below, whatever the exact
+		// maximum of E: the golden-section refinement is skipped.
+		iters := 8
+		if v0, x0, s0 := sampleThenGolden(E, xs, iv, 0); s0 >= 0 && outside(p.genericMet, x0) && len(p.genericMet) > 0 {
+			_ = v0
+			iters = 0
+		}
+		vals, xe, se := sampleThenGolden(E, xs, iv, iters)
 		// G(xe) < 0 ≤ E(xe) when the sets of the bracketed requirements
 		// exclude xe: the step response there (often a slow one, at the
 		// low end of the range) is then not computed unless no nearer
