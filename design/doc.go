@@ -60,7 +60,11 @@
 //     band; B is continuous in the variable even where T_s jumps (where an
 //     extremum of y after T touches the band), so the end is the root of
 //     B − band by Brent's method, B computed from exact values of the
-//     response at located extrema (jump.go).
+//     response at located extrema (jump.go): one realisation of the closed
+//     loop per value, y and y′ on a grid from one zero-order-hold
+//     transition, values between grid points from the grid state and one
+//     short transition, extrema and the 10 % time by Newton's method
+//     safeguarded by bisection (points.go).
 //   - Rise time ≤ T (same loops): it holds exactly when the largest value
 //     of y/y_∞ up to t₁₀ + T reaches 90 %; the same construction locates
 //     both its continuous ends and its jumps.
@@ -86,9 +90,12 @@
 // for a zero limit); −∞ when the value cannot be measured. The suggested
 // value maximises the smallest slack over the requirements inside the set
 // where all hold: the smallest slack of the exactly constructed kinds
-// (cheap) is maximised first by golden-section search (Kiefer 1953); if
-// the step-metric slacks are larger there, that is the answer, else the
-// crossing of the two (Brent's method to 1e-3 of the interval), or a
+// (cheap) is maximised first by golden-section search (Kiefer 1953) from
+// the values where they were already evaluated; if the step-metric slacks
+// are larger there, that is the answer, else the crossing of the two
+// (Brent's method to 1e-3 of the interval, bracketed by the nearest
+// values already evaluated; the sets found before say where each group's
+// smallest slack is negative, which saves evaluations), or a
 // golden-section search on all of them. When
 // no value meets them all, the pairs of requirements whose sets do not
 // overlap are named and the value with the largest smallest slack is given
@@ -110,11 +117,11 @@
 // against plain bisection on spec.Check.
 // Measured (testdata/benchmarks.md, BenchmarkRatio, CPU time of the
 // thread): the one-variable design of an order-10 loop with all nine
-// requirement kinds costs about 38–41 times one margins.Compute plus
+// requirement kinds costs about 30–31 times one margins.Compute plus
 // response.StepMetrics of the same loop (it was 130–350 before the
 // constructions above); for an order-6 PI loop whose baseline is very
-// cheap (0.13–0.22 ms) it costs about 12 ms, 53–97 times the baseline. The
-// plane of a PI loop of order 8 takes about 10 ms on one core.
+// cheap (0.13 ms) it costs about 6.6 ms, 50–52 times the baseline. The
+// plane of a PI loop of order 8 takes about 4 ms on one core.
 //
 // # Conventions
 //
