@@ -1,0 +1,438 @@
+package locus
+
+// Per-branch continuation.
+//
+// Within a piece every root of a + k·b is simple and analytic in the
+// piece's parameter t, so each root can be followed on its own, with a step
+// of its own: a slow branch is not sampled at the pace of the fastest one.
+// The step of each branch is set by its own chord (against the chord limit
+// of chordLimit) and turn (against the angle tolerance); the predictor is
+// the cubic Hermite interpolant of the last two points and their tangents
+// ds/dt = −b(s)/(a′(s) + k·b′(s))·dk/dt, extrapolated (Allgower & Georg
+// 2003, §6.1: higher-order predictors; the tangent comes with the corrector's
+// last evaluation at no extra cost), and the corrector is Newton's method
+// on a + k·b at the new value.
+//
+// Without the other roots at the same value, a step cannot compare its
+// correction with the distance to every other root as the lockstep engine
+// (cont) does. The local guard is the correction against |P′/P″| (for a
+// root ζ of P, P″/(2P′) = Σⱼ 1/(ζ − ζⱼ), so |P′/P″| is about half the
+// distance to a dominant neighbour); the result of a whole piece is
+// accepted only after checks that a jump onto another branch cannot pass
+// (a path that jumps follows the other branch from there on, so two
+// branches end at the same root):
+//
+//   - a piece traced from both ends towards its middle: the end points of
+//     the two halves, each started from an independent root computation,
+//     must pair off one to one, unambiguously (matchFast);
+//   - a piece traced towards k = ±∞ or the degree drop: every root must
+//     reach its own limit point or leave the extent disc, and no two roots
+//     may leave it within one step of each other.
+//
+// Anything else (a step that underflows, a failed check) returns errFast,
+// and the piece is traced again by the lockstep engine, which compares
+// every correction with the distance to every other root at the same value
+// and can restart from computed roots inside ill-conditioned clusters.
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"math/cmplx"
+)
+
+// errFast reports that the per-branch continuation of a piece was not
+// conclusive; the caller traces the piece again in lockstep.
+var errFast = errors.New("locus: per-branch continuation inconclusive")
+
+// branchStart describes how one root leaves the start of a piece.
+type branchStart struct {
+	s       complex128
+	cluster bool       // member of a multiple root: leaves along a Puiseux direction
+	rho     complex128 // Puiseux coefficient (cluster members)
+	nu      int        // multiplicity of the cluster
+	member  int        // index within the cluster
+}
+
+// branchRun is the result of following one root.
+type branchRun struct {
+	path    []Point
+	fin     complex128
+	stopped bool
+	exit    bool    // stopped by leaving the extent disc
+	lastCh  float64 // length of the last step
+	wayAt   []int   // index in path of the point at each waypoint (−1: none)
+}
+
+// contEach follows the roots start from t = 0 to tEnd, each with its own
+// step (see the file comment), or until stop has finished it. It returns
+// each root's points from its start point on, the final positions, and
+// which roots stop finished (with exit telling those that left the extent
+// disc). The roots finished by stop are passed to it in index order, a
+// root's points in order. It returns errFast when a root cannot be
+// followed; other errors (cancellation, too many points) are final.
+func (t *tracer) contEach(km kMap, tEnd float64, start []complex128, clus, mult []int, mu int, stop stopFunc, ways []waypoint) ([]branchRun, error) {
+	p := t.p
+	n := len(start)
+	k0, _ := km(0)
+	runs := make([]branchRun, n)
+	inCluster := func(i int) bool { return clus != nil && clus[i] >= 0 }
+	// Exact conjugates of another simple root are mirrored, not followed:
+	// a + k·b has real coefficients and k is real, so the conjugate of a
+	// path is a path, and it is computed bit for bit the same way.
+	mirror := make([]int, n)
+	active := make([]bool, n)
+	for i := range n {
+		active[i] = !cmplx.IsInf(start[i]) && !inCluster(i)
+	}
+	findMirrors(start, active, mirror, false)
+	count := map[int]int{}
+	for i := range n {
+		if cmplx.IsInf(start[i]) {
+			runs[i].fin = start[i]
+			continue
+		}
+		if mirror[i] >= 0 {
+			continue
+		}
+		bs := branchStart{s: start[i]}
+		if inCluster(i) {
+			nu := mult[i]
+			an := p.a.DerivativeN(nu).EvalComplex(start[i])
+			bn := p.b.DerivativeN(nu).EvalComplex(start[i])
+			bs.cluster, bs.nu, bs.member = true, nu, count[clus[i]]
+			count[clus[i]]++
+			bs.rho = -p.b.EvalComplex(start[i]) * complex(factorial(nu), 0) / (an + complex(k0, 0)*bn)
+		}
+		r, err := t.follow(km, tEnd, bs, mu, i, stop, ways)
+		if err != nil {
+			return nil, err
+		}
+		runs[i] = r
+	}
+	for i, j := range mirror {
+		if j < 0 {
+			continue
+		}
+		src := runs[j]
+		r := branchRun{path: make([]Point, 0, len(src.path)), wayAt: src.wayAt, lastCh: src.lastCh}
+		for q, pt := range src.path {
+			c := cmplx.Conj(pt.S)
+			r.path = append(r.path, Point{Value: pt.Value, S: c})
+			r.fin = c
+			if q > 0 && stop != nil && stop(i, c, pt.Value) {
+				r.stopped = true
+				r.exit = cabs(c-t.centre) > t.extent
+				break
+			}
+		}
+		if len(r.path) < len(src.path) {
+			// Stopped earlier than its partner: its own limit.
+			r.wayAt = append([]int(nil), src.wayAt...)
+			for w, at := range r.wayAt {
+				if at >= len(r.path) {
+					r.wayAt[w] = -1
+				}
+			}
+		}
+		t.traced += len(r.path) - 1
+		runs[i] = r
+	}
+	// Crossings: the value and the boundary point exactly.
+	for w, wp := range ways {
+		for _, x := range []complex128{wp.c.Point, cmplx.Conj(wp.c.Point)} {
+			best, bd := -1, math.Inf(1)
+			for i := range runs {
+				if at := runs[i].wayAt; at != nil && at[w] >= 0 {
+					if d := cabs(runs[i].path[at[w]].S - x); d < bd {
+						best, bd = i, d
+					}
+				}
+			}
+			if best >= 0 && bd <= 1e-6*t.scale {
+				runs[best].path[runs[best].wayAt[w]].S = x
+				if runs[best].wayAt[w] == len(runs[best].path)-1 {
+					runs[best].fin = x
+				}
+			}
+			if imag(x) == 0 {
+				break
+			}
+		}
+		for i := range runs {
+			if at := runs[i].wayAt; at != nil && at[w] >= 0 {
+				runs[i].path[at[w]].Value = wp.c.Value
+			}
+		}
+	}
+	return runs, nil
+}
+
+// follow follows one root (see contEach).
+func (t *tracer) follow(km kMap, tEnd float64, bs branchStart, mu, idx int, stop stopFunc, ways []waypoint) (branchRun, error) {
+	p := t.p
+	k0, _ := km(0)
+	s := bs.s
+	r := branchRun{path: make([]Point, 1, 128), wayAt: make([]int, len(ways))}
+	ds := cabs(s - t.centre) // distance of s from the view's centre
+	r.path[0] = Point{Value: k0, S: s}
+	for w := range r.wayAt {
+		r.wayAt[w] = -1
+	}
+	var tan complex128
+	tanOK := false
+	h := 0.05
+	if bs.cluster {
+		kEnd, _ := km(1)
+		nu := float64(bs.nu)
+		c := math.Pow(cabs(bs.rho)*math.Abs(kEnd-k0), 1/nu)
+		if c > 0 {
+			h = math.Min(h, math.Pow(0.1*t.chordAbs/c, nu/float64(mu)))
+		}
+		h = math.Max(h, 1e-12)
+	} else {
+		tan, tanOK = t.tangent(s, km, 0)
+		if v := cabs(tan); tanOK && v > 0 {
+			// A short first step: the first chord shows the direction in
+			// which the branch leaves its start (a departure angle).
+			h = math.Min(0.1*t.chordLimitAt(ds)/v, tEnd)
+		}
+	}
+	// Hermite data: the previous point (tp, sp, mp) when hasPrev, its
+	// tangent valid when prevTan.
+	var tp float64
+	var sp, mp complex128
+	hasPrev, prevTan := false, false
+	first := true
+	tc := 0.0
+	wi := 0
+	coef := make([]float64, p.order+1)
+	steps := 0
+	for tc < tEnd {
+		steps++
+		if steps%64 == 0 {
+			if err := t.r.ctx.Err(); err != nil {
+				return r, fmt.Errorf("locus: trace cancelled: %w", err)
+			}
+		}
+		if tc+h > tEnd {
+			h = tEnd - tc
+		}
+		hitting := false
+		hPlanned := h
+		if wi < len(ways) && tc+h >= ways[wi].t {
+			h = ways[wi].t - tc
+			hitting = true
+		}
+		tn := tc + h
+		kn, dkn := km(tn)
+		for i := range coef {
+			coef[i] = p.a.Coef(i) + kn*p.b.Coef(i)
+		}
+		var pred complex128
+		switch {
+		case first && bs.cluster:
+			nu := float64(bs.nu)
+			v := bs.rho * complex(kn-k0, 0)
+			ang := (cmplx.Phase(v) + 2*math.Pi*float64(bs.member)) / nu
+			pred = s + cmplx.Rect(math.Pow(cabs(v), 1/nu), ang)
+		case hasPrev && prevTan && tanOK:
+			pred = hermite(tp, sp, mp, tc, s, tan, tn)
+		case hasPrev && tanOK:
+			// Quadratic through the previous point with the current
+			// tangent.
+			h0 := tc - tp
+			c := (sp - s + complex(h0, 0)*tan) / complex(h0*h0, 0)
+			pred = s + complex(h, 0)*tan + complex(h*h, 0)*c
+		case tanOK:
+			pred = s + complex(h, 0)*tan
+		default:
+			pred = s
+		}
+		corr, df, bv, sep, good := t.newtonSep(pred, kn, coef)
+		ratio := 0.0
+		e := cabs(corr - pred)
+		// The correction must be small against the distance to the
+		// neighbouring roots (estimated by |P′/P″|).
+		good = good && e <= 0.25*sep
+		var ntan complex128
+		ntanOK := false
+		if good {
+			if df != 0 {
+				ntan, ntanOK = -bv/df*complex(dkn, 0), true
+				if cmplx.IsInf(ntan) || cmplx.IsNaN(ntan) {
+					ntan, ntanOK = 0, false
+				}
+			}
+			dc := cabs(corr - t.centre)
+			lim := t.chordLimitAt(math.Min(ds, dc))
+			ch := cabs(corr - s)
+			ratio = ch / lim
+			if tanOK && ntanOK && ch > 1e-3*lim && tan != 0 && ntan != 0 {
+				a := math.Abs(cmplx.Phase(ntan / tan))
+				if !(a > t.r.angleTolRad && (t.tangentNoisy(s, km, tc) || t.tangentNoisy(corr, km, tn))) {
+					ratio = math.Max(ratio, a/t.r.angleTolRad)
+				}
+			}
+			if tanOK && tan != 0 && !(first && bs.cluster) {
+				// The predictor error against the chord: a correction
+				// as long as half the step means the prediction was not
+				// following the branch (Allgower & Georg 2003, §6.1,
+				// step-length control by the first corrector step). Its
+				// target is a tenth of the chord, so one Newton step
+				// usually suffices; the error grows as h³ relative to
+				// the chord.
+				if e > 0.5*ch {
+					ratio = math.Max(ratio, 1.01)
+				} else if e > 0 {
+					ratio = math.Max(ratio, math.Cbrt(e/(0.1*ch)))
+				}
+			}
+			good = ratio <= 1
+			r.lastCh = ch
+		}
+		if !good {
+			t.stats.RejectedSteps++
+			f := 0.5
+			if ratio > 1 {
+				f = math.Max(0.2, 0.9/ratio)
+			}
+			h *= f
+			if h < 1e-14*math.Max(1, tc) {
+				return r, errFast
+			}
+			continue
+		}
+		t.stats.Steps++
+		if tanOK {
+			tp, sp, mp, hasPrev, prevTan = tc, s, tan, true, true
+		} else {
+			tp, sp, hasPrev, prevTan = tc, s, true, false
+		}
+		if first && bs.cluster {
+			hasPrev = false // the cluster point is singular: no interpolation through it
+		}
+		s, tan, tanOK = corr, ntan, ntanOK
+		ds = cabs(s - t.centre)
+		r.path = append(r.path, Point{Value: kn, S: s})
+		t.traced++
+		if t.traced > t.r.maxPoints {
+			return r, fmt.Errorf("%w: more than %d points", ErrTooManyPoints, t.r.maxPoints)
+		}
+		for hitting && wi < len(ways) && ways[wi].t <= tn {
+			r.wayAt[wi] = len(r.path) - 1
+			wi++
+		}
+		tc = tn
+		first = false
+		if stop != nil && stop(idx, s, kn) {
+			r.stopped = true
+			r.exit = ds > t.extent
+			break
+		}
+		f := 4.0
+		if ratio > 0 {
+			f = math.Min(4, math.Max(0.25, 0.9/ratio))
+		}
+		if hitting {
+			h = math.Max(h*f, hPlanned)
+		} else {
+			h *= f
+		}
+	}
+	r.fin = s
+	return r, nil
+}
+
+// hermite extrapolates the cubic Hermite interpolant of (t0, s0, m0) and
+// (t1, s1, m1) to t.
+func hermite(t0 float64, s0, m0 complex128, t1 float64, s1, m1 complex128, t float64) complex128 {
+	h0 := t1 - t0
+	x := (t - t0) / h0
+	x2 := x * x
+	x3 := x2 * x
+	h00 := 2*x3 - 3*x2 + 1
+	h10 := x3 - 2*x2 + x
+	h01 := -2*x3 + 3*x2
+	h11 := x3 - x2
+	return complex(h00, 0)*s0 + complex(h10*h0, 0)*m0 + complex(h01, 0)*s1 + complex(h11*h0, 0)*m1
+}
+
+// newtonSep is newtonCoeffs that also returns |P′/P″| at the predicted
+// point (+Inf when P″ = 0), the estimate of the distance to the
+// neighbouring roots used by the per-branch guard.
+func (t *tracer) newtonSep(s complex128, k float64, c []float64) (complex128, complex128, complex128, float64, bool) {
+	p := t.p
+	tol := 1e-12 * math.Max(cabs(s), 1e-6*t.scale)
+	tol2 := tol * tol
+	prev2 := math.Inf(1)
+	sep := math.Inf(1)
+	var df complex128
+	for it := range 12 {
+		t.stats.NewtonIterations++
+		var f, ddf complex128
+		if it == 0 {
+			f, df, ddf = hornerD2(c, s)
+			if ddf != 0 {
+				sep = cabs(df) / cabs(ddf)
+			}
+		} else {
+			f, df = hornerD(c, s)
+		}
+		if df == 0 {
+			return s, df, p.b.EvalComplex(s), sep, false
+		}
+		d := f / df
+		s -= d
+		d2 := real(d)*real(d) + imag(d)*imag(d)
+		if !(d2 < math.Inf(1)) {
+			return s, df, 0, sep, false
+		}
+		if it == 0 && 0x1p-52*cabs(s+d) > 0.25*1e-12*math.Max(cabs(s), 1e-6*t.scale) {
+			// The result is much smaller than the predicted point: it is
+			// only known to the rounding error of the subtraction
+			// (relative to the predicted point); iterate from it.
+			prev2 = d2
+			continue
+		}
+		// Kantorovich: the next correction is about |d|²·|P″|/(2|P′|).
+		if it == 0 && d2*cabs(ddf)/(2*cabs(df)) <= 0.25*tol {
+			return s, df, p.b.EvalComplex(s), sep, true
+		}
+		if d2 <= tol2 || (it >= 1 && d2*d2 <= tol2*prev2 && d2 < 0.0625*prev2) {
+			return s, df, p.b.EvalComplex(s), sep, true
+		}
+		if it >= 1 && d2 > 0.25*prev2 {
+			// No contraction: the prediction was too far (or the root is
+			// ill-conditioned, which the lockstep engine handles).
+			return s, df, 0, sep, false
+		}
+		prev2 = d2
+	}
+	return s, df, 0, sep, false
+}
+
+// matchFast pairs the end points of two half traces (see the file
+// comment) and reports whether the pairing is unambiguous: every pair
+// within 1e-6 of the scale and at most a tenth of the distance from either
+// point to any other point of the other set.
+func (t *tracer) matchFast(a, b []complex128) ([]int, bool) {
+	perm, worst := matchSets(a, b)
+	if worst > 1e-6*t.scale {
+		return nil, false
+	}
+	for i, j := range perm {
+		d := cabs(a[i] - b[j])
+		for jj := range b {
+			if jj != j && cabs(a[i]-b[jj]) <= 10*d {
+				return nil, false
+			}
+		}
+		for ii := range a {
+			if ii != i && cabs(a[ii]-b[j]) <= 10*d {
+				return nil, false
+			}
+		}
+	}
+	return perm, true
+}
