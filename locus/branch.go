@@ -43,6 +43,14 @@ import (
 
 // errFast reports that the per-branch continuation of a piece was not
 // conclusive; the caller traces the piece again in lockstep.
+// stepTarget is the ratio of the next step's chord (or turn) to its limit
+// that the step control aims at; predTarget is the target ratio of the
+// predictor error to the chord.
+const (
+	stepTarget = 0.9
+	predTarget = 0.5
+)
+
 var errFast = errors.New("locus: per-branch continuation inconclusive")
 
 // branchStart describes how one root leaves the start of a piece.
@@ -170,16 +178,27 @@ func (t *tracer) contEach(km kMap, tEnd float64, start []complex128, clus, mult 
 
 // follow follows one root (see contEach).
 func (t *tracer) follow(km kMap, tEnd float64, bs branchStart, mu, idx int, stop stopFunc, ways []waypoint) (branchRun, error) {
+	// The points go to the tracer's arena (one root at a time); the path
+	// is cut from it at the end, its capacity capped so that no later
+	// append can overwrite another path.
+	base := len(t.arena)
+	r, err := t.followArena(km, tEnd, bs, mu, idx, stop, ways, base)
+	r.path = t.arena[base:len(t.arena):len(t.arena)]
+	return r, err
+}
+
+// followArena is follow with the points appended to t.arena from base on.
+func (t *tracer) followArena(km kMap, tEnd float64, bs branchStart, mu, idx int, stop stopFunc, ways []waypoint, base int) (branchRun, error) {
 	p := t.p
 	k0, _ := km(0)
 	s := bs.s
-	r := branchRun{path: make([]Point, 1, 128), wayAt: make([]int, len(ways))}
+	r := branchRun{wayAt: make([]int, len(ways))}
 	ds := cabs(s - t.centre) // distance of s from the view's centre
-	r.path[0] = Point{Value: k0, S: s}
+	t.arena = append(t.arena, Point{Value: k0, S: s})
 	for w := range r.wayAt {
 		r.wayAt[w] = -1
 	}
-	var tan complex128
+	var tan, firstAcc complex128
 	tanOK := false
 	h := 0.05
 	if bs.cluster {
@@ -191,11 +210,26 @@ func (t *tracer) follow(km kMap, tEnd float64, bs branchStart, mu, idx int, stop
 		}
 		h = math.Max(h, 1e-12)
 	} else {
-		tan, tanOK = t.tangent(s, km, 0)
+		var acc complex128
+		tan, acc, tanOK = t.tangent2(s, km)
 		if v := cabs(tan); tanOK && v > 0 {
-			// A short first step: the first chord shows the direction in
-			// which the branch leaves its start (a departure angle).
-			h = math.Min(0.1*t.chordLimitAt(ds)/v, tEnd)
+			// The first step: the chord target, or half the angle
+			// tolerance at the branch's curvature κ = |Im(s″·conj s′)|/|s′|³
+			// (in the parameter k; the curvature of the curve does not
+			// depend on the parameterisation), so that the first chord
+			// shows the direction in which the branch leaves its start
+			// (a departure angle) to a quarter of the angle tolerance.
+			l := 0.9 * t.chordLimitAt(ds)
+			if k0 == 0 {
+				// Leaving an open-loop pole: a short first chord, so
+				// that the plot shows the departure at the pole itself.
+				l = 0.1 * t.chordLimitAt(ds)
+			}
+			if kap := math.Abs(imag(acc*cmplx.Conj(tan))) / (v * v * v); kap*l > 0.5*t.r.angleTolRad {
+				l = 0.5 * t.r.angleTolRad / kap
+			}
+			h = math.Min(l/v, tEnd)
+			firstAcc = acc
 		}
 	}
 	// Hermite data: the previous point (tp, sp, mp) when hasPrev, its
@@ -206,7 +240,10 @@ func (t *tracer) follow(km kMap, tEnd float64, bs branchStart, mu, idx int, stop
 	first := true
 	tc := 0.0
 	wi := 0
-	coef := make([]float64, p.order+1)
+	if cap(t.coefEach) < p.order+1 {
+		t.coefEach = make([]float64, p.order+1)
+	}
+	coef := t.coefEach[:p.order+1]
 	steps := 0
 	for tc < tEnd {
 		steps++
@@ -245,16 +282,17 @@ func (t *tracer) follow(km kMap, tEnd float64, bs branchStart, mu, idx int, stop
 			c := (sp - s + complex(h0, 0)*tan) / complex(h0*h0, 0)
 			pred = s + complex(h, 0)*tan + complex(h*h, 0)*c
 		case tanOK:
-			pred = s + complex(h, 0)*tan
+			pred = s + complex(h, 0)*tan + complex(h*h/2, 0)*firstAcc
 		default:
 			pred = s
 		}
-		corr, df, bv, sep, good := t.newtonSep(pred, kn, coef)
+		corr, df, bv, sep2, good := t.newtonSep(pred, kn, coef)
 		ratio := 0.0
-		e := cabs(corr - pred)
+		de := corr - pred
+		e2 := real(de)*real(de) + imag(de)*imag(de)
 		// The correction must be small against the distance to the
-		// neighbouring roots (estimated by |P′/P″|).
-		good = good && e <= 0.25*sep
+		// neighbouring roots (estimated by |P′/P″|): e ≤ sep/4.
+		good = good && e2 <= 0.0625*sep2
 		var ntan complex128
 		ntanOK := false
 		if good {
@@ -265,27 +303,26 @@ func (t *tracer) follow(km kMap, tEnd float64, bs branchStart, mu, idx int, stop
 				}
 			}
 			dc := cabs(corr - t.centre)
-			lim := t.chordLimitAt(math.Min(ds, dc))
+			lim := t.chordLimitAt(min(ds, dc))
 			ch := cabs(corr - s)
 			ratio = ch / lim
 			if tanOK && ntanOK && ch > 1e-3*lim && tan != 0 && ntan != 0 {
-				a := math.Abs(cmplx.Phase(ntan / tan))
+				a := turnAngle(tan, ntan)
 				if !(a > t.r.angleTolRad && (t.tangentNoisy(s, km, tc) || t.tangentNoisy(corr, km, tn))) {
-					ratio = math.Max(ratio, a/t.r.angleTolRad)
+					ratio = max(ratio, a/t.r.angleTolRad)
 				}
 			}
-			if tanOK && tan != 0 && !(first && bs.cluster) {
-				// The predictor error against the chord: a correction
-				// as long as half the step means the prediction was not
+			if tanOK && tan != 0 && !(first && bs.cluster) && e2 > 0 {
+				// The predictor error e against the chord: a correction
+				// as long as the step means the prediction was not
 				// following the branch (Allgower & Georg 2003, §6.1,
-				// step-length control by the first corrector step). Its
-				// target is a tenth of the chord, so one Newton step
-				// usually suffices; the error grows as h³ relative to
-				// the chord.
-				if e > 0.5*ch {
-					ratio = math.Max(ratio, 1.01)
-				} else if e > 0 {
-					ratio = math.Max(ratio, math.Cbrt(e/(0.1*ch)))
+				// step-length control by the first corrector step); the
+				// target is half the chord, and e/chord grows as h³.
+				ch2 := ch * ch
+				if e2 > ch2 {
+					ratio = max(ratio, 1.01)
+				} else if q := e2 / (predTarget * predTarget * ch2); q > ratio*ratio*ratio*ratio*ratio*ratio {
+					ratio = math.Cbrt(math.Sqrt(q))
 				}
 			}
 			good = ratio <= 1
@@ -295,7 +332,7 @@ func (t *tracer) follow(km kMap, tEnd float64, bs branchStart, mu, idx int, stop
 			t.stats.RejectedSteps++
 			f := 0.5
 			if ratio > 1 {
-				f = math.Max(0.2, 0.9/ratio)
+				f = max(0.2, stepTarget/ratio)
 			}
 			h *= f
 			if h < 1e-14*math.Max(1, tc) {
@@ -314,13 +351,13 @@ func (t *tracer) follow(km kMap, tEnd float64, bs branchStart, mu, idx int, stop
 		}
 		s, tan, tanOK = corr, ntan, ntanOK
 		ds = cabs(s - t.centre)
-		r.path = append(r.path, Point{Value: kn, S: s})
+		t.arena = append(t.arena, Point{Value: kn, S: s})
 		t.traced++
 		if t.traced > t.r.maxPoints {
 			return r, fmt.Errorf("%w: more than %d points", ErrTooManyPoints, t.r.maxPoints)
 		}
 		for hitting && wi < len(ways) && ways[wi].t <= tn {
-			r.wayAt[wi] = len(r.path) - 1
+			r.wayAt[wi] = len(t.arena) - 1 - base
 			wi++
 		}
 		tc = tn
@@ -332,7 +369,7 @@ func (t *tracer) follow(km kMap, tEnd float64, bs branchStart, mu, idx int, stop
 		}
 		f := 4.0
 		if ratio > 0 {
-			f = math.Min(4, math.Max(0.25, 0.9/ratio))
+			f = min(4, max(0.25, stepTarget/ratio))
 		}
 		if hitting {
 			h = math.Max(h*f, hPlanned)
@@ -342,6 +379,29 @@ func (t *tracer) follow(km kMap, tEnd float64, bs branchStart, mu, idx int, stop
 	}
 	r.fin = s
 	return r, nil
+}
+
+// tangent2 returns ds/dt and (the part normal to the branch of) d²s/dt²
+// at a simple root s of a + k(0)·b, from P_s·s_k = −b and
+// P_ss·s_k² + 2b′·s_k + P_s·s_kk = 0, with s_t = s_k·k_t and
+// s_tt ≈ s_kk·k_t² (the term s_k·k_tt lies along the tangent).
+func (t *tracer) tangent2(s complex128, km kMap) (complex128, complex128, bool) {
+	p := t.p
+	k, dk := km(0)
+	c := t.charCoeffs(k)
+	_, d1, d2 := hornerD2(c, s)
+	if d1 == 0 {
+		return 0, 0, false
+	}
+	bv, bd := p.b.EvalWithDerivative(s)
+	sk := -bv / d1
+	skk := -(d2*sk*sk + 2*bd*sk) / d1
+	dkc := complex(dk, 0)
+	st, stt := sk*dkc, skk*dkc*dkc
+	if cmplx.IsInf(st) || cmplx.IsNaN(st) || cmplx.IsInf(stt) || cmplx.IsNaN(stt) {
+		return 0, 0, false
+	}
+	return st, stt, true
 }
 
 // hermite extrapolates the cubic Hermite interpolant of (t0, s0, m0) and
@@ -358,58 +418,84 @@ func hermite(t0 float64, s0, m0 complex128, t1 float64, s1, m1 complex128, t flo
 	return complex(h00, 0)*s0 + complex(h10*h0, 0)*m0 + complex(h01, 0)*s1 + complex(h11*h0, 0)*m1
 }
 
-// newtonSep is newtonCoeffs that also returns |P′/P″| at the predicted
-// point (+Inf when P″ = 0), the estimate of the distance to the
-// neighbouring roots used by the per-branch guard.
+// turnAngle returns the angle in [0, π] between the directions u and v.
+func turnAngle(u, v complex128) float64 {
+	w := v * cmplx.Conj(u)
+	x, y := real(w), math.Abs(imag(w))
+	if x > 0 && y < 0.25*x {
+		// atan(y/x) by its series to the rounding level for
+		// y/x < 1/4 (the usual case: turns of a few degrees).
+		q := y / x
+		q2 := q * q
+		return q * (1 - q2*(1.0/3-q2*(1.0/5-q2*(1.0/7-q2*(1.0/9-q2*(1.0/11-q2*(1.0/13-q2*(1.0/15-q2*(1.0/17-q2*(1.0/19-q2/21))))))))))
+	}
+	return math.Atan2(y, x)
+}
+
+// newtonSep is newtonCoeffs that also returns |P′/P″|² at the predicted
+// point (+Inf when P″ = 0), the squared estimate of the distance to the
+// neighbouring roots used by the per-branch guard. It works with squared
+// magnitudes throughout (no square roots in the loop).
 func (t *tracer) newtonSep(s complex128, k float64, c []float64) (complex128, complex128, complex128, float64, bool) {
 	p := t.p
-	tol := 1e-12 * math.Max(cabs(s), 1e-6*t.scale)
-	tol2 := tol * tol
+	floor2 := 1e-12 * t.scale * t.scale
+	s2 := real(s)*real(s) + imag(s)*imag(s)
+	tol2 := 1e-24 * max(s2, floor2) // (1e-12·max(|s|, 1e-6·scale))²
 	prev2 := math.Inf(1)
-	sep := math.Inf(1)
+	sep2 := math.Inf(1)
 	var df complex128
 	for it := range 12 {
 		t.stats.NewtonIterations++
 		var f, ddf complex128
 		if it == 0 {
 			f, df, ddf = hornerD2(c, s)
-			if ddf != 0 {
-				sep = cabs(df) / cabs(ddf)
-			}
 		} else {
 			f, df = hornerD(c, s)
 		}
-		if df == 0 {
-			return s, df, p.b.EvalComplex(s), sep, false
+		df2 := real(df)*real(df) + imag(df)*imag(df)
+		if df2 == 0 {
+			return s, df, p.b.EvalComplex(s), sep2, false
 		}
 		d := f / df
+		sOld2 := s2
 		s -= d
+		s2 = real(s)*real(s) + imag(s)*imag(s)
 		d2 := real(d)*real(d) + imag(d)*imag(d)
 		if !(d2 < math.Inf(1)) {
-			return s, df, 0, sep, false
+			return s, df, 0, sep2, false
 		}
-		if it == 0 && 0x1p-52*cabs(s+d) > 0.25*1e-12*math.Max(cabs(s), 1e-6*t.scale) {
-			// The result is much smaller than the predicted point: it is
-			// only known to the rounding error of the subtraction
-			// (relative to the predicted point); iterate from it.
-			prev2 = d2
-			continue
-		}
-		// Kantorovich: the next correction is about |d|²·|P″|/(2|P′|).
-		if it == 0 && d2*cabs(ddf)/(2*cabs(df)) <= 0.25*tol {
-			return s, df, p.b.EvalComplex(s), sep, true
+		if it == 0 {
+			ddf2 := real(ddf)*real(ddf) + imag(ddf)*imag(ddf)
+			if ddf2 != 0 {
+				sep2 = df2 / ddf2
+			}
+			if 0x1p-104*sOld2 > 0.0625*1e-24*max(s2, floor2) {
+				// The result is much smaller than the predicted point:
+				// it is only known to the rounding error of the
+				// subtraction (relative to the predicted point);
+				// iterate from it.
+				prev2 = d2
+				tol2 = 1e-24 * max(s2, floor2)
+				continue
+			}
+			// Kantorovich: the next correction is about
+			// |d|²·|P″|/(2|P′|); done when below a quarter of the
+			// tolerance.
+			if d2*d2*ddf2 <= 0.25*tol2*df2 {
+				return s, df, p.b.EvalComplex(s), sep2, true
+			}
 		}
 		if d2 <= tol2 || (it >= 1 && d2*d2 <= tol2*prev2 && d2 < 0.0625*prev2) {
-			return s, df, p.b.EvalComplex(s), sep, true
+			return s, df, p.b.EvalComplex(s), sep2, true
 		}
 		if it >= 1 && d2 > 0.25*prev2 {
 			// No contraction: the prediction was too far (or the root is
 			// ill-conditioned, which the lockstep engine handles).
-			return s, df, 0, sep, false
+			return s, df, 0, sep2, false
 		}
 		prev2 = d2
 	}
-	return s, df, 0, sep, false
+	return s, df, 0, sep2, false
 }
 
 // matchFast pairs the end points of two half traces (see the file

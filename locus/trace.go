@@ -177,6 +177,8 @@ type tracer struct {
 	kTyp     float64
 	notes    []string
 	coef     []float64 // scratch coefficients of a + k·b
+	coefEach []float64 // the same for the per-branch continuation
+	arena    []Point   // points of the per-branch continuation (see follow)
 	waysAll  []Crossing
 	traced   int
 	reseedAt float64 // parameter of the last reseed (see reseed)
@@ -567,8 +569,9 @@ func (t *tracer) traceLink(left, right node) (link, error) {
 func (t *tracer) joinHalves(lp, rp [][]Point, perm []int) link {
 	l := link{to: perm, paths: make([][]Point, len(lp))}
 	for i := range lp {
-		path := lp[i]
 		r := rp[perm[i]]
+		path := make([]Point, len(lp[i]), len(lp[i])+len(r)-1)
+		copy(path, lp[i])
 		for j := len(r) - 2; j >= 0; j-- {
 			path = append(path, r[j])
 		}
