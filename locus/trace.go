@@ -185,7 +185,7 @@ type tracer struct {
 }
 
 func newTracer(p *problem, an Analysis, r resolved) *tracer {
-	t := &tracer{p: p, an: an, r: r}
+	t := &tracer{p: p, an: an, r: r, arena: make([]Point, 0, 64*p.order)}
 	var pts []complex128
 	for _, x := range an.Poles {
 		pts = append(pts, x.Value)
