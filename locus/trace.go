@@ -6,13 +6,16 @@ package locus
 // points, the value where the degree of a + k·b drops) every root of
 // a + k·b is simple, so each root is an analytic function of k there and
 // can be followed by continuation (Allgower & Georg, Introduction to
-// Numerical Continuation Methods, SIAM 2003, ch. 2): an Euler–Hermite
-// predictor along ds/dk = −b/(a′ + k·b′), then Newton's method on
-// a(s) + k·b(s) = 0 at the new k. Steps are accepted only if (i) Newton
-// converges, (ii) the correction is small against the distance to every
-// other root, so the iterate cannot have been captured by a neighbouring
-// branch, (iii) the chord and the turn of every branch stay within the
-// tolerances. Otherwise the step is halved.
+// Numerical Continuation Methods, SIAM 2003, ch. 2). Each root is first
+// followed on its own (branch.go: cubic Hermite predictor along
+// ds/dk = −b/(a′ + k·b′), Newton's method on a(s) + k·b(s) = 0 at the new
+// k, a step of its own), and the piece is checked as a whole afterwards.
+// When that is inconclusive the piece is traced in lockstep (engine.go
+// cont): an Euler–Hermite predictor for all roots with one common step,
+// accepted only if (i) Newton converges, (ii) the correction is small
+// against the distance to every other root, so the iterate cannot have
+// been captured by a neighbouring branch, (iii) the chord and the turn of
+// every branch stay within the tolerances; otherwise the step is halved.
 //
 // The singular ends are handled by the parameterisation, not by small
 // steps:
