@@ -119,3 +119,35 @@ func BenchmarkRatio(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkDeadTime times Analyze on a PI loop with dead time,
+// e^(−0.5s)/((s + 1)(0.5s + 1)) under 0.8·(1 + 1/(1.5s)): "exact" uses the
+// delayed responses (delayed.go), "pade8" the same plant with its dead
+// time replaced by the Padé approximant of order 8 beforehand (the former
+// method; a rational loop of order 11). Run side by side:
+//
+//	go test ./closedloop -run '^$' -bench DeadTime -benchtime 20x -count 3
+func BenchmarkDeadTime(b *testing.B) {
+	plant, _ := tf.MustNew([]float64{1}, []float64{0.5, 1.5, 1}).WithDelay(0.5)
+	pade, err := plant.Pade(8)
+	if err != nil {
+		b.Fatal(err)
+	}
+	ctrl, _ := tf.NewPI(0.8, 1.5)
+	for _, c := range []struct {
+		name  string
+		plant tf.TF
+	}{{"exact", plant}, {"pade8", pade}} {
+		b.Run(c.name, func(b *testing.B) {
+			for b.Loop() {
+				fs, err := Of(Loop{Plant: c.plant, Controller: ctrl}, nil)
+				if err != nil {
+					b.Fatal(err)
+				}
+				if _, err := fs.Analyze(nil); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}

@@ -160,13 +160,21 @@ func TestDeadTimePeakExact(t *testing.T) {
 	if v := f(pk.FrequencyRadPerSec); math.Abs(v-pk.Value) > 1e-15*pk.Value {
 		t.Errorf("value at the reported frequency %.15g ≠ %.15g", v, pk.Value)
 	}
-	// The time metrics use the Padé approximant; they exist and the
-	// offset is zero (integral action).
+	// The time metrics use the exact delayed response: the offset is zero
+	// (integral action), nothing moves before the dead time, and since
+	// this response keeps its sign, IAE equals the integrated error
+	// IE = ∫y dt = Ti/K = 1.5/0.8 = 1.875 of a load step under PI control
+	// (the final-value theorem on Y(s)/s = G/(s(1 + C·G)) → 1/(K/Ti) as
+	// s → 0; Åström & Hägglund, Advanced PID Control, ISA 2006, ch. 4, the
+	// relation IE = Ti/K, from memory).
 	d, err := fs.StepDeviation(LoadDisturbance, ProcessOutput, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
 	if math.Abs(d.FinalValue) > 1e-12 || !(d.PeakTimeSec > 0.5) {
 		t.Errorf("load step with dead time: %+v", d)
+	}
+	if rel(d.IntegratedAbsoluteError, 1.875) > 1e-10 || math.Abs(d.IntegratedAbsoluteError-1.875) > d.AbsoluteErrorBound+1e-12 {
+		t.Errorf("IAE %.15g (bound %.3g), want Ti/K = 1.875", d.IntegratedAbsoluteError, d.AbsoluteErrorBound)
 	}
 }

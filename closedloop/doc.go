@@ -40,12 +40,22 @@
 //     (T·Σ|e[k]|, T·Σe[k]²), the H2 norm is per sample, and "high
 //     frequency" means the Nyquist frequency π/T.
 //   - Dead time: exact in every frequency-domain quantity (FrequencyResponse
-//     and Peak evaluate the parts with their dead time). Continuous time
-//     responses of a loop with dead time use the Padé approximant of order
+//     and Peak evaluate the parts with their dead time) and in the time
+//     metrics of a continuous loop (StepDeviation, ControlEffort,
+//     ErrorIntegrals and StepResponse use the exact response of the delay
+//     equation, response.ClosedLoopStep, with stability from the exact
+//     rightmost root, locus.DelayedRoots; see delayed.go). The rational
+//     Function.TF, the characteristic polynomial, ClosedLoopPoles and the
+//     H2 norms of NoiseGains carry the Padé approximant of order
 //     Settings.PadeOrder (default 8) in place of the loop's dead time
-//     (Functions.DelayApproximated says so); a dead time of the prefilter
-//     alone is kept exactly as a shift. In discrete time a dead time of
-//     whole samples is exact (poles at z = 0).
+//     (Functions.DelayApproximated says so). InternallyStable is decided
+//     on that polynomial; the time metrics check the exact roots again and
+//     return ErrInternallyUnstable when the delay equation is unstable. A
+//     dead time of the prefilter alone is kept exactly as a shift. In
+//     discrete time a dead time of whole samples is exact (poles at z = 0).
+//     With dead time, ControlEffort.InitialValue is the value just after
+//     the step has passed the function's own dead time (the controller's
+//     and the prefilter's), u(0+) when they have none.
 //
 // # Invariants
 //

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"sync"
 
 	"github.com/loopwise/loopwise/poly"
 	"github.com/loopwise/loopwise/tf"
@@ -120,6 +121,14 @@ type Functions struct {
 	approx   parts // the parts with dead time approximated (continuous) or as powers of z
 	fns      [numInputs][numOutputs]Function
 	charPoly poly.Poly
+	// delayNegligible: the loop's continuous dead time is negligible
+	// (negligibleDelay), and the time metrics use the rational functions.
+	delayNegligible bool
+	// rightmost is the exact rightmost closed-loop root of a continuous
+	// loop with dead time, found once (delayed.go).
+	rightmostOnce sync.Once
+	rightmost     complex128
+	rightmostErr  error
 
 	// ClosedLoopPoles are the roots of the characteristic polynomial
 	// D_C·D_G·D_H + k·N_C·N_G·N_H of the loop (no cancellation), and the
@@ -140,7 +149,10 @@ type Functions struct {
 	InternallyStable bool
 	// DelayApproximated reports whether the rational TF of the functions
 	// carries a Padé approximation of a continuous dead time inside the
-	// loop (frequency-domain results stay exact, see FrequencyResponse).
+	// loop. Frequency-domain results stay exact (see FrequencyResponse), and
+	// so do the time metrics (StepDeviation, ControlEffort, ErrorIntegrals,
+	// StepResponse: exact delayed response); the H2 norms of NoiseGains use
+	// the approximation.
 	DelayApproximated bool
 	// SampleTimeSec is the common sample period (0 = continuous).
 	SampleTimeSec float64
@@ -155,8 +167,9 @@ type parts struct {
 type Settings struct {
 	// PadeOrder is the order of the Padé approximant that replaces a
 	// continuous dead time inside the loop for the rational closed-loop
-	// functions and so for time responses, 1 to tf.MaxPadeOrder. If zero,
-	// defaults to 8.
+	// functions (Function.TF, the closed-loop poles, the H2 norms), 1 to
+	// tf.MaxPadeOrder; the time metrics use the exact delayed response. If
+	// zero, defaults to 8.
 	PadeOrder int
 	// MinimalTol is the relative cancellation tolerance passed to
 	// tf.Minimal. If zero, defaults to tf.DefaultMinimalTol.
@@ -308,6 +321,9 @@ func Of(l Loop, set *Settings) (*Functions, error) {
 		return nil, fmt.Errorf("%w: the characteristic polynomial 1 + L is identically zero or overflows", ErrLoop)
 	}
 	fs := &Functions{loop: l, exact: ex, approx: ap, charPoly: P, DelayApproximated: delayed, SampleTimeSec: ts}
+	if ts == 0 {
+		fs.delayNegligible = negligibleDelay(ex, ex.c.DelaySec()+ex.g.DelaySec()+ex.h.DelaySec())
+	}
 	poles, err := P.Roots()
 	if err != nil {
 		return nil, fmt.Errorf("%w: closed-loop poles: %v", ErrNumerical, err)

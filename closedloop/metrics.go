@@ -132,19 +132,15 @@ func (fs *Functions) StepDeviation(from Input, to Output, set *Settings) (StepDe
 	if err := fs.requireStable(); err != nil {
 		return StepDeviation{}, err
 	}
+	if fs.loopDelay() > 0 {
+		return fs.delayedDeviation(from, to, band)
+	}
 	g := fs.fns[from][to].TF
 	tr, err := newTrajectory(g, true)
 	if err != nil {
 		return StepDeviation{}, fmt.Errorf("%v → %v: %w", from, to, err)
 	}
-	var d StepDeviation
-	d.PeakDeviation, d.PeakTimeSec = tr.peak()
-	d.FinalValue = tr.final
-	if d.PeakDeviation == 0 {
-		d.PeakTimeSec = 0
-	} else {
-		d.RecoveryTimeSec = tr.lastExit(band * math.Abs(d.PeakDeviation))
-	}
+	d := deviation(tr, tr.final, band)
 	c, err := fs.criteria(g, tr)
 	if err != nil {
 		return StepDeviation{}, fmt.Errorf("%v → %v: %w", from, to, err)
@@ -161,6 +157,17 @@ func (fs *Functions) StepDeviation(from Input, to Output, set *Settings) (StepDe
 func (fs *Functions) ControlEffort(from Input) (ControlEffort, error) {
 	if err := fs.requireStable(); err != nil {
 		return ControlEffort{}, err
+	}
+	if fs.loopDelay() > 0 {
+		d, err := fs.delayedStep(from, Control)
+		if err != nil {
+			return ControlEffort{}, fmt.Errorf("%v → control signal: %w", from, err)
+		}
+		var c ControlEffort
+		c.InitialValue = d.initial()
+		c.PeakValue, c.PeakTimeSec = d.peak()
+		c.FinalValue = d.final
+		return c, nil
 	}
 	g := fs.fns[from][Control].TF
 	tr, err := newTrajectory(g, false)
@@ -186,6 +193,15 @@ func (fs *Functions) ControlEffort(from Input) (ControlEffort, error) {
 func (fs *Functions) ErrorIntegrals(from Input) (IntegralCriteria, error) {
 	if err := fs.requireStable(); err != nil {
 		return IntegralCriteria{}, err
+	}
+	if fs.loopDelay() > 0 {
+		d, err := fs.delayedStep(from, Error)
+		if err != nil {
+			return IntegralCriteria{}, fmt.Errorf("%v → error: %w", from, err)
+		}
+		var c IntegralCriteria
+		c.IntegratedAbsoluteError, c.IntegratedTimeAbsoluteError, c.IntegratedSquaredError, c.AbsoluteErrorBound, c.TimeAbsoluteErrorBound = d.integrals()
+		return c, nil
 	}
 	g := fs.fns[from][Error].TF
 	tr, err := newTrajectory(g, true)
@@ -233,6 +249,39 @@ func stepEnergy(g tf.TF) (float64, error) {
 		v *= ts
 	}
 	return v, err
+}
+
+// located is a step response whose peak and band exit are located:
+// trajectory (rational) or delayedResponse (exact dead time).
+type located interface {
+	peak() (value, timeSec float64)
+	lastExit(level float64) float64
+}
+
+// deviation fills the peak, final value and recovery time of a
+// StepDeviation from r.
+func deviation(r located, final, band float64) StepDeviation {
+	var d StepDeviation
+	d.PeakDeviation, d.PeakTimeSec = r.peak()
+	d.FinalValue = final
+	if d.PeakDeviation == 0 {
+		d.PeakTimeSec = 0
+	} else {
+		d.RecoveryTimeSec = r.lastExit(band * math.Abs(d.PeakDeviation))
+	}
+	return d
+}
+
+// delayedDeviation is StepDeviation for a continuous loop with dead time,
+// on the exact delayed response (delayed.go).
+func (fs *Functions) delayedDeviation(from Input, to Output, band float64) (StepDeviation, error) {
+	d, err := fs.delayedStep(from, to)
+	if err != nil {
+		return StepDeviation{}, fmt.Errorf("%v → %v: %w", from, to, err)
+	}
+	s := deviation(d, d.final, band)
+	s.IntegratedAbsoluteError, s.IntegratedTimeAbsoluteError, s.IntegratedSquaredError, s.AbsoluteErrorBound, s.TimeAbsoluteErrorBound = d.integrals()
+	return s, nil
 }
 
 // NoiseGains returns the noise gains. Errors: ErrInternallyUnstable.

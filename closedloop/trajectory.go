@@ -288,30 +288,43 @@ func (tr *trajectory) yAt(t float64) float64 { return tr.value(tr.at(t)) }
 // the response creeps towards it: the supremum is the final value,
 // approached as t → ∞, and (FinalValue, +Inf) is returned.
 func (tr *trajectory) peak() (value, timeSec float64) {
-	best := tr.pts[0]
-	for _, p := range tr.pts[1:] {
+	value, timeSec = peakOf(tr.pts, tr.final)
+	return value, timeSec + tr.delay
+}
+
+// peakOf returns the value of largest magnitude among pts and its time,
+// or (final, +Inf) when none exceeds the final value in magnitude (to
+// 1e-12 relative): the supremum is then approached as t → ∞.
+func peakOf(pts []tpoint, final float64) (value, timeSec float64) {
+	best := pts[0]
+	for _, p := range pts[1:] {
 		if math.Abs(p.y) > math.Abs(best.y)*(1+1e-13) {
 			best = p
 		}
 	}
-	// No value beyond the final one (to rounding, 1e-12 relative): the
-	// supremum is approached as t → ∞.
-	if tr.final != 0 && math.Abs(best.y) <= math.Abs(tr.final)*(1+1e-12) {
-		return tr.final, math.Inf(1)
+	if final != 0 && math.Abs(best.y) <= math.Abs(final)*(1+1e-12) {
+		return final, math.Inf(1)
 	}
-	return best.y, best.t + tr.delay
+	return best.y, best.t
+}
+
+// lastOutside returns the index of the last point of pts farther than
+// level from final, −1 if none.
+func lastOutside(pts []tpoint, final, level float64) int {
+	last := -1
+	for i, p := range pts {
+		if math.Abs(p.y-final) > level {
+			last = i
+		}
+	}
+	return last
 }
 
 // lastExit returns the last time |y − final| equals level (dead time
 // included); 0 if it never exceeds it. Discrete: the first sample after
 // the last one outside (the held output enters the band for good).
 func (tr *trajectory) lastExit(level float64) float64 {
-	last := -1
-	for i, p := range tr.pts {
-		if math.Abs(p.y-tr.final) > level {
-			last = i
-		}
-	}
+	last := lastOutside(tr.pts, tr.final, level)
 	switch {
 	case last < 0:
 		return 0

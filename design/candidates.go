@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"slices"
 	"strconv"
 
 	"github.com/loopwise/loopwise/locus"
@@ -56,7 +57,7 @@ func (p *problem) exactCandidates(r spec.Requirement) ([]candidate, bool) {
 		// The delay margin also jumps where a gain crossover appears or
 		// disappears and where the phase margin wraps at 180°.
 		c = append(c, p.crossoverTangencies()...)
-		c = append(c, p.targetCandidates(1, "the phase margin wraps at 180°", keyDelayMargin)...)
+		c = append(c, p.wrapCandidates()...)
 		return c, true
 	case keyPeakSens:
 		if p.v.delay > 0 || !(lim > 0) {
@@ -132,9 +133,27 @@ func (p *problem) origin() complex128 {
 	return 0
 }
 
+// wrapCandidates returns the values at which the phase margin wraps at
+// 180° (L_v(jω) = 1), shared by the phase and delay margins: the roots are
+// solved once per Solve.
+func (p *problem) wrapCandidates() []candidate {
+	if p.wraps == nil {
+		p.wraps = append([]candidate{}, p.targetCandidates(1, "the phase margin wraps at 180°", keyPhaseMargin)...)
+	}
+	return slices.Clone(p.wraps)
+}
+
 // crossoverTangencies returns the values at which a gain crossover appears
-// or disappears: |N_v|² − |D_v|² has a double root in ω².
+// or disappears: |N_v|² − |D_v|² has a double root in ω². The phase and
+// delay margins share them: the resultant is solved once per Solve.
 func (p *problem) crossoverTangencies() []candidate {
+	if p.tangencies == nil {
+		p.tangencies = append([]candidate{}, p.solveCrossoverTangencies()...)
+	}
+	return slices.Clone(p.tangencies)
+}
+
+func (p *problem) solveCrossoverTangencies() []candidate {
 	f := p.f
 	q := normSq(onAxis(f.n0), onAxis(f.n1)).sub(normSq(onAxis(f.d0), onAxis(f.d1)), 1)
 	var out []candidate
@@ -149,7 +168,7 @@ func (p *problem) phaseMarginCandidates(deg float64) []candidate {
 	c := cmplx.Rect(1, theta)
 	out := p.targetCandidates(c, "phase margin = "+fmtNum(deg)+"°", keyPhaseMargin)
 	out = append(out, p.crossoverTangencies()...)
-	out = append(out, p.targetCandidates(1, "the phase margin wraps at 180°", keyPhaseMargin)...)
+	out = append(out, p.wrapCandidates()...)
 	return out
 }
 

@@ -45,18 +45,39 @@
 //   - damping ratio ζ (continuous time): locus.DampingCrossings;
 //   - steady-state error e: (1 − e)·D_v(0) − e·N_v(0) = 0, linear in v.
 //
-// Discrete loops are mapped to the same form by z = (1 + w)/(1 − w). Step
-// metrics (overshoot, rise and settling time), requirement kinds this
-// package does not know, the damping ratio in discrete time and the
-// margins of loops with dead time have no such construction: each piece
-// between stability boundaries is sampled (Settings.Samples values) and
-// every change of the verdict between neighbours is refined by Brent's
-// method on the slack (Brent 1973) to 1e-12 relative; a quantity that
-// jumps (the settling time when the last exit from the band moves to an
-// earlier extremum) is located at its jump and the end is labelled so.
-// RequirementSet.Method says which method gave a set. Right at a stability
-// boundary the step response rings for ever and cannot be measured: the
-// step-metric sets end there by the samples' verdict.
+// Discrete loops are mapped to the same form by z = (1 + w)/(1 − w). The
+// positive real roots of these polynomials are isolated by
+// poly.RealRootsIn (no complex roots are computed). Step metrics
+// (overshoot, rise and settling time), requirement kinds this package does
+// not know, the damping ratio in discrete time and the margins of loops
+// with dead time have no such construction: each piece between stability
+// boundaries is sampled (Settings.Samples values) and every change of the
+// verdict between neighbours is located as follows. RequirementSet.Method
+// says which method gave a set ("bracketing" for all of these).
+//
+//   - Settling time T_s ≤ T (continuous time, no dead time): T_s ≤ T
+//     exactly when B = max over t ≥ T of |y − y_∞|/|y_∞| is at most the
+//     band; B is continuous in the variable even where T_s jumps (where an
+//     extremum of y after T touches the band), so the end is the root of
+//     B − band by Brent's method, B computed from exact values of the
+//     response at located extrema (jump.go).
+//   - Rise time ≤ T (same loops): it holds exactly when the largest value
+//     of y/y_∞ up to t₁₀ + T reaches 90 %; the same construction locates
+//     both its continuous ends and its jumps.
+//   - Overshoot (same loops): computed from the exact value of y at the
+//     largest extremum; its root by Brent's method.
+//   - These ends are accepted only when response.StepMetrics (through
+//     spec.CheckWith) confirms them: a continuous end where the metric
+//     equals the limit to 1e-10 relative, a jump where the requirement
+//     holds on one side and fails on the other at 1e-6 relative.
+//   - Otherwise (discrete time, dead time, no oscillating pole pair, no
+//     confirmation, other kinds): Brent's method on the slack (Brent 1973)
+//     to 1e-11 relative; a quantity that jumps is located by bisection to
+//     1e-5 relative and the end labelled so.
+//
+// Right at a stability boundary the step response rings for ever and
+// cannot be measured: the step-metric sets end there by the samples'
+// verdict.
 //
 // # Slack and the suggested value
 //
@@ -64,7 +85,11 @@
 // minimum and (limit − value)/|limit| for a maximum (|limit| replaced by 1
 // for a zero limit); −∞ when the value cannot be measured. The suggested
 // value maximises the smallest slack over the requirements inside the set
-// where all hold (samples, then golden-section search, Kiefer 1953). When
+// where all hold: the smallest slack of the exactly constructed kinds
+// (cheap) is maximised first by golden-section search (Kiefer 1953); if
+// the step-metric slacks are larger there, that is the answer, else the
+// crossing of the two (Brent's method to 1e-3 of the interval), or a
+// golden-section search on all of them. When
 // no value meets them all, the pairs of requirements whose sets do not
 // overlap are named and the value with the largest smallest slack is given
 // as the best compromise, with the requirements it fails. With robustness
@@ -79,13 +104,17 @@
 // references (testdata/gen_refs.py) to 1e-9 relative or better, and at
 // every end the quantity measured by spec.CheckWith equals its limit to
 // 1e-9 (solve_test.go, more_test.go). Bracketed ends of continuous
-// quantities are polished to 1e-11 relative; jumps are located to 1e-5.
-// Measured (testdata/benchmarks.md): the plane of a PI loop of order 8
-// takes 20–45 ms on one core; the one-variable design of an order-10 loop
-// with all nine requirement kinds costs 130–350 times one margins.Compute
-// plus response.StepMetrics, almost all of it in the about 57 step-response
-// evaluations of the three step requirements (the exact kinds cost about 27
-// margin checks).
+// quantities are polished to 1e-11 relative (or confirmed to 1e-10 of the
+// limit); jumps are located to 1e-6 (confirmed on both sides) or, by
+// bisection, to 1e-5. TestDirectEnds checks the directly located ends
+// against plain bisection on spec.Check.
+// Measured (testdata/benchmarks.md, BenchmarkRatio, CPU time of the
+// thread): the one-variable design of an order-10 loop with all nine
+// requirement kinds costs about 38–41 times one margins.Compute plus
+// response.StepMetrics of the same loop (it was 130–350 before the
+// constructions above); for an order-6 PI loop whose baseline is very
+// cheap (0.13–0.22 ms) it costs about 12 ms, 53–97 times the baseline. The
+// plane of a PI loop of order 8 takes about 10 ms on one core.
 //
 // # Conventions
 //

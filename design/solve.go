@@ -141,7 +141,10 @@ type problem struct {
 	charLoop tf.TF // b/a with a + v·b the characteristic polynomial
 	stable   []Interval
 	stabC    []candidate
-	cache    map[cacheKey]spec.Report
+	// tangencies and wraps are the candidates shared by the phase and
+	// delay margins (nil until first needed).
+	tangencies, wraps []candidate
+	cache             map[cacheKey]spec.Report
 	// The requirements with an exact construction and the others, with
 	// their indices in the caller's list.
 	exact, generic       spec.Requirements
@@ -314,6 +317,123 @@ func (p *problem) evalAll(x float64, n int) []spec.Result {
 			out[p.genericIdx[i]] = r
 		}
 	}
+	return out
+}
+
+// groupMin returns the smallest slack at x over the requirements of one
+// group (+Inf for an empty group).
+func (p *problem) groupMin(x float64, group string) float64 {
+	req := p.exact
+	if group == "generic" {
+		req = p.generic
+	}
+	best := math.Inf(1)
+	if len(req) == 0 {
+		return best
+	}
+	for _, r := range p.eval(x, group, req).Results {
+		best = math.Min(best, Slack(r))
+	}
+	return best
+}
+
+// searchInterval returns the value in iv with the largest smallest slack F
+// = min(E, G), E over the requirements with an exact construction (cheap:
+// margins and poles) and G over the bracketed ones (a step response each).
+// E is maximised first by golden-section search (Kiefer 1953) from six
+// samples; where G ≥ E at that maximum it is the maximum of F too (F ≤ E
+// everywhere). Otherwise, when a value already evaluated inside iv (or the
+// outer sample where E is smaller) has G > E, the two cross between it and
+// the maximum of E, and the crossing (Brent's method on G − E to 1e-3 of
+// the interval's width) is the maximum of F when E
+// and G are monotone there (the usual case: one end bound by each group);
+// the best of the values tried is returned. Without such a value, F is
+// maximised by golden-section search from the values evaluated inside or a
+// few samples (the only search when every requirement has an exact
+// construction: F is cheap then). Infinite intervals are only sampled.
+func (p *problem) searchInterval(iv Interval, F func(float64) float64) (float64, float64) {
+	finite := !math.IsInf(iv.Lo, 0) && !math.IsInf(iv.Hi, 0)
+	bx, bs := math.NaN(), math.Inf(-1)
+	try := func(x float64) {
+		if s := F(x); s > bs || math.IsNaN(bx) {
+			bx, bs = x, s
+		}
+	}
+	if finite && len(p.exact) > 0 && len(p.generic) > 0 {
+		E := func(x float64) float64 { return p.groupMin(x, "exact") }
+		xs := samplesIn(iv.Lo, iv.Hi, 6)
+		vals, xe, se := sampleThenGolden(E, xs, iv, 8)
+		ge := p.groupMin(xe, "generic")
+		if ge >= se {
+			return xe, se
+		}
+		try(xe)
+		// A value evaluated inside with G > E brackets a crossing; if
+		// there is none, the outer sample where E is smaller is tried.
+		probe := xs[len(xs)-1]
+		if vals[0] < vals[len(vals)-1] {
+			probe = xs[0]
+		}
+		h := func(x float64) float64 { return p.groupMin(x, "generic") - E(x) }
+		for _, x := range append(p.evaluatedGeneric(iv.Lo, iv.Hi), probe) {
+			if hx := h(x); hx > 0 && x != xe {
+				xc := rootfind.Brent(h, xe, x, ge-se, hx, 1e-3*(iv.Hi-iv.Lo)/math.Max(math.Abs(xe), 1e-300))
+				try(x)
+				try(xc)
+				return bx, bs
+			}
+		}
+	}
+	xs := p.evaluated(iv.Lo, iv.Hi)
+	if len(xs) < 3 {
+		xs = append(xs, samplesIn(iv.Lo, iv.Hi, 5)...)
+		slices.Sort(xs)
+	}
+	iters := 5
+	if !finite {
+		iters = 0
+	}
+	_, x, s := sampleThenGolden(F, xs, iv, iters)
+	if s > bs || math.IsNaN(bx) {
+		bx, bs = x, s
+	}
+	return bx, bs
+}
+
+// sampleThenGolden evaluates f at xs (ascending, inside iv) and refines
+// the best sample by golden-section search with iters steps between its
+// neighbours (the ends of iv beyond the first and last sample); iters = 0
+// keeps the best sample. It returns the sampled values and the best point.
+func sampleThenGolden(f func(float64) float64, xs []float64, iv Interval, iters int) (vals []float64, x, fx float64) {
+	vals = make([]float64, len(xs))
+	for j, x := range xs {
+		vals[j] = f(x)
+	}
+	j := argmax(vals)
+	lo, hi := iv.Lo, iv.Hi
+	if j > 0 {
+		lo = xs[j-1]
+	}
+	if j+1 < len(xs) {
+		hi = xs[j+1]
+	}
+	if iters == 0 {
+		return vals, xs[j], vals[j]
+	}
+	x, fx = golden(f, lo, hi, xs[j], vals[j], iters)
+	return vals, x, fx
+}
+
+// evaluatedGeneric returns the values strictly inside (lo, hi) at which
+// the bracketed group has been evaluated, ascending.
+func (p *problem) evaluatedGeneric(lo, hi float64) []float64 {
+	var out []float64
+	for k := range p.cache {
+		if k.group == "generic" && k.x > lo && k.x < hi {
+			out = append(out, k.x)
+		}
+	}
+	slices.Sort(out)
 	return out
 }
 
@@ -532,12 +652,11 @@ func (p *problem) solveGeneric(req spec.Requirements, idx []int, res *Result) {
 					b := pieceStart(xs, x)
 					start, startLabel = b, p.endLabel(b, nil)
 				} else {
-					e := p.refine(slack, prevX, x, prevS, s)
-					start, startLabel = e, p.boundLabel(req, i, e)
+					start, startLabel = p.bracketEnd(req, i, slack, prevX, x, prevS, s)
 				}
 			} else if !met && !math.IsNaN(start) {
-				e := p.refine(slack, prevX, x, prevS, s)
-				ivs = append(ivs, Interval{Lo: start, Hi: e, LoBinding: startLabel, HiBinding: p.boundLabel(req, i, e)})
+				e, label := p.bracketEnd(req, i, slack, prevX, x, prevS, s)
+				ivs = append(ivs, Interval{Lo: start, Hi: e, LoBinding: startLabel, HiBinding: label})
 				start = math.NaN()
 			}
 			prevX, prevS = x, s
@@ -608,15 +727,20 @@ func mergeTouching(ivs []Interval) []Interval {
 // Brent's method (Brent 1973) first locates it to 1e-5 relative; where the
 // slack at both ends of its last bracket is small (|f| ≤ 1e-3, the quantity
 // is continuous) a second Brent run on that bracket polishes it to 1e-11
-// relative. Where it
-// is not, the quantity jumps past its limit there (the settling time when
-// the last exit from the band moves to another extremum) and the jump is
-// located to 1e-5 relative.
+// relative. Either run stops at a value where the slack is within
+// slackResolved of zero. Where the slack is not small, the quantity jumps
+// past its limit there (the settling time when the last exit from the band
+// moves to another extremum) and the jump is located to 1e-5 relative.
 func (p *problem) refine(f func(float64) float64, a, b, fa, fb float64) float64 {
 	// Record the evaluations to recover the final bracket of the first run.
 	lo, hi, flo, fhi := a, b, fa, fb
+	done := false
 	rec := func(x float64) float64 {
 		v := f(x)
+		if settled(v) == 0 {
+			done = true
+			return 0
+		}
 		if (v < 0) == (flo < 0) {
 			if math.Abs(x-hi) < math.Abs(lo-hi) {
 				lo, flo = x, v
@@ -627,10 +751,28 @@ func (p *problem) refine(f func(float64) float64, a, b, fa, fb float64) float64 
 		return v
 	}
 	x := rootfind.Brent(rec, a, b, fa, fb, 1e-5)
+	if done {
+		return x
+	}
 	if math.Abs(flo) > 1e-3 || math.Abs(fhi) > 1e-3 {
 		return x
 	}
-	return rootfind.Brent(f, lo, hi, flo, fhi, 1e-11)
+	return rootfind.Brent(func(x float64) float64 { return settled(f(x)) }, lo, hi, flo, fhi, 1e-11)
+}
+
+// slackResolved is the slack below which a bracketed end is final: the
+// quantity equals its limit to 1e-12 relative, about the accuracy of the
+// step metrics themselves (1e-13), so a further bracketing step would
+// only move the end within that accuracy.
+const slackResolved = 1e-12
+
+// settled returns 0 for a slack within slackResolved of zero, which ends
+// Brent's method at that value.
+func settled(v float64) float64 {
+	if math.Abs(v) <= slackResolved {
+		return 0
+	}
+	return v
 }
 
 func brent(f func(float64) float64, a, b, fa, fb float64) float64 {
@@ -645,7 +787,31 @@ func (p *problem) boundLabel(req spec.Requirements, i int, x float64) string {
 	if !math.IsNaN(r.Value) && math.Abs(r.Value-lim) <= 1e-6*math.Max(math.Abs(lim), 1e-12) {
 		return strings.TrimPrefix(strings.TrimPrefix(r.Name, "minimum "), "maximum ") + " = " + fmtNum(lim) + unitSuffix(r.Requirement)
 	}
-	return fmt.Sprintf("%s jumps past its limit %s%s", strings.TrimPrefix(strings.TrimPrefix(r.Name, "minimum "), "maximum "), fmtNum(lim), unitSuffix(r.Requirement))
+	return jumpLabel(r.Requirement)
+}
+
+// jumpLabel says that the requirement's quantity jumps past its limit.
+func jumpLabel(r spec.Requirement) string {
+	return fmt.Sprintf("%s jumps past its limit %s%s", strings.TrimPrefix(strings.TrimPrefix(r.Name(), "minimum "), "maximum "), fmtNum(r.Limit()), unitSuffix(r))
+}
+
+// bracketEnd locates the end of a requirement's set between a and b (the
+// slack f changes sign there): for the settling time on its continuous
+// excess over the band (windowEnd), else by refine; it
+// returns the end and what binds there.
+func (p *problem) bracketEnd(req spec.Requirements, i int, f func(float64) float64, a, b, fa, fb float64) (float64, string) {
+	xp, xf := a, b
+	if fa < 0 {
+		xp, xf = b, a
+	}
+	if x, label, ok := p.windowEnd(req, i, f, xp, xf); ok {
+		return x, label
+	}
+	if x, label, ok := p.directEnd(req, i, f, xp, xf); ok {
+		return x, label
+	}
+	e := p.refine(f, a, b, fa, fb)
+	return e, p.boundLabel(req, i, e)
 }
 
 func unitSuffix(r spec.Requirement) string {
@@ -709,32 +875,10 @@ func (p *problem) suggest(req spec.Requirements, res *Result) {
 	search := func(ivs []Interval) (float64, float64) {
 		bx, bs := math.NaN(), math.Inf(-1)
 		for _, iv := range ivs {
-			// Values already evaluated inside, else a few samples.
-			xs := p.evaluated(iv.Lo, iv.Hi)
-			if len(xs) < 3 {
-				xs = append(xs, samplesIn(iv.Lo, iv.Hi, 5)...)
-				slices.Sort(xs)
+			x, s := p.searchInterval(iv, func(x float64) float64 { v, _ := minSlack(x); return v })
+			if s > bs {
+				bx, bs = x, s
 			}
-			vals := make([]float64, len(xs))
-			for j, x := range xs {
-				vals[j], _ = minSlack(x)
-			}
-			j := argmax(vals)
-			if vals[j] <= bs {
-				continue
-			}
-			lo, hi := iv.Lo, iv.Hi
-			if j > 0 {
-				lo = xs[j-1]
-			}
-			if j+1 < len(xs) {
-				hi = xs[j+1]
-			}
-			x, s := xs[j], vals[j]
-			if !math.IsInf(lo, 0) && !math.IsInf(hi, 0) {
-				x, s = golden(func(x float64) float64 { v, _ := minSlack(x); return v }, lo, hi, xs[j], vals[j], 5)
-			}
-			bx, bs = x, s
 		}
 		return bx, bs
 	}

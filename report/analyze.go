@@ -59,6 +59,9 @@ type analysis struct {
 	// design holds the design section's results for its figures
 	// (design.go).
 	design designFigures
+	// dead holds the exact dead-time analysis (deadtime.go); nil when the
+	// loop's dead time is not kept exact.
+	dead *deadTimeState
 }
 
 // warn adds a warning to the report: a sentence that says what could not

@@ -127,6 +127,9 @@ func build(lf *Loop) (*loopModel, error) {
 	if lf.Parameter != nil && !validName(lf.Parameter.Name) {
 		return nil, badInput("key \"parameter.name\"%s: %q is not a usable name; use letters, digits and '_', starting with a letter, and not s, z or exp", lf.where("parameter.name"), lf.Parameter.Name)
 	}
+	if err := lf.checkDeadTimeModel(`"dead_time_model"`); err != nil {
+		return nil, err
+	}
 	p := 0.0
 	if lf.Parameter != nil {
 		p = lf.Parameter.Value

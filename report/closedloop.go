@@ -7,7 +7,6 @@ import (
 
 	"github.com/loopwise/loopwise/chart"
 	"github.com/loopwise/loopwise/closedloop"
-	"github.com/loopwise/loopwise/response"
 	"github.com/loopwise/loopwise/tf"
 )
 
@@ -213,13 +212,12 @@ type closedLoopState struct {
 }
 
 // loopParts returns the loop's parts for package closedloop: the
-// controller, the plant with the loop's dead time, the sensor and the gain;
-// an error in words when the loop is converted to z as a whole.
+// controller, the plant with the loop's dead time, the sensor and the gain.
+//
+// A loop with "discretize" is analysed as the sampled-data loop it
+// describes (see sampledParts and sampledDescription).
 func (a *analysis) loopParts() (closedloop.Loop, error) {
 	m := a.m
-	if m.discrete != nil {
-		return closedloop.Loop{}, fmt.Errorf("the loop is converted to z as a whole (\"discretize\"), which does not keep plant and controller apart")
-	}
 	plant := m.plant
 	if d := m.file.DelaySec; d > 0 {
 		var err error
@@ -227,8 +225,71 @@ func (a *analysis) loopParts() (closedloop.Loop, error) {
 			return closedloop.Loop{}, err
 		}
 	}
-	return closedloop.Loop{Plant: plant, Controller: m.controller, Sensor: m.sensor, Gain: m.gain}, nil
+	l := closedloop.Loop{Plant: plant, Controller: m.controller, Sensor: m.sensor, Gain: m.gain}
+	if m.delayIgnored {
+		// The dead time is negligible against the loop's dynamics and the
+		// other sections leave it out (build.go, negligibleDelay): so do
+		// these.
+		l.Plant, l.Controller, l.Sensor = l.Plant.WithoutDelay(), l.Controller.WithoutDelay(), l.Sensor.WithoutDelay()
+	}
+	if d := m.file.Discretize; d != nil {
+		return sampledParts(l, d, m.unitySensor)
+	}
+	return l, nil
 }
+
+// sampledParts turns the continuous parts of a loop with "discretize" into
+// the sampled-data loop: the controller converted to z by the file's
+// method (the digital controller), and the plant, with its dead time, seen
+// through a zero-order hold at the sampling instants (its exact pulse
+// transfer function: the control signal is held between samples and a
+// step of load disturbance is constant, so the output at the sampling
+// instants is exact; between them it is not seen). A sensor other than 1
+// is converted to z on its own by the file's method, as a digital filter of
+// the sampled measurement (for an analogue sensor ahead of the sampler
+// this is an approximation, and the description says so).
+//
+// This is not the loop converted as a whole that the other sections
+// analyse (the conversion of C·G·H in one piece): with "zoh" that one
+// holds the error ahead of the controller, here the control signal is held
+// ahead of the plant. The description names the difference.
+func sampledParts(l closedloop.Loop, d *Discretize, unitySensor bool) (closedloop.Loop, error) {
+	T := d.SampleTimeSec
+	if !l.Controller.IsProper() && d.Method != "tustin" {
+		return closedloop.Loop{}, fmt.Errorf("the controller %s is improper (a derivative without filter), and \"discretize.method\" %q cannot convert it to z on its own; use \"tustin\" or give the derivative a filter", l.Controller, d.Method)
+	}
+	c, err := discretize(l.Controller, d)
+	if err != nil {
+		return closedloop.Loop{}, fmt.Errorf("the controller cannot be converted to z on its own: %s", strings.TrimPrefix(short(err), "key \"discretize\": the loop cannot be converted to z: "))
+	}
+	g, err := l.Plant.Discretize(T, tf.ZeroOrderHold, nil)
+	if err != nil {
+		return closedloop.Loop{}, fmt.Errorf("the plant cannot be sampled through a zero-order hold at %s s: %s", g2(T), strings.TrimPrefix(short(err), "tf: "))
+	}
+	out := closedloop.Loop{Plant: g, Controller: c, Gain: l.Gain}
+	if !unitySensor {
+		if out.Sensor, err = discretize(l.Sensor, d); err != nil {
+			return closedloop.Loop{}, fmt.Errorf("the sensor cannot be converted to z on its own: %s", strings.TrimPrefix(short(err), "key \"discretize\": the loop cannot be converted to z: "))
+		}
+	}
+	return out, nil
+}
+
+// sampledDescription says in words what the whole-loop sections compute
+// for a loop with "discretize" ("" otherwise).
+func (a *analysis) sampledDescription() string {
+	d := a.m.file.Discretize
+	if d == nil {
+		return ""
+	}
+	what := fmt.Sprintf("computed for the sampled-data loop: the controller converted to z by %q at %s s and the plant (with its dead time) seen through a zero-order hold at the sampling instants, exact there (the output between samples is not seen); values are those of the sample sequences, integrals those of the held signals (T·Σ), H2 norms per sample. This loop holds the control signal ahead of the plant; the sections above convert controller·plant·sensor in one piece, so their closed-loop poles can differ", d.Method, g2(d.SampleTimeSec))
+	if !a.m.unitySensor {
+		what += fmt.Sprintf("; the sensor is converted to z on its own by %q, as a digital filter of the sampled measurement (an approximation for an analogue sensor ahead of the sampler)", d.Method)
+	}
+	return what
+}
+
+func g2(x float64) string { return g(Number(x)) }
 
 // closedLoopStage fills load_disturbance, control_effort and noise.
 func (a *analysis) closedLoopStage() {
@@ -237,6 +298,9 @@ func (a *analysis) closedLoopStage() {
 	if err != nil {
 		a.warn("load disturbance, control effort and noise: %s; %s", err, keys)
 		return
+	}
+	if what := a.sampledDescription(); what != "" {
+		a.warn("load disturbance, control effort and noise: %s", what)
 	}
 	fs, err := closedloop.Of(parts, &closedloop.Settings{PadeOrder: padeOrder})
 	if err != nil {
@@ -256,7 +320,7 @@ func (a *analysis) closedLoopStage() {
 		return
 	}
 	if fs.DelayApproximated {
-		a.warn("load disturbance, control effort and noise: the dead time inside the loop is replaced by its Padé approximation of order %d for the responses and H2 norms (the frequency peaks are exact)", padeOrder)
+		a.warn("load disturbance, control effort and noise: the responses, peaks, recovery time, IAE and ISE are those of the exact dead time (method of steps), the noise H2 norms use its Padé approximation of order %d", padeOrder)
 	}
 	var m closedloop.Metrics
 	var errs [8]error
@@ -369,7 +433,7 @@ func (a *analysis) closedLoopPlots(add func(title, file, caption string, draw fu
 		add("Load-disturbance response", "load-disturbance",
 			"Output after a unit step of load disturbance at the plant input: the peak deviation, the recovery band (2 % of the peak) and the recovery time.",
 			func() (*chart.Figure, error) {
-				r, err := response.Step(c.fs.Function(closedloop.LoadDisturbance, closedloop.ProcessOutput).TF, nil)
+				r, err := c.fs.StepResponse(closedloop.LoadDisturbance, closedloop.ProcessOutput)
 				if err != nil {
 					return nil, err
 				}
@@ -380,7 +444,7 @@ func (a *analysis) closedLoopPlots(add func(title, file, caption string, draw fu
 		add("Control signal", "control-signal",
 			"Control signal after a unit reference step: the initial kick u(0+), the peak and the final value.",
 			func() (*chart.Figure, error) {
-				r, err := response.Step(c.fs.Function(closedloop.Reference, closedloop.Control).TF, nil)
+				r, err := c.fs.StepResponse(closedloop.Reference, closedloop.Control)
 				if err != nil {
 					return nil, err
 				}

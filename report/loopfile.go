@@ -58,6 +58,10 @@ type Loop struct {
 	Samples   int
 	// Plane is the design section's key (design.go).
 	Plane *PlaneSpec
+	// DeadTimeModel is how a continuous loop's dead time is analysed:
+	// "exact" (the default when empty: e^(−sτ) kept exact, see the
+	// dead_time section) or "pade" (a 6th-order Padé approximation).
+	DeadTimeModel string
 
 	// pos holds the position ("line 3, column 12") of each key as
 	// written, for messages about values that parse but do not make sense

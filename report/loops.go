@@ -16,9 +16,8 @@ func (a *analysis) loops() {
 		a.warn("the dead time cannot be replaced for the closed-loop poles: %s", short(m.padeErr))
 	} else if m.delayIgnored {
 		a.warn("the dead time of %s s is negligible against the loop's fastest pole or zero (e^(−sτ) differs from 1 by less than 1e-8 there): every analysis leaves it out", g(Number(m.open.DelaySec())))
-	} else if m.open.DelaySec() > 0 && !m.open.IsDiscrete() {
-		a.warn("dead time approximated by a %s-order Padé approximation for the closed-loop poles and the step response (the approximation adds poles and right-half-plane zeros of its own; a small undershoot at the start of the step can come from them)", ordinal(padeOrder))
 	}
+	exact := m.padeErr == nil && a.deadTimeLoops() // deadtime.go
 	// Open-loop poles: those of the rational part; in discrete time the
 	// dead time's poles at z = 0 are exact and listed too.
 	ol := m.open.WithoutDelay()
@@ -59,7 +58,7 @@ func (a *analysis) loops() {
 	}
 
 	// Closed loop from reference to output.
-	if a.rational.DelaySec() == 0 {
+	if a.rational.DelaySec() == 0 && !exact {
 		var err error
 		if m.unitySensor {
 			a.refOut, err = a.rational.ClosedLoop()
@@ -71,6 +70,10 @@ func (a *analysis) loops() {
 		}
 	}
 	switch {
+	case exact:
+		// deadTimeLoops set the exact roots and verdict.
+		a.verdictWarnings()
+		return
 	case m.closedErr != nil:
 		a.warn("closed-loop poles: %s", short(m.closedErr))
 	case a.rational.DelaySec() == 0:

@@ -61,7 +61,7 @@ func (a *analysis) settleVerdict(res *margins.Result) {
 	nyquist := verdict{known: true, stable: res.ClosedLoopStable, method: "the Nyquist criterion"}
 	if a.m.open.DelaySec() > 0 && !a.m.open.IsDiscrete() {
 		if old := a.verdict; old.known && old.stable != nyquist.stable {
-			a.warn("the closed-loop poles of the Padé approximation say %s, the Nyquist criterion on the exact loop says %s; the report follows the Nyquist criterion", old.words(), nyquist.words())
+			a.warn("%s say %s, the Nyquist criterion on the exact loop says %s; the report follows the Nyquist criterion", a.delayRootsName(), old.words(), nyquist.words())
 		}
 		a.verdict = nyquist
 		return

@@ -28,6 +28,7 @@ var pipeline = []section{
 	loopsSection,        // open_loop, closed_loop
 	locusSection,        // locus
 	marginsSection,      // margins
+	deadTimeSection,     // dead_time (exact roots, delay ranges)
 	stepSection,         // step
 	steadyStateSection,  // steady_state
 	closedLoopSection,   // load_disturbance, control_effort, noise

@@ -7,7 +7,6 @@ import (
 	"github.com/loopwise/loopwise/chart"
 	"github.com/loopwise/loopwise/locus"
 	"github.com/loopwise/loopwise/margins"
-	"github.com/loopwise/loopwise/response"
 )
 
 // render draws fig as SVG and PNG into a figure of the report.
@@ -58,6 +57,9 @@ func (a *analysis) plots() []Figure {
 			}
 			set := &locus.Settings{PadeOrder: padeOrder, Range: a.locus.Range, Variable: a.locus.Variable,
 				Progress: func(f float64) { a.fraction("plots: tracing the root locus", f) }}
+			if fig, ok, err := a.deadTimeLocusFigure(set, value); ok { // deadtime.go
+				return fig, err
+			}
 			l, err := locus.Trace(a.locusFor, set)
 			if err != nil {
 				return nil, err
@@ -98,10 +100,10 @@ func (a *analysis) plots() []Figure {
 	add("Step response", "step-response",
 		"Response of the closed loop from reference to output to a unit step, with the rise between 10 % and 90 %, the overshoot and the 2 % settling band.",
 		func() (*chart.Figure, error) {
-			if a.step == nil || a.refOut.IsZero() {
+			if a.step == nil {
 				return nil, fmt.Errorf("the closed loop has no settled step response (see the step warnings)")
 			}
-			r, err := response.Step(a.refOut, nil)
+			r, err := a.stepCurve() // deadtime.go: exact with dead time
 			if err != nil {
 				return nil, err
 			}

@@ -79,6 +79,9 @@ type Report struct {
 	// Robust is the loop over its uncertain parameters (robust.go); null
 	// without the loop file's "uncertain" key.
 	Robust *RobustResult `json:"robust"`
+	// DeadTime is the closed loop with its dead time exact (deadtime.go);
+	// null without a (non-negligible) dead time in s.
+	DeadTime *DeadTimeResult `json:"dead_time"`
 	// Warnings say, in sentences, what could not be computed and why,
 	// and what was approximated.
 	Warnings []string `json:"warnings"`

@@ -54,6 +54,19 @@ func (a *analysis) rootLocus() {
 	}
 	a.locus = &an
 	l := &rep.Locus
+	l.fill(an)
+	if a.deadTimeLocus(loop, set) { // deadtime.go: the exact locus with dead time
+		return
+	}
+	l.Notes = append(l.Notes, an.Notes...)
+	for _, n := range an.Notes {
+		a.warn("root locus: %s", n)
+	}
+}
+
+// fill sets the construction quantities of the locus section from an.
+func (l *LocusResult) fill(an locus.Analysis) {
+	l.Centroid = nan
 	l.AsymptoteAnglesDeg, l.RealAxisSegments = []Number{}, []Interval{}
 	l.DepartureAngles, l.ArrivalAngles = []AngleAt{}, []AngleAt{}
 	l.BreakPoints, l.AxisCrossings, l.StableIntervals = []BreakPoint{}, []AxisCrossing{}, []Interval{}
@@ -83,10 +96,6 @@ func (a *analysis) rootLocus() {
 	for _, iv := range an.StableIntervals {
 		l.StableIntervals = append(l.StableIntervals, Interval{Number(iv.Lo), Number(iv.Hi)})
 	}
-	l.Notes = append(l.Notes, an.Notes...)
-	for _, n := range an.Notes {
-		a.warn("root locus: %s", n)
-	}
 }
 
 // locusTables shows the root locus.
@@ -105,6 +114,8 @@ func locusTables(r *Report) []table {
 			angles[i] = gUnit(a, "°")
 		}
 		ls.rows = append(ls.rows, row{"asymptotes", fmt.Sprintf("centroid %s, angles %s", g(lo.Centroid), strings.Join(angles, ", "))})
+	} else if r.DeadTime != nil {
+		ls.rows = append(ls.rows, row{"asymptotes", "none: with the dead time exact, the branches to infinity come in from Re s = −∞"})
 	} else {
 		ls.rows = append(ls.rows, row{"asymptotes", "none (as many zeros as poles)"})
 	}

@@ -11,6 +11,9 @@ import (
 
 // stepStage fills the step section from the closed loop reference → output.
 func (a *analysis) stepStage() {
+	if a.deadTimeStep() { // deadtime.go: the exact response with dead time
+		return
+	}
 	if a.refOut.IsZero() {
 		a.warn("step response: the closed loop from reference to output could not be formed")
 		return

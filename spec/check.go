@@ -224,7 +224,7 @@ func (e *evaluator) getWhole() (closedloop.Metrics, string, error) {
 	if !e.wholeDone {
 		e.wholeDone = true
 		if e.parts.Plant.IsZero() {
-			e.wholeErr = fmt.Errorf("%w: this requirement needs the plant and the controller separately (Settings.Loop)", ErrInvalidSettings)
+			e.wholeErr = errNoLoopParts
 			return e.whole, "", e.wholeErr
 		}
 		fs, err := closedloop.Of(e.parts, &closedloop.Settings{PadeOrder: e.padeOrder})
@@ -233,7 +233,9 @@ func (e *evaluator) getWhole() (closedloop.Metrics, string, error) {
 			return e.whole, "", err
 		}
 		if fs.DelayApproximated {
-			e.wholeNote = fmt.Sprintf("dead time approximated by a Padé approximation of order %d", e.padeOrder)
+			// The time metrics of closedloop use the exact delayed
+			// response and the frequency peaks the exact dead time; say so.
+			e.wholeNote = "with the exact dead time"
 		}
 		e.whole, e.wholeErr = fs.Analyze(nil)
 	}
@@ -297,9 +299,26 @@ func cannot(res *Result, what string, err error) {
 	res.Message = fmt.Sprintf("The %s could not be measured, so the requirement (%s) is not met: %s.", what, res.Requirement, reason(err))
 }
 
+// noLoopPartsError is the error of a whole-loop requirement checked
+// without Settings.Loop. Its Error is for programmers (it names the Go
+// field); Result.Message, which reports built on loop files show, says it
+// without Go names (see reason).
+type noLoopPartsError struct{}
+
+var errNoLoopParts error = noLoopPartsError{}
+
+func (noLoopPartsError) Error() string {
+	return ErrInvalidSettings.Error() + ": this requirement needs the plant and the controller separately (Settings.Loop is the zero Loop)"
+}
+
+// Is reports whether target is ErrInvalidSettings.
+func (noLoopPartsError) Is(target error) bool { return target == ErrInvalidSettings }
+
 // reason turns an analysis error into words for a message.
 func reason(err error) string {
 	switch {
+	case errors.Is(err, errNoLoopParts):
+		return "it is measured on the loop's parts, the plant and the controller taken apart, and only their product (the loop transfer function) was available"
 	case errors.Is(err, response.ErrUnstable):
 		return "the closed loop is unstable"
 	case errors.Is(err, response.ErrZeroFinalValue):

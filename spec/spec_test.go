@@ -381,8 +381,13 @@ func TestWholeLoopRequirements(t *testing.T) {
 	}
 	// Without the parts the requirement fails and says what it needs.
 	r := spec.Check(loop, spec.Requirements{spec.MaxDisturbancePeak(1)}).Results[0]
-	if r.Pass || !errors.Is(r.Err, spec.ErrInvalidSettings) || !strings.Contains(r.Message, "Settings.Loop") {
+	// The error names the Go field for programmers; the message, which a
+	// report built from a loop file shows, says it without Go names.
+	if r.Pass || !errors.Is(r.Err, spec.ErrInvalidSettings) || !strings.Contains(r.Err.Error(), "Settings.Loop") {
 		t.Errorf("without parts: %+v", r)
+	}
+	if strings.Contains(r.Message, "Settings") || !strings.Contains(r.Message, "the plant and the controller taken apart") {
+		t.Errorf("without parts, message %q: want the reason in words, without Go names", r.Message)
 	}
 }
 

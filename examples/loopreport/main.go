@@ -74,6 +74,10 @@ Loop file (UTF-8 JSON of at most 1 MiB; unknown keys are rejected):
                    the parameter (at the given gain); margins and responses
                    are evaluated at the given value
   delay_sec        number, default 0: dead time added to the loop
+  dead_time_model  "exact" (default) or "pade": a continuous loop's dead
+                   time kept exact (closed-loop roots, crossings, stable
+                   dead-time ranges, step response) or replaced by a
+                   6th-order Padé approximation
   sample_time_sec  number, default 0 (continuous, expressions in s);
                    positive: the expressions are in z
   discretize       {"method": "zoh"|"foh"|"tustin"|"matched",
@@ -115,7 +119,8 @@ JSON output: open_loop, closed_loop, locus, margins, step, steady_state,
 load_disturbance, control_effort, noise, discrete_loop (with discretize),
 requirements, design (with requirements: the values of the gain or the
 parameter that meet each one), plane (with plane), robust (with uncertain),
-warnings; a quantity that is
+dead_time (continuous loops with dead time: exact roots, delay margin,
+stable dead-time ranges), warnings; a quantity that is
 infinite or does not exist is null; complex numbers are {"re": x, "im": y}.
 See README.md for every key.
 

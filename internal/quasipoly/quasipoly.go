@@ -621,7 +621,9 @@ func (q Q) Rightmost(m int, set *Settings) (Result, error) {
 		if err == nil && (count == k || N >= maxSize || q.Tau == 0 || q.K == 0) {
 			return q.finish(res)
 		}
-		if N >= maxSize {
+		if N >= maxSize || errors.Is(err, ErrBudget) {
+			// A larger discretisation only widens the region to count, so
+			// a count over budget stays over budget: stop here.
 			if err != nil {
 				return res, err
 			}
