@@ -447,11 +447,7 @@ func (t *tracer) newtonSep(s complex128, k float64, c []float64) (complex128, co
 	for it := range 12 {
 		t.stats.NewtonIterations++
 		var f, ddf complex128
-		if it == 0 {
-			f, df, ddf = hornerD2(c, s)
-		} else {
-			f, df = hornerD(c, s)
-		}
+		f, df, ddf = hornerIter(c, s, it == 0)
 		df2 := real(df)*real(df) + imag(df)*imag(df)
 		if df2 == 0 {
 			return s, df, p.b.EvalComplex(s), sep2, false

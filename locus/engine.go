@@ -372,6 +372,16 @@ func hornerD(c []float64, s complex128) (v, d complex128) {
 	return v, d
 }
 
+// hornerIter returns q(s) and q′(s) for the coefficients c, and q″(s)
+// too on the first iteration of Newton's method (the Kantorovich test).
+func hornerIter(c []float64, s complex128, first bool) (v, d, dd complex128) {
+	if first {
+		return hornerD2(c, s)
+	}
+	v, d = hornerD(c, s)
+	return v, d, 0
+}
+
 // hornerD2 returns q(s), q′(s) and q″(s) for the coefficients c (lowest
 // power first).
 func hornerD2(c []float64, s complex128) (v, d, dd complex128) {
@@ -399,11 +409,7 @@ func (t *tracer) newtonCoeffs(s complex128, k float64, c []float64) (complex128,
 	for it := range 12 {
 		t.stats.NewtonIterations++
 		var f, ddf complex128
-		if it == 0 {
-			f, df, ddf = hornerD2(c, s)
-		} else {
-			f, df = hornerD(c, s)
-		}
+		f, df, ddf = hornerIter(c, s, it == 0)
 		if df == 0 {
 			return s, df, p.b.EvalComplex(s), false
 		}
