@@ -437,6 +437,13 @@ func turnAngle(u, v complex128) float64 {
 // neighbouring roots used by the per-branch guard. It works with squared
 // magnitudes throughout (no square roots in the loop).
 func (t *tracer) newtonSep(s complex128, k float64, c []float64) (complex128, complex128, complex128, float64, bool) {
+	if imag(s) == 0 {
+		// A real root of a real polynomial stays real within a piece
+		// (it can only leave the axis at a break point, a node): the
+		// same iteration in real arithmetic.
+		x, df, bv, sep2, ok := t.newtonSepReal(real(s), c)
+		return complex(x, 0), complex(df, 0), complex(bv, 0), sep2, ok
+	}
 	p := t.p
 	floor2 := 1e-12 * t.scale * t.scale
 	s2 := real(s)*real(s) + imag(s)*imag(s)
@@ -492,6 +499,65 @@ func (t *tracer) newtonSep(s complex128, k float64, c []float64) (complex128, co
 		prev2 = d2
 	}
 	return s, df, 0, sep2, false
+}
+
+// newtonSepReal is newtonSep for a real starting point, in real
+// arithmetic (the iterates of Newton's method on a real polynomial from a
+// real point are real).
+func (t *tracer) newtonSepReal(x float64, c []float64) (float64, float64, float64, float64, bool) {
+	p := t.p
+	floor2 := 1e-12 * t.scale * t.scale
+	x2 := x * x
+	tol2 := 1e-24 * max(x2, floor2)
+	prev2 := math.Inf(1)
+	sep2 := math.Inf(1)
+	var df float64
+	for it := range 12 {
+		t.stats.NewtonIterations++
+		var f, ddf float64
+		df = 0
+		for i := len(c) - 1; i >= 0; i-- {
+			if it == 0 {
+				ddf = ddf*x + 2*df
+			}
+			df = df*x + f
+			f = f*x + c[i]
+		}
+		df2 := df * df
+		if df2 == 0 {
+			return x, df, p.b.Eval(x), sep2, false
+		}
+		d := f / df
+		xOld2 := x2
+		x -= d
+		x2 = x * x
+		d2 := d * d
+		if !(d2 < math.Inf(1)) {
+			return x, df, 0, sep2, false
+		}
+		if it == 0 {
+			ddf2 := ddf * ddf
+			if ddf2 != 0 {
+				sep2 = df2 / ddf2
+			}
+			if 0x1p-104*xOld2 > 0.0625*1e-24*max(x2, floor2) {
+				prev2 = d2
+				tol2 = 1e-24 * max(x2, floor2)
+				continue
+			}
+			if d2*d2*ddf2 <= 0.25*tol2*df2 {
+				return x, df, p.b.Eval(x), sep2, true
+			}
+		}
+		if d2 <= tol2 || (it >= 1 && d2*d2 <= tol2*prev2 && d2 < 0.0625*prev2) {
+			return x, df, p.b.Eval(x), sep2, true
+		}
+		if it >= 1 && d2 > 0.25*prev2 {
+			return x, df, 0, sep2, false
+		}
+		prev2 = d2
+	}
+	return x, df, 0, sep2, false
 }
 
 // matchFast pairs the end points of two half traces (see the file
