@@ -133,18 +133,20 @@
 // trace at the largest ChordTolerance whose largest chord inside its own
 // window (±1.5·max|pole, zero|) is no longer than the grid's. Its full run
 // (testdata/harness_full.md, wall clock on a 2-core machine shared by eight
-// engineers, load average 5 to 12) gives 28× (order 4) and 58× to 112× for
-// the other family orders 2 to 24 and the two textbook loops: the goal of
-// 30× is not met at order 4, where the largest tolerance of the harness's
-// ladder (0.02) already leaves the trace's chord below the grid's and the
-// trace takes 435 points (4× more than that chord needs). Special points
-// are exact to 4.3e-15, no branch swaps, Trace complete at orders 40 and
-// 60. Each root is followed with its own step, so the points go where a
-// branch moves (1360 points at order 8 against 4816 with one common step for
-// all roots); the time goes to Newton evaluations of a + k·b (one to two
-// per step), to one eigenvalue solve per special value and, from order 12
-// on, to Analyze (about half of a trace: the roots of the degree-(n+m−1)
-// break-point polynomial).
+// engineers, load average 5 to 7) gives 53× to 90× (family orders 2 to 24
+// and the two textbook loops; 53× at order 2, 60× at order 4, where the
+// largest tolerance of the harness's ladder, 0.02, already leaves the
+// trace's chord below the grid's), special points exact to 4.3e-15, no
+// branch swaps, Trace complete at orders 40 and 60 (there the per-branch
+// traces are inconclusive and the pieces are traced again in lockstep:
+// 17682 and 23406 points), and Analyze growing as n^3.3 from order 24 to
+// 40 and n^2.8 from 40 to 60. Each root is followed with its own step, so
+// the points go where a branch moves (1360 points at order 8 against 4816
+// with one common step for all roots); the time goes to Newton evaluations
+// of a + k·b (one to two per step; real roots in real arithmetic), to one
+// eigenvalue solve per special value and, from order 12 on, to Analyze
+// (about 40 % of a trace: the roots of the degree-(n+m−1) break-point
+// polynomial).
 //
 // # Invariants
 //
