@@ -138,8 +138,8 @@
 // largest tolerance of the harness's ladder, 0.02, already leaves the
 // trace's chord below the grid's), special points exact to 4.3e-15, no
 // branch swaps, Trace complete at orders 40 and 60 (there the per-branch
-// traces are inconclusive and the pieces are traced again in lockstep:
-// 17682 and 23406 points), and Analyze growing as n^3.3 from order 24 to
+// traces of 6 and 9 pieces are inconclusive and those pieces are traced
+// again in lockstep: 17682 and 23406 points), and Analyze growing as n^3.3 from order 24 to
 // 40 and n^2.8 from 40 to 60. Each root is followed with its own step, so
 // the points go where a branch moves (1360 points at order 8 against 4816
 // with one common step for all roots); the time goes to Newton evaluations
