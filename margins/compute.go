@@ -235,6 +235,7 @@ func Compute(loop tf.TF, set *Settings) (Result, error) {
 	if err != nil {
 		return Result{}, err
 	}
+	lp.dropNegligibleDelay(gains)
 	var res Result
 	res.OmegaMaxRadPerSec = math.Inf(1)
 	for _, w := range gains {
@@ -319,9 +320,39 @@ func Compute(loop tf.TF, set *Settings) (Result, error) {
 		res.PeakComplementarySensitivity, res.PeakComplementarySensitivityRadPerSec = lp.rationalPeak(true, gains)
 		res.BandwidthRadPerSec = lp.rationalBandwidth()
 	default:
-		lp.delayPeaks(&res, gains)
+		if err := lp.delayPeaks(&res, gains); err != nil {
+			return Result{}, err
+		}
 	}
 	return res, nil
+}
+
+// negligibleDelayTol bounds ω·τ at the loop's highest characteristic
+// frequency for a dead time to be left out: 2⁻⁵⁶, an eighth of the
+// rounding unit of float64.
+const negligibleDelayTol = 0x1p-56
+
+// dropNegligibleDelay sets the dead time of a strictly proper continuous
+// loop to zero when it cannot change any result in float64. With W the
+// largest of the pole and zero moduli and the gain crossovers, |L| < 1 and
+// falls at least like W/ω above W, and |e^(−jωτ) − 1| ≤ ωτ, so the delay
+// perturbs L by at most about |L(jω)|·ωτ ≤ W·τ at every frequency: with
+// W·τ ≤ negligibleDelayTol this is below the rounding of L itself
+// (common practice: a perturbation below the unit roundoff). Every
+// crossover, margin and peak is then that of the rational loop, computed
+// exactly by the rational methods instead of on a frequency grid reaching
+// ω ≈ π/τ (1e300 rad/s for τ = 1e-300 s).
+func (lp *loop) dropNegligibleDelay(gains []float64) {
+	if lp.tau == 0 || lp.an.Degree() >= lp.ad.Degree() {
+		return
+	}
+	_, w := lp.characteristicScale()
+	if len(gains) > 0 {
+		w = math.Max(w, gains[len(gains)-1])
+	}
+	if w > 0 && w*lp.tau <= negligibleDelayTol {
+		lp.tau = 0
+	}
 }
 
 // checkWellPosed rejects loops with 1 + L(∞) = 0 (continuous) or a closed

@@ -29,7 +29,8 @@ var (
 	ErrIllPosed = errors.New("margins: closed loop is ill-posed (1 + L = 0 at infinite frequency)")
 	// ErrUnsupported reports a loop this package does not analyse, with the
 	// reason: a discrete loop whose dead time is not a whole number of
-	// samples.
+	// samples or more than MaxDelaySamples samples, or a loop with dead
+	// time whose sensitivity peaks would need an unbounded frequency grid.
 	ErrUnsupported = errors.New("margins: loop not supported")
 	// ErrBadData reports unusable measured data: lengths that differ, fewer
 	// than two points, frequencies not strictly increasing or not positive,

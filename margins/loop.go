@@ -46,6 +46,13 @@ type loop struct {
 	nr, ni, dr, di poly.Poly
 }
 
+// MaxDelaySamples is the largest dead time of a discrete loop, in sample
+// periods, that Compute and the other analyses accept: each sample is a pole
+// at z = 0, so the dead time raises the degree of the denominator by as
+// much, and every analysis solves polynomials of about that degree (500 is
+// also the largest degree the tf parser builds).
+const MaxDelaySamples = 500
+
 // newLoop validates g and builds its analysed form.
 func newLoop(g tf.TF) (*loop, error) {
 	if g.IsZero() {
@@ -64,6 +71,9 @@ func newLoop(g tf.TF) (*loop, error) {
 		}
 		if lp.ts > 0 {
 			k := math.Round(d / lp.ts)
+			if k > MaxDelaySamples {
+				return nil, fmt.Errorf("%w: discrete loop with dead time %v s = %.3g sample periods of %v s, more than %d (each is a pole at z = 0)", ErrUnsupported, d, d/lp.ts, lp.ts, MaxDelaySamples)
+			}
 			if math.Abs(d/lp.ts-k) > 1e-9*math.Max(1, k) {
 				return nil, fmt.Errorf("%w: discrete loop with dead time %v s, not a whole number of sample periods %v s", ErrUnsupported, d, lp.ts)
 			}
@@ -380,10 +390,13 @@ func (lp *loop) phase(w float64) float64 {
 	v := lp.toAxis(w)
 	ref := lp.sumPhase(v)
 	n, d, _ := lp.parts(w)
-	if d == 0 || n == 0 || cmplx.IsInf(n/d) {
+	// Where num or den overflows (or the ratio underflows) the evaluated
+	// phase means nothing: the sum over the roots is the phase.
+	q := n / d
+	if d == 0 || n == 0 || q == 0 || cmplx.IsInf(q) || cmplx.IsNaN(q) {
 		return ref - w*lp.tau
 	}
-	p := cmplx.Phase(n / d)
+	p := cmplx.Phase(q)
 	p += 2 * math.Pi * math.Round((ref-p)/(2*math.Pi))
 	return p - w*lp.tau
 }

@@ -1,6 +1,7 @@
 package margins
 
 import (
+	"fmt"
 	"math"
 	"math/cmplx"
 
@@ -202,7 +203,12 @@ func (lp *loop) rationalBandwidth() float64 {
 // and 0); every local maximum of the samples is refined by golden-section
 // search (Kiefer 1953), and the bandwidth is bracketed on the grid and
 // refined by Brent's method.
-func (lp *loop) delayPeaks(res *Result, gains []float64) {
+//
+// The work is bounded: |L| at the end of the grid is taken from the poles
+// and zeros as a sum of logarithms (no overflow at any frequency), the end
+// stays finite, and a grid of more than maxPeakGridPoints points is
+// refused with ErrUnsupported before it is built.
+func (lp *loop) delayPeaks(res *Result, gains []float64) error {
 	lo, hi := lp.characteristicScale()
 	for _, g := range gains {
 		hi = math.Max(hi, g)
@@ -214,16 +220,24 @@ func (lp *loop) delayPeaks(res *Result, gains []float64) {
 		lo, hi = 1/lp.tau, 1/lp.tau
 	}
 	wEnd := math.Max(10*hi, 20/lp.tau)
-	for range 60 {
-		if cmplx.Abs(lp.value(wEnd)) <= 1e-3 || cmplx.Abs(lp.limitAtInfinity()) > 1e-3 {
-			break
+	if cmplx.Abs(lp.limitAtInfinity()) <= 1e-3 {
+		for range 60 {
+			if lp.logAbsRational(wEnd) <= math.Log(1e-3) || wEnd > math.MaxFloat64/4 {
+				break
+			}
+			wEnd *= 2
 		}
-		wEnd *= 2
 	}
 	wStart := math.Min(lo, 1/lp.tau) * 1e-3
-	var grid []float64
 	ratio := math.Pow(10, 1.0/60)
 	dmax := math.Pi / (16 * lp.tau)
+	// Points: 60 per decade up to the end, plus the linear part beyond
+	// dmax/(ratio − 1), where the step dmax is the smaller one.
+	count := 60*math.Log10(wEnd/wStart) + 16*lp.tau*wEnd/math.Pi + 2
+	if !(count <= maxPeakGridPoints) {
+		return fmt.Errorf("%w: the sensitivity peaks of a loop with dead time %v s up to %.3g rad/s (where |L| falls to 1e-3) need about %.3g grid points, more than %d; set Settings.SkipPeaks to leave them out", ErrUnsupported, lp.tau, wEnd, count, maxPeakGridPoints)
+	}
+	grid := make([]float64, 0, int(count)+2)
 	grid = append(grid, 0)
 	for w := wStart; w < wEnd; {
 		grid = append(grid, w)
@@ -261,14 +275,35 @@ func (lp *loop) delayPeaks(res *Result, gains []float64) {
 		t0 = 1
 	}
 	if t0 == 0 || math.IsInf(t0, 0) || math.IsNaN(t0) {
-		return
+		return nil
 	}
 	level := t0 / math.Sqrt2
 	h := func(w float64) float64 { _, t := lp.sensitivities(w); return t - level }
 	for i := 1; i < len(grid); i++ {
 		if ts[i] < level {
 			res.BandwidthRadPerSec = brent(h, grid[i-1], grid[i], ts[i-1]-level, ts[i]-level)
-			return
+			return nil
 		}
 	}
+	return nil
+}
+
+// maxPeakGridPoints bounds the frequency grid of delayPeaks (three float64
+// slices of this length, 48 MiB, and as many evaluations of L).
+const maxPeakGridPoints = 2 << 20
+
+// logAbsRational returns ln |L(jω)| of the rational part of a continuous
+// loop from its poles and zeros, ln|k| + Σ ln|jω − zᵢ| − Σ ln|jω − pᵢ|
+// with k the ratio of the leading coefficients: finite where the
+// polynomials themselves overflow. It needs ensureRoots.
+func (lp *loop) logAbsRational(w float64) float64 {
+	v := math.Log(math.Abs(lp.an.Lead())) - math.Log(math.Abs(lp.ad.Lead()))
+	s := complex(0, w)
+	for _, z := range lp.zeros {
+		v += math.Log(cmplx.Abs(s - z))
+	}
+	for _, p := range lp.poles {
+		v -= math.Log(cmplx.Abs(s - p))
+	}
+	return v
 }

@@ -180,3 +180,27 @@ func BenchmarkRootsWilkinson(b *testing.B) {
 		b.ReportMetric(maxRelError(z, want), "max-rel-err")
 	})
 }
+
+// BenchmarkRootsHighDegree times the roots of (x+1)ⁿ, the denominator of
+// the report's 1/(s+1)^n loops (one cluster of n roots: the worst case of
+// the cluster search), and of a degree-n polynomial with n distinct roots
+// spread over six decades, at n = 100 … 500.
+func BenchmarkRootsHighDegree(b *testing.B) {
+	for _, n := range []int{100, 250, 500} {
+		ones := make([]complex128, n)
+		for i := range ones {
+			ones[i] = -1
+		}
+		cluster, err := FromRoots(ones)
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.Run(fmt.Sprintf("cluster/n=%d", n), func(b *testing.B) {
+			for b.Loop() {
+				if _, err := cluster.Roots(); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}

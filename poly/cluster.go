@@ -220,8 +220,14 @@ func splitComponent(tc *taylor, z []complex128, idx []int, tol float64) []candid
 		// For every member, the others by increasing distance: the group
 		// of its m nearest is a prefix.
 		orders := make([][]int, len(remaining))
+		dists := make([][]float64, len(remaining))
+		sums := make([][]complex128, len(remaining)) // sums[k][m]: Σ z over orders[k][:m]
 		for k, seed := range remaining {
-			orders[k] = byDistance(z, remaining, seed)
+			orders[k], dists[k] = byDistance(z, remaining, seed)
+			sums[k] = make([]complex128, len(remaining)+1)
+			for j, i := range orders[k] {
+				sums[k][j+1] = sums[k][j] + z[i]
+			}
 		}
 		found := false
 		for m := len(remaining); m >= 2 && !found; m-- {
@@ -230,6 +236,19 @@ func splitComponent(tc *taylor, z []complex128, idx []int, tol float64) []candid
 			bestEta := math.Inf(1)
 			seen := map[string]bool{}
 			for k := range remaining {
+				// A necessary condition first, in O(1): with c the mean
+				// and δ = |seed − c|, the seed and its m-th nearest
+				// point (at dₘ from it) lie within rad of c, so
+				// rad ≥ max(dₘ/2, δ); the nearest point left out, at D
+				// from the seed, lies within D + δ of c and must lie
+				// beyond F·rad (F the isolation factor), so
+				// D + δ > F·max(dₘ/2, δ) is required.
+				if m < len(remaining) {
+					delta := abs(z[remaining[k]] - sums[k][m]/complex(float64(m), 0))
+					if !(dists[k][m]+delta > clusterIsolationFactor*math.Max(dists[k][m-1]/2, delta)) {
+						continue
+					}
+				}
 				set := orders[k][:m]
 				for _, i := range set {
 					member[i] = true
@@ -275,8 +294,8 @@ func splitComponent(tc *taylor, z []complex128, idx []int, tol float64) []candid
 }
 
 // byDistance returns pool sorted by increasing distance from z[seed]
-// (seed first, ties by index).
-func byDistance(z []complex128, pool []int, seed int) []int {
+// (seed first, ties by index), and the distances.
+func byDistance(z []complex128, pool []int, seed int) ([]int, []float64) {
 	type item struct {
 		i int
 		d float64
@@ -299,10 +318,12 @@ func byDistance(z []complex128, pool []int, seed int) []int {
 		return a.i - b.i
 	})
 	out := make([]int, len(pool))
+	dist := make([]float64, len(pool))
 	for k, it := range items {
 		out[k] = it.i
+		dist[k] = math.Sqrt(math.Max(it.d, 0))
 	}
-	return out
+	return out, dist
 }
 
 func setKey(set []int) string {

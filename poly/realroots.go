@@ -491,7 +491,8 @@ func positiveLowerBound(c []float64) float64 {
 // positive, each coefficient cᵢ < 0 is paired with the higher coefficients
 // cⱼ > 0, the j-th used for the t-th time at the weight 2^(−t), giving
 // (2^t·|cᵢ|/cⱼ)^(1/(j−i)); the bound is the largest over i of the smallest
-// over j. It is 0 when there is no sign change.
+// over j. It is 0 when there is no sign change and NaN when a coefficient
+// is NaN or infinite.
 //
 // lmqBound applies it to c, or to c reversed when rev is set.
 func lmqBound(c []float64, rev bool) float64 {
@@ -536,6 +537,9 @@ func lmqBound(c []float64, rev bool) float64 {
 			if t := (times[j] + lgi - lg[j] + 0.02) * reciprocal(j-i); t < best {
 				best, bj = t, j
 			}
+		}
+		if bj < 0 {
+			return math.NaN() // a NaN coefficient: no bound
 		}
 		times[bj]++
 		ub, any = math.Max(ub, best), true
@@ -639,6 +643,9 @@ func isolatePositive(p0 Poly, q, e []float64, m mobius, tol float64, limit int) 
 	for len(stack) > 0 && (limit == 0 || len(roots) < limit) {
 		nd := stack[len(stack)-1]
 		stack = stack[:len(stack)-1]
+		if !finite(nd.c) {
+			return nil, false // the transformed polynomial overflowed
+		}
 		vmin, vmax, known := signVariations(nd.c, nd.e)
 		if vmax == 0 {
 			continue
@@ -778,4 +785,14 @@ func rootIn(p Poly, nd isolationNode, tol float64) (float64, bool) {
 		}
 	}
 	return 0.5 * (lo + hi), true
+}
+
+// finite reports whether every element of c is finite.
+func finite(c []float64) bool {
+	for _, x := range c {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return false
+		}
+	}
+	return true
 }
