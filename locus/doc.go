@@ -74,8 +74,12 @@
 // array (Routh 1877; Hurwitz 1895) up to degree 40; above it, or when a
 // pivot is near zero, by the closed-loop roots, whose verdict is accepted
 // only when the Weierstrass inclusion disc of every root (Braess & Hadeler
-// 1973) stays off the stability boundary — otherwise the analysis returns
-// ErrIllConditioned instead of a verdict (1/(s+1)^500, say). Against
+// 1973), widened to cover the rounding of the coefficients of a + k·b as
+// they are formed, stays off the stability boundary — otherwise the
+// analysis returns ErrIllConditioned instead of a verdict (1/(s+1)^n for
+// n = 100 to 500: the n-fold pole makes the closed-loop roots at a gain
+// near 0.5 sensitive enough that the rounding of the binomial coefficients
+// alone moves them across the axis). Against
 // 50-digit references (the reference cases, testdata/golden.py and
 // testdata/breaks_highorder.py) crossing values agree to 4e-16, break points
 // and their values to 4u (orders 12 to 24; the expanded roots alone were
