@@ -77,9 +77,9 @@
 // 1973), widened to cover the rounding of the coefficients of a + k·b as
 // they are formed, stays off the stability boundary — otherwise the
 // analysis returns ErrIllConditioned instead of a verdict (1/(s+1)^n for
-// n = 100 to 500: the n-fold pole makes the closed-loop roots at a gain
-// near 0.5 sensitive enough that the rounding of the binomial coefficients
-// alone moves them across the axis). Against
+// n = 100 to 500: near the n-fold pole the closed-loop roots are so
+// sensitive that a change of one rounding unit in the coefficients can
+// move them across the axis). Against
 // 50-digit references (the reference cases, testdata/golden.py and
 // testdata/breaks_highorder.py) crossing values agree to 4e-16, break points
 // and their values to 4u (orders 12 to 24; the expanded roots alone were
