@@ -10,6 +10,7 @@ import (
 	"github.com/loopwise/loopwise/chart"
 	"github.com/loopwise/loopwise/robust"
 	"github.com/loopwise/loopwise/spec"
+	"github.com/loopwise/loopwise/tf"
 )
 
 // UncertainParameter is one entry of the loop file's "uncertain" key: a
@@ -196,6 +197,15 @@ type RobustProbability struct {
 
 func (lf *Loop) robustDescription() (robust.Description, error) {
 	d := robust.Description{SampleTimeSec: lf.SampleTimeSec}
+	if dz := lf.Discretize; dz != nil {
+		// Only the Tustin map keeps the coefficients polynomial in the
+		// parameters; robust.NewLoop says why the others are refused.
+		method, err := tf.ParseDiscretizeMethod(dz.Method)
+		if err != nil {
+			return d, err
+		}
+		d.Discretize = &robust.Discretization{SampleTimeSec: dz.SampleTimeSec, Method: method, PrewarpRadPerSec: dz.PrewarpRadPerSec}
+	}
 	d.Expressions = []string{strconv.FormatFloat(lf.Gain, 'g', -1, 64)}
 	for _, e := range []string{lf.Controller, lf.Plant, lf.Sensor} {
 		if strings.TrimSpace(e) != "" {
@@ -232,16 +242,6 @@ func namedValues(l *robust.Loop, v []float64) map[string]Number {
 func (a *analysis) robustStage() {
 	lf := a.m.file
 	if len(lf.Uncertain) == 0 {
-		return
-	}
-	if lf.Discretize != nil {
-		// The discretization of a parameter-dependent plant (zero-order
-		// hold: matrix exponentials of A(p)·T) is not polynomial in the
-		// parameters, so the coefficient recovery of robust.NewLoop (exact
-		// interpolation, verified) fails or would be a silent approximation;
-		// interval bounds of the sampled response over a subdivided box
-		// are not implemented. No guess: the section is left out.
-		a.warn("robust: a loop converted by \"discretize\" is not analysed over its uncertain parameters: its discrete coefficients are not polynomial in the parameters (they come from exponentials of the sampled plant), which the guaranteed methods require; write the loop in z with \"sample_time_sec\" (coefficients polynomial in the parameters) or analyse it continuous; the robust keys are null")
 		return
 	}
 	d, err := lf.robustDescription()

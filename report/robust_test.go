@@ -89,3 +89,35 @@ func TestRobustKeysRejected(t *testing.T) {
 		t.Fatalf("robust %+v, warnings %v", rep.Robust, rep.Warnings)
 	}
 }
+
+// "discretize" with uncertain parameters: the Tustin map keeps the
+// coefficients polynomial in the parameters, so the box is proven in z
+// (the same verdict as in s: the map sends the left half plane onto the
+// unit disc); a hold is refused with the reason and the robust keys are null.
+func TestRobustDiscretize(t *testing.T) {
+	const loop = `{"plant": "9*g/(s^2 (m s + 1))", "controller": "(0.4 + 0.3 s)/(1 + 0.01 s)",
+  "uncertain": {"g": {"range": [0.8, 1.2]}, "m": {"range": [0.05, 0.08]}}, "samples": 50,
+  "discretize": {"method": "%s", "sample_time_sec": 0.005}}`
+	lf, err := ReadLoop("tustin.json", []byte(strings.Replace(loop, "%s", "tustin", 1)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep, err := Analyze(lf, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r := rep.Robust; r == nil || r.Verdict != "stable for the whole box" || !strings.Contains(r.Method, "bilinear map") {
+		t.Fatalf("robust %+v, warnings %v", rep.Robust, rep.Warnings)
+	}
+	lf, err = ReadLoop("zoh.json", []byte(strings.Replace(loop, "%s", "zoh", 1)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep, err = Analyze(lf, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w := strings.Join(rep.Warnings, " "); rep.Robust != nil || !strings.Contains(w, "not polynomials in the parameters") || !strings.Contains(w, "Tustin") {
+		t.Fatalf("robust %+v, warnings %v", rep.Robust, rep.Warnings)
+	}
+}

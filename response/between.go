@@ -50,31 +50,42 @@ const (
 	latticeCheckTol = 1e-13
 )
 
+// checkpointEvery is the spacing, in samples, of the states the evaluator
+// keeps. locate recomputes the state at the start of its interval from the
+// checkpoint at or before it with the recursion's own steps — the same
+// operations as when it was first computed, so the same numbers bit for
+// bit — at a cost of at most checkpointEvery−1 steps of n² per located
+// time, while the evaluator holds n/checkpointEvery floats per sample
+// instead of n.
+const checkpointEvery = 16
+
 // evaluator gives the exact continuous step response from rest between
-// stored samples.
+// stored samples. Its growing buffers live in the workspace it embeds.
 type evaluator struct {
+	*stepWork
 	s      *system
 	h      float64
 	n      int
 	phi, g []float64 // the step's Φ(h) (flat) and Γ(h)
-	states []float64 // (N+1)·n, row k = x(k·h)
-	ys, ds []float64 // y and y′ at the samples
+	// In the workspace: checkpoints, row c = x(c·checkpointEvery·h); x,
+	// the state at the last sample; ys, ds, y and y′ at the samples; lphi,
+	// lgam, the lattice pieces, index j−1 for Φ_j, Γ_j (flat n×n, n).
+	//
 	// rows[j]·x + cons[j] = y^(j) for j = 0…3: rows[j] = C·A^j, cons[0] =
 	// D, cons[j] = C·A^(j−1)·B.
 	rows [4][]float64
 	cons [4]float64
-	// lattice pieces, index j−1 for Φ_j, Γ_j (flat n×n, n).
-	lphi, lgam [][]float64
 }
 
-// newEvaluator prepares the recursion with step h and the lattice pieces.
-func (s *system) newEvaluator(h float64) (*evaluator, error) {
+// newEvaluator prepares the recursion with step h and the lattice pieces,
+// with its buffers in w (whose earlier contents are dropped).
+func (s *system) newEvaluator(h float64, w *stepWork) (*evaluator, error) {
 	n, m := s.n, s.m
 	phiD, g, err := m.ZeroOrderHold(h)
 	if err != nil {
 		return nil, err
 	}
-	ev := &evaluator{s: s, h: h, n: n, phi: flat(phiD), g: g}
+	ev := &evaluator{stepWork: w, s: s, h: h, n: n, phi: flat(phiD), g: g}
 	a := flat(m.A)
 	ev.rows[0] = append([]float64(nil), m.C...)
 	ev.cons[0] = m.D
@@ -100,9 +111,14 @@ func (s *system) newEvaluator(h float64) (*evaluator, error) {
 	if err := ev.buildLattice(L); err != nil {
 		return nil, err
 	}
-	ev.states = make([]float64, n)
-	ev.ys = []float64{m.D}
-	ev.ds = []float64{ev.cons[1]}
+	ev.x = zeroed(ev.x, n)
+	ev.nx = zeroed(ev.nx, n)
+	ev.xa = zeroed(ev.xa, n)
+	ev.xb = zeroed(ev.xb, n)
+	ev.xm = zeroed(ev.xm, n)
+	ev.checkpoints = append(ev.checkpoints[:0], ev.x...)
+	ev.ys = append(ev.ys[:0], m.D)
+	ev.ds = append(ev.ds[:0], ev.cons[1])
 	return ev, nil
 }
 
@@ -111,17 +127,31 @@ func (s *system) newEvaluator(h float64) (*evaluator, error) {
 // recursion's.
 func (ev *evaluator) buildLattice(L int) error {
 	n := ev.n
-	ev.lphi = make([][]float64, L)
-	ev.lgam = make([][]float64, L)
+	ev.lphi = slices.Grow(ev.lphi[:0], L)[:L]
+	ev.lgam = slices.Grow(ev.lgam[:0], L)[:L]
+	// Level j at (j−1)·(n²+n): Φ_j, then Γ_j; one more level for the
+	// squared-up Φ_0, Γ_0.
+	size := n*n + n
+	ev.lattice = zeroed(ev.lattice, (L+1)*size)
+	level := func(j int) (p, g []float64) {
+		off := (j - 1) * size
+		if j == 0 {
+			off = L * size
+		}
+		return ev.lattice[off : off+n*n], ev.lattice[off+n*n : off+size]
+	}
 	p, g, err := ev.s.m.ZeroOrderHold(math.Ldexp(ev.h, -L))
 	if err != nil {
 		return err
 	}
-	cur, cg := flat(p), g
+	cur, cg := level(L)
+	for i := 0; i < n; i++ {
+		copy(cur[i*n:i*n+n], p.RawRowView(i))
+	}
+	copy(cg, g)
 	ev.lphi[L-1], ev.lgam[L-1] = cur, cg
 	for j := L - 1; j >= 0; j-- {
-		np := make([]float64, n*n)
-		ng := make([]float64, n)
+		np, ng := level(j)
 		for i := 0; i < n; i++ {
 			row := cur[i*n : i*n+n]
 			s := cg[i]
@@ -172,15 +202,32 @@ func (ev *evaluator) extend(N int) {
 	if N <= K {
 		return
 	}
-	ev.states = slices.Grow(ev.states, (N-K)*n)[:(N+1)*n]
 	ev.ys = slices.Grow(ev.ys, N-K)
 	ev.ds = slices.Grow(ev.ds, N-K)
+	ev.checkpoints = slices.Grow(ev.checkpoints, ((N-K)/checkpointEvery+1)*n)
 	for k := K; k < N; k++ {
-		x, nx := ev.states[k*n:k*n+n], ev.states[(k+1)*n:(k+2)*n]
-		y := advance(ev.phi, x, nx, ev.g, 1, nil, 0, ev.rows[0])
+		y := advance(ev.phi, ev.x, ev.nx, ev.g, 1, nil, 0, ev.rows[0])
+		ev.x, ev.nx = ev.nx, ev.x
 		ev.ys = append(ev.ys, y+ev.cons[0])
-		ev.ds = append(ev.ds, dot(ev.rows[1], nx)+ev.cons[1])
+		ev.ds = append(ev.ds, dot(ev.rows[1], ev.x)+ev.cons[1])
+		if (k+1)%checkpointEvery == 0 {
+			ev.checkpoints = append(ev.checkpoints, ev.x...)
+		}
 	}
+}
+
+// stateAt returns x(k·h) in one of the buffers a and b (length n; the
+// other is overwritten, and returned as spare), recomputed from the
+// checkpoint at or before k (see checkpointEvery).
+func (ev *evaluator) stateAt(k int, a, b []float64) (x, spare []float64) {
+	n := ev.n
+	c := k / checkpointEvery
+	copy(a, ev.checkpoints[c*n:c*n+n])
+	for j := c * checkpointEvery; j < k; j++ {
+		advance(ev.phi, a, b, ev.g, 1, nil, 0, ev.rows[0])
+		a, b = b, a
+	}
+	return a, b
 }
 
 // derivs returns y, y′, y″, y‴ at state x.
@@ -195,7 +242,7 @@ func (ev *evaluator) derivs(x []float64) (d [4]float64) {
 // equals target, and y(t). [ta, tb] lies in one sample interval and the
 // function changes sign over it (or is zero at an end).
 func (ev *evaluator) locate(ta, tb float64, order int, target float64) (t, y float64) {
-	n, h := ev.n, ev.h
+	h := ev.h
 	N := len(ev.ys) - 1
 	k := int(math.Floor(ta / h))
 	if float64(k+1)*h <= ta {
@@ -206,11 +253,11 @@ func (ev *evaluator) locate(ta, tb float64, order int, target float64) (t, y flo
 	}
 	k = min(max(k, 0), N-1)
 	lo := float64(k) * h
-	xa := append([]float64(nil), ev.states[k*n:k*n+n]...)
-	xb := append([]float64(nil), ev.states[(k+1)*n:(k+2)*n]...)
+	xa, xb := ev.stateAt(k, ev.xa, ev.xb)
+	advance(ev.phi, xa, xb, ev.g, 1, nil, 0, ev.rows[0])
+	xm := ev.xm
 	f := func(x []float64) float64 { return dot(ev.rows[order], x) + ev.cons[order] - target }
 	fa := f(xa)
-	xm := make([]float64, n)
 	for j := 1; j <= len(ev.lphi); j++ {
 		width := math.Ldexp(h, -j)
 		mid := lo + width

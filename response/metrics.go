@@ -166,12 +166,14 @@ func StepMetrics(sys tf.TF, set *MetricSettings) (Metrics, error) {
 	if final == 0 {
 		return Metrics{}, fmt.Errorf("%w: the static gain of %v is 0; levels relative to it are undefined", ErrZeroFinalValue, sys)
 	}
+	w := getStepWork()
+	defer w.release()
 	var pts []point
 	var ev *evaluator
 	if s.discrete {
-		pts, err = s.discretePoints(final, band)
+		pts, err = s.discretePointsIn(final, band, w)
 	} else {
-		ev, pts, err = s.continuousPoints(final, band)
+		ev, pts, err = s.continuousPoints(final, band, w)
 	}
 	if err != nil {
 		return Metrics{}, err
@@ -268,6 +270,11 @@ type point struct {
 // come within band/100 (at least 1/64 more), up to maxSamples samples. Earlier samples are never
 // recomputed.
 func (s *system) discretePoints(final, band float64) ([]point, error) {
+	return s.discretePointsIn(final, band, new(stepWork))
+}
+
+// discretePointsIn is discretePoints with its buffers in w.
+func (s *system) discretePointsIn(final, band float64, w *stepWork) ([]point, error) {
 	N := int(math.Round(s.autoHorizon() / s.ts))
 	N = max(N, 2*s.n+4)
 	// σ: the slowest decay per sample, −ln|z| of the largest pole modulus.
@@ -278,8 +285,8 @@ func (s *system) discretePoints(final, band float64) ([]point, error) {
 		}
 	}
 	q := s.newSequence()
-	var u, y []float64
-	var pts []point
+	u, y, pts := w.u[:0], w.y[:0], w.pts[:0]
+	defer func() { w.u, w.y, w.pts = u, y, pts }()
 	last := -1
 	for {
 		k0 := len(pts)
@@ -320,8 +327,8 @@ func (s *system) discretePoints(final, band float64) ([]point, error) {
 // the slowest decay rate says is missing (at least a quarter more each
 // time), up to 4^(maxHorizonGrowth−1) times the automatic horizon; past
 // maxExtendedSamples samples the grid is rebuilt with the automatic step of
-// the longer horizon.
-func (s *system) continuousPoints(final, band float64) (*evaluator, []point, error) {
+// the longer horizon. The buffers are those of w.
+func (s *system) continuousPoints(final, band float64, w *stepWork) (*evaluator, []point, error) {
 	if s.n == 0 {
 		// Static gain: y = D from t = 0 on.
 		return nil, []point{{0, s.m.D / final}, {1, s.m.D / final}}, nil
@@ -340,12 +347,12 @@ func (s *system) continuousPoints(final, band float64) (*evaluator, []point, err
 	H = math.Min(H, maxH)
 	for {
 		h := s.autoStep(H)
-		ev, err := s.newEvaluator(h)
+		ev, err := s.newEvaluator(h, w)
 		if err != nil {
 			return nil, nil, err
 		}
 		N := int(math.Ceil(H/h - 1e-9))
-		pts := []point{{0, ev.ys[0] / final}}
+		pts := append(w.pts[:0], point{0, ev.ys[0] / final})
 		for {
 			done := len(ev.ys) - 1
 			ev.extend(N)
@@ -364,6 +371,7 @@ func (s *system) continuousPoints(final, band float64) (*evaluator, []point, err
 				}
 			}
 			dev := math.Abs(pts[len(pts)-1].r - 1)
+			w.pts = pts
 			if (last < 0 || pts[last].t < end/2) && dev < band/100 {
 				return ev, pts, nil
 			}

@@ -77,7 +77,7 @@ func NyquistBandOf(l *Loop, set *BandSettings) (NyquistBand, error) {
 	if s.Cells == 0 {
 		s.Cells = 300
 	}
-	T := l.desc.SampleTimeSec
+	T := l.ts
 	if s.MinRadPerSec == 0 || s.MaxRadPerSec == 0 {
 		wc := 1.0
 		if w, err := l.nominalCrossover(); err == nil && w > 0 {

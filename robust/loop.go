@@ -7,6 +7,7 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"github.com/loopwise/loopwise/poly"
 	"github.com/loopwise/loopwise/tf"
 )
 
@@ -75,6 +76,28 @@ type Description struct {
 	// SampleTimeSec is 0 for a continuous loop in s, or the sample period
 	// of a discrete loop in z.
 	SampleTimeSec float64
+	// Discretize, if not nil, converts the loop, written in s
+	// (SampleTimeSec 0), to z as a whole; see Discretization.
+	Discretize *Discretization
+}
+
+// Discretization is the conversion of a loop written in s to z. Only the
+// Tustin (bilinear) method is supported: it substitutes
+// s = c·(z − 1)/(z + 1) and multiplies by (z + 1)ⁿ, a fixed linear map of
+// the coefficients, so the discrete coefficients stay polynomial in the
+// parameters — of the same class (interval families become affine) — and
+// the guaranteed methods apply to them exactly. The holds and the matched
+// pole-zero map form e^(p·T) of parameter-dependent poles, which is not
+// polynomial in the parameters; NewLoop refuses them (ErrUnsupported)
+// rather than prove something about an approximation.
+type Discretization struct {
+	// SampleTimeSec is the sample period, > 0.
+	SampleTimeSec float64
+	// Method must be tf.Tustin.
+	Method tf.DiscretizeMethod
+	// PrewarpRadPerSec is the Tustin pre-warping frequency (see
+	// tf.DiscretizeSettings); 0 for none (c = 2/T).
+	PrewarpRadPerSec float64
 }
 
 // MaxDegreePerParam is the largest degree in any one parameter that the
@@ -141,6 +164,12 @@ type Loop struct {
 	tau    mpoly
 	nomial tf.TF
 	class  Class
+	// ts is the sample period of the analysed loop: SampleTimeSec, or that
+	// of Discretize; 0 when continuous.
+	ts float64
+	// inS is set while the coefficients of a loop to be discretized are
+	// recovered: At then returns the loop in s.
+	inS bool
 }
 
 // VerifyPoints is the number of points, besides the interpolation grid, at
@@ -157,7 +186,14 @@ func NewLoop(d Description) (*Loop, error) {
 	if math.IsNaN(d.SampleTimeSec) || math.IsInf(d.SampleTimeSec, 0) || d.SampleTimeSec < 0 {
 		return nil, fmt.Errorf("%w: sample time %v s must be finite and ≥ 0", ErrSettings, d.SampleTimeSec)
 	}
-	l := &Loop{desc: Description{Expressions: append([]string(nil), d.Expressions...), Params: append([]Param(nil), d.Params...), SampleTimeSec: d.SampleTimeSec}}
+	l := &Loop{desc: Description{Expressions: append([]string(nil), d.Expressions...), Params: append([]Param(nil), d.Params...), SampleTimeSec: d.SampleTimeSec}, ts: d.SampleTimeSec}
+	if dz := d.Discretize; dz != nil {
+		if err := dz.check(d.SampleTimeSec); err != nil {
+			return nil, err
+		}
+		c := *dz
+		l.desc.Discretize, l.ts = &c, c.SampleTimeSec
+	}
 	seen := map[string]bool{}
 	for _, p := range d.Params {
 		switch {
@@ -183,10 +219,76 @@ func NewLoop(d Description) (*Loop, error) {
 		return nil, err
 	}
 	l.nomial = nom
-	if err := l.recover(); err != nil {
+	l.inS = l.desc.Discretize != nil
+	err = l.recover()
+	l.inS = false
+	if err != nil {
+		return nil, err
+	}
+	if l.desc.Discretize != nil {
+		if !l.tau.isZero() {
+			return nil, fmt.Errorf("%w: dead time in a loop converted by Discretize; write the delay as a power of z in a loop in z", ErrUnsupported)
+		}
+		l.num, l.den = l.desc.Discretize.mapped(l.num, l.den, len(l.mid))
+	}
+	if err := l.classify(); err != nil {
 		return nil, err
 	}
 	return l, nil
+}
+
+func (dz *Discretization) check(sampleTime float64) error {
+	T := dz.SampleTimeSec
+	switch {
+	case sampleTime != 0:
+		return fmt.Errorf("%w: Discretize converts a loop written in s; SampleTimeSec must be 0, not %v s", ErrSettings, sampleTime)
+	case math.IsNaN(T) || math.IsInf(T, 0) || T <= 0:
+		return fmt.Errorf("%w: Discretize.SampleTimeSec %v s must be finite and > 0", ErrSettings, T)
+	case dz.Method != tf.Tustin:
+		return fmt.Errorf("%w: Discretize method %v: its discrete coefficients are exponentials e^(p·T) of parameter-dependent poles, not polynomials in the parameters, which the guaranteed methods need; use the Tustin method, or write the loop in z", ErrUnsupported, dz.Method)
+	case dz.PrewarpRadPerSec < 0 || math.IsNaN(dz.PrewarpRadPerSec) || dz.PrewarpRadPerSec*T >= math.Pi:
+		return fmt.Errorf("%w: Discretize.PrewarpRadPerSec %v rad/s must be in [0, π/T)", ErrSettings, dz.PrewarpRadPerSec)
+	}
+	return nil
+}
+
+// mapped applies the Tustin substitution to the coefficient polynomials
+// (ascending powers of s) of numerator and denominator with one order
+// n = max degree: Σ a_k s^k ↦ Σ a_k c^k (z − 1)^k (z + 1)^(n−k), the map of
+// tf.Discretize up to its normalisation by a constant.
+func (dz *Discretization) mapped(num, den []mpoly, nparams int) (dnum, dden []mpoly) {
+	T := dz.SampleTimeSec
+	c := 2 / T
+	if w0 := dz.PrewarpRadPerSec; w0 != 0 {
+		c = w0 / math.Tan(w0*T/2)
+	}
+	n := max(degree(num), degree(den), 0)
+	// basis[k] = c^k (z − 1)^k (z + 1)^(n−k), ascending in z.
+	basis := make([]poly.Poly, n+1)
+	for k := range basis {
+		b := poly.Constant(math.Pow(c, float64(k)))
+		for range k {
+			b = b.Mul(poly.MustNew(1, -1))
+		}
+		for range n - k {
+			b = b.Mul(poly.MustNew(1, 1))
+		}
+		basis[k] = b
+	}
+	m := func(ps []mpoly) []mpoly {
+		out := make([]mpoly, n+1)
+		for j := range out {
+			w := make([]float64, len(ps))
+			for k := range ps {
+				if k <= n {
+					w[k] = basis[k].Coef(j)
+				}
+			}
+			out[j] = combine(ps, w, nparams)
+		}
+		return out
+	}
+	return m(num), m(den)
 }
 
 // Description returns the loop's description.
@@ -194,6 +296,10 @@ func (l *Loop) Description() Description {
 	d := l.desc
 	d.Expressions = append([]string(nil), d.Expressions...)
 	d.Params = append([]Param(nil), d.Params...)
+	if d.Discretize != nil {
+		c := *d.Discretize
+		d.Discretize = &c
+	}
 	return d
 }
 
@@ -208,13 +314,34 @@ func (l *Loop) Nominal() tf.TF { return l.nomial }
 func (l *Loop) Class() Class { return l.class }
 
 // At returns the loop transfer function at the given parameter values (in
-// the order of Params), read by tf.ParseWith. Values outside the ranges are
-// allowed.
+// the order of Params), read by tf.ParseWith and, with
+// Description.Discretize, converted to z by tf.Discretize. Values outside
+// the ranges are allowed.
 func (l *Loop) At(values []float64) (tf.TF, error) {
 	if len(values) != len(l.desc.Params) {
 		return tf.TF{}, fmt.Errorf("%w: %d values for %d parameters", ErrParam, len(values), len(l.desc.Params))
 	}
 	set := &tf.ParseSettings{SampleTimeSec: l.desc.SampleTimeSec, Params: map[string]float64{}}
+	if dz := l.desc.Discretize; dz != nil && !l.inS {
+		g, err := l.atS(values, set)
+		if err != nil {
+			return tf.TF{}, err
+		}
+		var dset *tf.DiscretizeSettings
+		if dz.PrewarpRadPerSec > 0 {
+			dset = &tf.DiscretizeSettings{PrewarpRadPerSec: dz.PrewarpRadPerSec}
+		}
+		out, err := g.Discretize(dz.SampleTimeSec, dz.Method, dset)
+		if err != nil {
+			return tf.TF{}, fmt.Errorf("%w: discretizing the loop: %w", ErrExpression, err)
+		}
+		return out, nil
+	}
+	return l.atS(values, set)
+}
+
+// atS multiplies the expressions read with set.
+func (l *Loop) atS(values []float64, set *tf.ParseSettings) (tf.TF, error) {
 	for i, p := range l.desc.Params {
 		set.Params[p.Name] = values[i]
 	}
@@ -467,12 +594,12 @@ func (l *Loop) recover() error {
 			}
 		}
 	}
-	return l.classify()
+	return nil
 }
 
 func (l *Loop) classify() error {
 	if !l.tau.isZero() {
-		if l.desc.SampleTimeSec > 0 {
+		if l.ts > 0 {
 			return fmt.Errorf("%w: a discrete loop with dead time; write the delay as a power of z", ErrUnsupported)
 		}
 		l.class = WithDelay

@@ -109,7 +109,7 @@ func (s *Settings) withDefaults() (Settings, error) {
 func (l *Loop) family() *family {
 	f := &family{n: len(l.mid), den: l.den, num: l.num, tau: l.tau,
 		gain: point(1), ray: math.Pi / 2}
-	if l.desc.SampleTimeSec == 0 {
+	if l.ts == 0 {
 		return f
 	}
 	n := max(degree(l.den), degree(l.num))
@@ -155,7 +155,7 @@ func (l *Loop) pointStability(t []float64) (stable bool, unstable []complex128, 
 		}
 		return false, unstable, nil
 	}
-	stable, unstable = rootsOutside(g.CharacteristicPolynomial(), l.desc.SampleTimeSec)
+	stable, unstable = rootsOutside(g.CharacteristicPolynomial(), l.ts)
 	return stable, unstable, nil
 }
 
@@ -285,7 +285,7 @@ func Stability(l *Loop, set *Settings) (StabilityResult, error) {
 		res.UnprovenBoxes = []Box{l.boxOf(badCell)}
 		return res, nil
 	}
-	if l.class == Interval && l.desc.SampleTimeSec == 0 {
+	if l.class == Interval && l.ts == 0 {
 		return l.kharitonov(res)
 	}
 	probe := func(t []float64) bool {
@@ -298,7 +298,7 @@ func Stability(l *Loop, set *Settings) (StabilityResult, error) {
 	r := f.frequencyBound(low)
 	if (l.class == Affine || l.class == Interval) && f.n <= 8 {
 		res.Method = "edge theorem (Bartlett, Hollot & Lin 1988); each edge by zero exclusion with interval arithmetic"
-		if l.desc.SampleTimeSec > 0 {
+		if l.ts > 0 {
 			res.Method += " after the exact bilinear map of the unit circle to the axis"
 		}
 		var unproven [][]interval
@@ -332,7 +332,7 @@ func Stability(l *Loop, set *Settings) (StabilityResult, error) {
 		return l.finish(res, unproven), nil
 	}
 	res.Method = "zero exclusion on a subdivided box with interval arithmetic (mapping-theorem approach, Zadeh & Desoer 1963)"
-	if l.desc.SampleTimeSec > 0 {
+	if l.ts > 0 {
 		res.Method += " after the exact bilinear map of the unit circle to the axis"
 	}
 	st, cells, un := f.zeroExclusion(r, s.MaxCells, nil, probe)

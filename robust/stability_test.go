@@ -71,7 +71,7 @@ func checkVerdict(t *testing.T, l *Loop, want Verdict, set *Settings) StabilityR
 			roots, _ := g.CharacteristicPolynomial().Roots()
 			bad := 0
 			for _, z := range roots {
-				if (l.desc.SampleTimeSec == 0 && real(z) >= 0) || (l.desc.SampleTimeSec > 0 && math.Hypot(real(z), imag(z)) >= 1) {
+				if (l.ts == 0 && real(z) >= 0) || (l.ts > 0 && math.Hypot(real(z), imag(z)) >= 1) {
 					bad++
 				}
 			}

@@ -124,7 +124,7 @@ func (l *Loop) pointValues(t []float64) ([5]float64, error) {
 	}
 	q[DampingRatio] = math.Inf(1)
 	for _, z := range roots {
-		q[DampingRatio] = math.Min(q[DampingRatio], spec.DampingRatio(z, l.desc.SampleTimeSec))
+		q[DampingRatio] = math.Min(q[DampingRatio], spec.DampingRatio(z, l.ts))
 	}
 	return q, nil
 }
@@ -255,7 +255,7 @@ func (l *Loop) prove(q Quantity, x float64, cells int) bool {
 	case GainMargin:
 		f.gain = interval{1, math.Pow(10, x/20)}
 	case DelayMargin:
-		if l.desc.SampleTimeSec > 0 || degree(f.num) >= degree(f.den) {
+		if l.ts > 0 || degree(f.num) >= degree(f.den) {
 			return false
 		}
 		f.delay = interval{0, x}
@@ -266,7 +266,7 @@ func (l *Loop) prove(q Quantity, x float64, cells int) bool {
 		f.disk = interval{0, 1 / x}
 		f.theta = interval{-math.Pi, math.Pi}
 	case DampingRatio:
-		if l.desc.SampleTimeSec > 0 || !l.tau.isZero() || x <= -1 || x >= 1 {
+		if l.ts > 0 || !l.tau.isZero() || x <= -1 || x >= 1 {
 			return false
 		}
 		f.ray = math.Pi/2 + math.Asin(x)
@@ -281,9 +281,9 @@ func (l *Loop) prove(q Quantity, x float64, cells int) bool {
 
 func (l *Loop) bound(q Quantity, worst float64, s WorstSettings) (float64, string) {
 	switch {
-	case q == DelayMargin && (l.desc.SampleTimeSec > 0 || degree(l.num) >= degree(l.den)):
+	case q == DelayMargin && (l.ts > 0 || degree(l.num) >= degree(l.den)):
 		return math.NaN(), "no bound: the delay margin bound needs a strictly proper continuous loop"
-	case q == DampingRatio && (l.desc.SampleTimeSec > 0 || !l.tau.isZero()):
+	case q == DampingRatio && (l.ts > 0 || !l.tau.isZero()):
 		return math.NaN(), "no bound: the damping bound needs a continuous loop without dead time"
 	case math.IsNaN(worst):
 		return math.NaN(), "no bound: the quantity does not exist at the worst point"
@@ -493,7 +493,7 @@ func (l *Loop) scaledOf(v []float64) []float64 {
 // It returns whether the limit is proven and the largest proven |e| bound.
 func (l *Loop) steadyStateBound(limit float64, maxCells int) (bool, float64) {
 	at := func(ps []mpoly) mpoly {
-		if l.desc.SampleTimeSec == 0 {
+		if l.ts == 0 {
 			if len(ps) == 0 {
 				return mpoly{}
 			}
