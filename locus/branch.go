@@ -445,11 +445,8 @@ func (t *tracer) newtonSep(s complex128, k float64, c []float64) (complex128, co
 		return complex(x, 0), complex(df, 0), complex(bv, 0), sep2, ok
 	}
 	p := t.p
-	floor2 := 1e-12 * t.scale * t.scale
 	s2 := real(s)*real(s) + imag(s)*imag(s)
-	tol2 := 1e-24 * max(s2, floor2) // (1e-12·max(|s|, 1e-6·scale))²
-	prev2 := math.Inf(1)
-	sep2 := math.Inf(1)
+	ctl := newNewtonCtl(s2, t.scale)
 	var df complex128
 	for it := range 12 {
 		t.stats.NewtonIterations++
@@ -457,48 +454,78 @@ func (t *tracer) newtonSep(s complex128, k float64, c []float64) (complex128, co
 		f, df, ddf = hornerIter(c, s, it == 0)
 		df2 := real(df)*real(df) + imag(df)*imag(df)
 		if df2 == 0 {
-			return s, df, p.b.EvalComplex(s), sep2, false
+			return s, df, p.b.EvalComplex(s), ctl.sep2, false
 		}
 		d := f / df
 		sOld2 := s2
 		s -= d
 		s2 = real(s)*real(s) + imag(s)*imag(s)
 		d2 := real(d)*real(d) + imag(d)*imag(d)
-		if !(d2 < math.Inf(1)) {
-			return s, df, 0, sep2, false
+		ddf2 := real(ddf)*real(ddf) + imag(ddf)*imag(ddf)
+		switch ctl.step(it, d2, s2, sOld2, df2, ddf2) {
+		case newtonDone:
+			return s, df, p.b.EvalComplex(s), ctl.sep2, true
+		case newtonFail:
+			return s, df, 0, ctl.sep2, false
 		}
-		if it == 0 {
-			ddf2 := real(ddf)*real(ddf) + imag(ddf)*imag(ddf)
-			if ddf2 != 0 {
-				sep2 = df2 / ddf2
-			}
-			if 0x1p-104*sOld2 > 0.0625*1e-24*max(s2, floor2) {
-				// The result is much smaller than the predicted point:
-				// it is only known to the rounding error of the
-				// subtraction (relative to the predicted point);
-				// iterate from it.
-				prev2 = d2
-				tol2 = 1e-24 * max(s2, floor2)
-				continue
-			}
-			// Kantorovich: the next correction is about
-			// |d|²·|P″|/(2|P′|); done when below a quarter of the
-			// tolerance.
-			if d2*d2*ddf2 <= 0.25*tol2*df2 {
-				return s, df, p.b.EvalComplex(s), sep2, true
-			}
-		}
-		if d2 <= tol2 || (it >= 1 && d2*d2 <= tol2*prev2 && d2 < 0.0625*prev2) {
-			return s, df, p.b.EvalComplex(s), sep2, true
-		}
-		if it >= 1 && d2 > 0.25*prev2 {
-			// No contraction: the prediction was too far (or the root is
-			// ill-conditioned, which the lockstep engine handles).
-			return s, df, 0, sep2, false
-		}
-		prev2 = d2
 	}
-	return s, df, 0, sep2, false
+	return s, df, 0, ctl.sep2, false
+}
+
+// Outcomes of newtonCtl.step.
+const (
+	newtonMore = iota // iterate again
+	newtonDone        // converged
+	newtonFail        // diverged or stagnated
+)
+
+// newtonCtl holds the stopping rule shared by the per-branch correctors
+// (complex and real), on squared magnitudes.
+type newtonCtl struct {
+	floor2, tol2, prev2, sep2 float64
+}
+
+func newNewtonCtl(s2, scale float64) newtonCtl {
+	floor2 := 1e-12 * scale * scale
+	// tol = 1e-12·max(|s|, 1e-6·scale), squared.
+	return newtonCtl{floor2: floor2, tol2: 1e-24 * max(s2, floor2), prev2: math.Inf(1), sep2: math.Inf(1)}
+}
+
+// step judges iteration it, which moved the point by d (d2 = |d|²) to s
+// (s2 = |s|², sOld2 before), with |P′|² = df2 and |P″|² = ddf2 at the old
+// point (ddf2 on the first iteration only).
+func (c *newtonCtl) step(it int, d2, s2, sOld2, df2, ddf2 float64) int {
+	if !(d2 < math.Inf(1)) {
+		return newtonFail
+	}
+	if it == 0 {
+		if ddf2 != 0 {
+			c.sep2 = df2 / ddf2
+		}
+		if 0x1p-104*sOld2 > 0.0625*1e-24*max(s2, c.floor2) {
+			// The result is much smaller than the predicted point: it
+			// is only known to the rounding error of the subtraction
+			// (relative to the predicted point); iterate from it.
+			c.prev2 = d2
+			c.tol2 = 1e-24 * max(s2, c.floor2)
+			return newtonMore
+		}
+		// Kantorovich: the next correction is about |d|²·|P″|/(2|P′|);
+		// done when below a quarter of the tolerance.
+		if d2*d2*ddf2 <= 0.25*c.tol2*df2 {
+			return newtonDone
+		}
+	}
+	if d2 <= c.tol2 || (it >= 1 && d2*d2 <= c.tol2*c.prev2 && d2 < 0.0625*c.prev2) {
+		return newtonDone
+	}
+	if it >= 1 && d2 > 0.25*c.prev2 {
+		// No contraction: the prediction was too far (or the root is
+		// ill-conditioned, which the lockstep engine handles).
+		return newtonFail
+	}
+	c.prev2 = d2
+	return newtonMore
 }
 
 // newtonSepReal is newtonSep for a real starting point, in real
@@ -506,11 +533,8 @@ func (t *tracer) newtonSep(s complex128, k float64, c []float64) (complex128, co
 // real point are real).
 func (t *tracer) newtonSepReal(x float64, c []float64) (float64, float64, float64, float64, bool) {
 	p := t.p
-	floor2 := 1e-12 * t.scale * t.scale
 	x2 := x * x
-	tol2 := 1e-24 * max(x2, floor2)
-	prev2 := math.Inf(1)
-	sep2 := math.Inf(1)
+	ctl := newNewtonCtl(x2, t.scale)
 	var df float64
 	for it := range 12 {
 		t.stats.NewtonIterations++
@@ -523,41 +547,21 @@ func (t *tracer) newtonSepReal(x float64, c []float64) (float64, float64, float6
 			df = df*x + f
 			f = f*x + c[i]
 		}
-		df2 := df * df
-		if df2 == 0 {
-			return x, df, p.b.Eval(x), sep2, false
+		if df == 0 {
+			return x, df, p.b.Eval(x), ctl.sep2, false
 		}
 		d := f / df
 		xOld2 := x2
 		x -= d
 		x2 = x * x
-		d2 := d * d
-		if !(d2 < math.Inf(1)) {
-			return x, df, 0, sep2, false
+		switch ctl.step(it, d*d, x2, xOld2, df*df, ddf*ddf) {
+		case newtonDone:
+			return x, df, p.b.Eval(x), ctl.sep2, true
+		case newtonFail:
+			return x, df, 0, ctl.sep2, false
 		}
-		if it == 0 {
-			ddf2 := ddf * ddf
-			if ddf2 != 0 {
-				sep2 = df2 / ddf2
-			}
-			if 0x1p-104*xOld2 > 0.0625*1e-24*max(x2, floor2) {
-				prev2 = d2
-				tol2 = 1e-24 * max(x2, floor2)
-				continue
-			}
-			if d2*d2*ddf2 <= 0.25*tol2*df2 {
-				return x, df, p.b.Eval(x), sep2, true
-			}
-		}
-		if d2 <= tol2 || (it >= 1 && d2*d2 <= tol2*prev2 && d2 < 0.0625*prev2) {
-			return x, df, p.b.Eval(x), sep2, true
-		}
-		if it >= 1 && d2 > 0.25*prev2 {
-			return x, df, 0, sep2, false
-		}
-		prev2 = d2
 	}
-	return x, df, 0, sep2, false
+	return x, df, 0, ctl.sep2, false
 }
 
 // matchFast pairs the end points of two half traces (see the file
