@@ -100,23 +100,7 @@ func rootRadius(p poly.Poly, r complex128) float64 {
 	if n < 1 {
 		return 0
 	}
-	k := 0
-	if ar := cmplx.Abs(r); ar > 0 && !math.IsInf(ar, 0) {
-		k = math.Ilogb(ar)
-	}
-	a := p.Ascending()
-	// E: the largest binary exponent of aᵢ·2^(i·k).
-	e := math.MinInt
-	for i, c := range a {
-		if c != 0 {
-			e = max(e, math.Ilogb(c)+i*k)
-		}
-	}
-	q := make([]float64, n+1)
-	for i, c := range a {
-		q[i] = math.Ldexp(c, i*k-e)
-	}
-	x := r / complex(math.Ldexp(1, k), 0)
+	q, x, k := rescaled(p, r)
 	ax := cmplx.Abs(x)
 	s := 0.0
 	for i := n; i >= 0; i-- {
@@ -230,11 +214,28 @@ func boundaryPseudoRoot(p poly.Poly, roots []complex128, discrete bool) (complex
 	return 0, false
 }
 
-// relativeValue returns |P(x)|/S(|x|), S(t) = Σ|aᵢ|tⁱ, evaluated after the
-// exact rescaling of rootRadius so that neither overflows.
+// relativeValue returns |P(x)|/S(|x|), S(t) = Σ|aᵢ|tⁱ, evaluated on the
+// rescaled polynomial (rescaled) so that neither overflows.
 func relativeValue(p poly.Poly, x complex128) float64 {
-	n := p.Degree()
-	k := 0
+	q, y, _ := rescaled(p, x)
+	ay := cmplx.Abs(y)
+	var v complex128
+	s := 0.0
+	for i := len(q) - 1; i >= 0; i-- {
+		v = v*y + complex(q[i], 0)
+		s = s*ay + math.Abs(q[i])
+	}
+	if s == 0 {
+		return math.Inf(1)
+	}
+	return cmplx.Abs(v) / s
+}
+
+// rescaled returns the ascending coefficients of q(y) = p(2ᵏy)/2ᴱ and
+// y = x/2ᵏ, with 2ᵏ near |x| and E the largest binary exponent of
+// aᵢ·2^(i·k): exact scalings by powers of two that bring the point near
+// modulus 1 and the largest coefficient near 1.
+func rescaled(p poly.Poly, x complex128) (q []float64, y complex128, k int) {
 	if ax := cmplx.Abs(x); ax > 0 && !math.IsInf(ax, 0) {
 		k = math.Ilogb(ax)
 	}
@@ -245,19 +246,11 @@ func relativeValue(p poly.Poly, x complex128) float64 {
 			e = max(e, math.Ilogb(c)+i*k)
 		}
 	}
-	y := x / complex(math.Ldexp(1, k), 0)
-	ay := cmplx.Abs(y)
-	var v complex128
-	s := 0.0
-	for i := n; i >= 0; i-- {
-		q := math.Ldexp(a[i], i*k-e)
-		v = v*y + complex(q, 0)
-		s = s*ay + math.Abs(q)
+	q = make([]float64, len(a))
+	for i, c := range a {
+		q[i] = math.Ldexp(c, i*k-e)
 	}
-	if s == 0 {
-		return math.Inf(1)
-	}
-	return cmplx.Abs(v) / s
+	return q, x / complex(math.Ldexp(1, k), 0), k
 }
 
 // crowdsAtOne reports whether, for a loop converted to z, the verdict is
