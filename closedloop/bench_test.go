@@ -1,6 +1,7 @@
 package closedloop
 
 import (
+	"github.com/loopwise/loopwise/internal/testutil"
 	"runtime"
 	"testing"
 	"time"
@@ -99,7 +100,7 @@ func BenchmarkRatio(b *testing.B) {
 			defer runtime.UnlockOSThread()
 			var whole, step time.Duration
 			for b.Loop() {
-				t0 := threadCPU()
+				t0 := testutil.ThreadCPU()
 				fs, err := Of(c.l, nil)
 				if err != nil {
 					b.Fatal(err)
@@ -107,11 +108,11 @@ func BenchmarkRatio(b *testing.B) {
 				if _, err := fs.Analyze(nil); err != nil {
 					b.Fatal(err)
 				}
-				t1 := threadCPU()
+				t1 := testutil.ThreadCPU()
 				if _, err := response.StepMetrics(t, nil); err != nil {
 					b.Fatal(err)
 				}
-				whole, step = whole+t1-t0, step+threadCPU()-t1
+				whole, step = whole+t1-t0, step+testutil.ThreadCPU()-t1
 			}
 			b.ReportMetric(float64(whole)/float64(step), "whole/stepmetrics")
 			b.ReportMetric(float64(whole.Microseconds())/float64(b.N), "whole-µs/op")

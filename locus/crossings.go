@@ -239,7 +239,12 @@ func (p *problem) stable(k float64) (bool, error) {
 		// root: not stable, as decided below. Only a root whose
 		// uncertainty is larger than rounding and reaches the boundary
 		// leaves the verdict open.
-		if rad := inclusionRadius(c, rs, i); !(rad < dist) && !(rad <= 8*0x1p-53*math.Max(1, cabs(r.Value))) {
+		// The disc also covers the rounding of the coefficients of
+		// a + k·b when they were formed, u·(|aᵢ| + |k|·|bᵢ|) each (the
+		// verdict is about a + k·b, not about its rounded coefficients):
+		// where the conditioning of the roots makes that error reach the
+		// boundary, double precision cannot decide (1/(s+1)^200).
+		if rad := inclusionRadius(c, rs, i, 0x1p-53*p.magnitude(r.Value, k)); !(rad < dist) && !(rad <= 8*0x1p-53*math.Max(1, cabs(r.Value))) {
 			return false, fmt.Errorf("%w: at %s = %v the closed-loop pole %v lies within its rounding uncertainty %.3g of the stability boundary (degree %d): double precision cannot decide stability", ErrIllConditioned, p.variable, k, r.Value, rad, c.Degree())
 		}
 		if p.discrete {
@@ -258,15 +263,18 @@ func (p *problem) stable(k float64) (bool, error) {
 // roots the disc |z − rᵢ| ≤ n·|Wᵢ|, Wᵢ = c(rᵢ)/(cₙ·∏ⱼ≠ᵢ(rᵢ − rⱼ)) holds a
 // root of the double coefficients c; the residual c(rᵢ) is taken with
 // the error bound of its compensated evaluation (poly.EvalComplexCompensated),
-// so the disc also covers what the evaluation cannot resolve. For a root of
+// so the disc also covers what the evaluation cannot resolve, plus pert (a
+// bound on |δc(rᵢ)| for a perturbation δc of the coefficients that the
+// caller wants covered: then the disc holds a root of every c + δc, as the
+// residual bound of c + δc at rᵢ is at most the sum). For a root of
 // multiplicity m the m-th root of the same bound is used (a cluster of m
 // roots moves as the m-th root of a perturbation). The product is formed
 // in logarithms (no overflow at degree 500).
-func inclusionRadius(c poly.Poly, rs []poly.Root, i int) float64 {
+func inclusionRadius(c poly.Poly, rs []poly.Root, i int, pert float64) float64 {
 	n := c.Degree()
 	r := rs[i].Value
 	v, eb := c.EvalComplexCompensated(r)
-	res := cabs(v) + eb
+	res := cabs(v) + eb + pert
 	lg := math.Log(res) - math.Log(math.Abs(c.Lead())) + math.Log(float64(n))
 	for j, o := range rs {
 		if j != i {

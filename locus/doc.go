@@ -74,8 +74,12 @@
 // array (Routh 1877; Hurwitz 1895) up to degree 40; above it, or when a
 // pivot is near zero, by the closed-loop roots, whose verdict is accepted
 // only when the Weierstrass inclusion disc of every root (Braess & Hadeler
-// 1973) stays off the stability boundary — otherwise the analysis returns
-// ErrIllConditioned instead of a verdict (1/(s+1)^500, say). Against
+// 1973), widened to cover the rounding of the coefficients of a + k·b as
+// they are formed, stays off the stability boundary — otherwise the
+// analysis returns ErrIllConditioned instead of a verdict (1/(s+1)^n for
+// n = 100 to 500: near the n-fold pole the closed-loop roots are so
+// sensitive that a change of one rounding unit in the coefficients can
+// move them across the axis). Against
 // 50-digit references (the reference cases, testdata/golden.py and
 // testdata/breaks_highorder.py) crossing values agree to 4e-16, break points
 // and their values to 4u (orders 12 to 24; the expanded roots alone were
@@ -85,14 +89,24 @@
 // Georg 2003) between consecutive special values (range ends, k = 0, break
 // points, the degree drop), with the crossings as exact waypoints inside
 // the pieces; break points and multiple poles are left along their Puiseux
-// directions, towards ±∞ the variable is changed to log k; see trace.go for
-// the details. Every traced point satisfies |a(s) + k·b(s)| ≤
+// directions, towards ±∞ the variable is changed to log k; see trace.go and
+// branch.go for the details. Each root is followed with its own step, set
+// by its own chord, turn and predictor error (cubic Hermite predictor from
+// the last two points and tangents ds/dk = −b/(a′ + k·b′), Newton
+// corrector), so a slow branch is not sampled at the pace of the fastest
+// one. Every traced point satisfies |a(s) + k·b(s)| ≤
 // 1e-9·(Σ|aᵢ||s|ⁱ + |k|·Σ|bᵢ||s|ⁱ) (a and b with the roots they share
-// divided out; those are returned as constant branches), and no step may
-// land on another branch (each correction must be small against the
-// distance to every other root, unless both lie within the rounding noise
-// of an ill-conditioned cluster, where double precision cannot tell them
-// apart).
+// divided out; those are returned as constant branches). A piece is
+// accepted only when no branch can have jumped onto another: the two half
+// traces of a piece, each started from an independent root computation,
+// must meet one to one and unambiguously at its middle, and the branches
+// towards an end must each reach their own limit or leave the extent disc
+// apart (a branch that jumps follows the other from there on, so two
+// branches would end together). Otherwise the piece is traced again in
+// lockstep, where every correction must be small against the distance to
+// every other root at the same value, unless both lie within the rounding
+// noise of an ill-conditioned cluster, where double precision cannot tell
+// them apart (TraceStats.Retraced counts such pieces).
 //
 // # Performance
 //
@@ -102,14 +116,15 @@
 // from gonum at each, branches matched to the nearest root of the previous
 // gain) on a deterministic family of loops of order 4, 8, 12, 16 and 24
 // (mixed real and complex poles, some unstable; n/4 zeros). Measured on a
-// shared, loaded 2-core machine, one run (testdata/benchmarks.txt):
+// shared, heavily loaded 2-core machine, one run of 5 iterations
+// (testdata/benchmarks.txt; read the ratios to within a factor of 2):
 //
 //	order               4      8     12     16     24
-//	speed-up          40×    65×    62×    62×    55×
-//	points, trace     678   1076   2218   2883   5165
+//	speed-up          54×   101×    34×    29×    57×
+//	points, trace     412    592   1037   1530   4643
 //	points, grid     8000  16000  24000  32000  48000
-//	deviation, trace  1.7e-4 1.1e-4 1.0e-4 7.4e-5 5.6e-5
-//	deviation, grid   4.6e-3 1.9e-4 4.7e-4 2.8e-4 8.3e-4
+//	deviation, trace  2.0e-4 1.5e-4 1.6e-4 1.7e-4 1.2e-4
+//	deviation, grid   5.8e-3 1.9e-4 4.4e-4 2.4e-4 7.2e-4
 //
 // The deviation is the largest distance from the middle of a chord to the
 // exact locus, relative to the view scale (a second-order level-set
@@ -120,17 +135,22 @@
 //
 // The project's harness (../shared/perf/compare) asks instead for the
 // trace at the largest ChordTolerance whose largest chord inside its own
-// window (±1.5·max|pole, zero|) is no longer than the grid's; in its quick
-// run (testdata/harness_quick.md, single repetitions on a shared machine)
-// that gives 27.5× to 50× (family orders 2 to 24 and two textbook loops;
-// the goal of 30× is not met at orders 2 and 8), special points exact to
-// 4.3e-15, no branch swaps, Trace complete at orders 40 and 60, and
-// Analyze growing as n^2.8 from order 40 to 60. The trace's time goes to
-// Newton evaluations of a + k·b (one to two per root and step; the lower
-// root of an exact conjugate pair is mirrored, not corrected) and to one
-// eigenvalue solve per special value; all roots advance with one common
-// step, so the fastest branch sets the step of all (the reason
-// the ratio is lowest at small orders).
+// window (±1.5·max|pole, zero|) is no longer than the grid's. Its full run
+// (testdata/harness_full.md, wall clock on a 2-core machine shared by eight
+// engineers, load average 5 to 7) gives 53× to 90× (family orders 2 to 24
+// and the two textbook loops; 53× at order 2, 60× at order 4, where the
+// largest tolerance of the harness's ladder, 0.02, already leaves the
+// trace's chord below the grid's), special points exact to 4.3e-15, no
+// branch swaps, Trace complete at orders 40 and 60 (there the per-branch
+// traces of 6 and 9 pieces are inconclusive and those pieces are traced
+// again in lockstep: 17682 and 23406 points), and Analyze growing as n^3.3 from order 24 to
+// 40 and n^2.8 from 40 to 60. Each root is followed with its own step, so
+// the points go where a branch moves (1360 points at order 8 against 4816
+// with one common step for all roots); the time goes to Newton evaluations
+// of a + k·b (one to two per step; real roots in real arithmetic), to one
+// eigenvalue solve per special value and, from order 12 on, to Analyze
+// (about 40 % of a trace: the roots of the degree-(n+m−1) break-point
+// polynomial).
 //
 // # Invariants
 //

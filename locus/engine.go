@@ -372,6 +372,16 @@ func hornerD(c []float64, s complex128) (v, d complex128) {
 	return v, d
 }
 
+// hornerIter returns q(s) and q′(s) for the coefficients c, and q″(s)
+// too on the first iteration of Newton's method (the Kantorovich test).
+func hornerIter(c []float64, s complex128, first bool) (v, d, dd complex128) {
+	if first {
+		return hornerD2(c, s)
+	}
+	v, d = hornerD(c, s)
+	return v, d, 0
+}
+
 // hornerD2 returns q(s), q′(s) and q″(s) for the coefficients c (lowest
 // power first).
 func hornerD2(c []float64, s complex128) (v, d, dd complex128) {
@@ -399,11 +409,7 @@ func (t *tracer) newtonCoeffs(s complex128, k float64, c []float64) (complex128,
 	for it := range 12 {
 		t.stats.NewtonIterations++
 		var f, ddf complex128
-		if it == 0 {
-			f, df, ddf = hornerD2(c, s)
-		} else {
-			f, df = hornerD(c, s)
-		}
+		f, df, ddf = hornerIter(c, s, it == 0)
 		if df == 0 {
 			return s, df, p.b.EvalComplex(s), false
 		}
@@ -545,6 +551,26 @@ func lcm(a, b int) int {
 	return a / g * b
 }
 
+// traceHalfEach is traceHalf by per-branch continuation (contEach); it
+// returns errFast when that is inconclusive.
+func (t *tracer) traceHalfEach(nd node, kEnd float64) ([][]Point, []complex128, error) {
+	mu := muOf(nd.mult)
+	km := powerMap(nd.k, kEnd-nd.k, mu)
+	runs, err := t.contEach(km, 1, nd.slots, nd.clus, nd.mult, mu, nil, t.waypoints(powerInv(nd.k, kEnd-nd.k, mu), 1))
+	if err != nil {
+		return nil, nil, err
+	}
+	paths := make([][]Point, len(runs))
+	fin := make([]complex128, len(runs))
+	for i, r := range runs {
+		paths[i], fin[i] = r.path, r.fin
+		if n := len(r.path); n > 0 {
+			paths[i][n-1].Value = kEnd
+		}
+	}
+	return paths, fin, nil
+}
+
 // traceHalf traces from a regular node to the value kEnd (the middle of
 // the piece), leaving the node's clusters along their Puiseux directions.
 func (t *tracer) traceHalf(nd node, kEnd float64) ([][]Point, []complex128, error) {
@@ -586,8 +612,22 @@ func (t *tracer) traceHalf(nd node, kEnd float64) ([][]Point, []complex128, erro
 // degree-drop value): each root stops at its limit (a finite root of the
 // end node, appended exactly) or when it leaves the extent disc. It
 // returns the paths indexed by the start slot and, for each, the slot of
-// the end node it reaches.
+// the end node it reaches. Each root is first followed on its own
+// (contEach); when that is inconclusive the piece is traced in lockstep.
 func (t *tracer) traceToEnd(nd node, end node) ([][]Point, []int, error) {
+	saved := t.traced
+	paths, to, err := t.traceToEndMode(nd, end, true)
+	if !errors.Is(err, errFast) {
+		return paths, to, err
+	}
+	t.traced = saved
+	t.stats.Retraced++
+	return t.traceToEndMode(nd, end, false)
+}
+
+// traceToEndMode is traceToEnd by per-branch continuation (fast) or in
+// lockstep.
+func (t *tracer) traceToEndMode(nd node, end node, fast bool) ([][]Point, []int, error) {
 	n := len(nd.slots)
 	mu := muOf(nd.mult)
 	if mu != 1 {
@@ -628,7 +668,32 @@ func (t *tracer) traceToEnd(nd node, end node) ([][]Point, []int, error) {
 	} else {
 		uMax = math.Log(math.Abs(nd.k-end.k) / (1e-15 * math.Max(1, math.Abs(end.k))))
 	}
-	paths, fin, err := t.cont(km, uMax, nd.slots, nil, nil, 1, stop, t.waypoints(expInv(nd.k, end.k), uMax))
+	ways := t.waypoints(expInv(nd.k, end.k), uMax)
+	var paths [][]Point
+	var fin []complex128
+	var err error
+	if fast {
+		runs, err := t.contEach(km, uMax, nd.slots, nil, nil, 1, stop, ways)
+		if err != nil {
+			return nil, nil, err
+		}
+		paths = make([][]Point, n)
+		for i, r := range runs {
+			if !r.stopped {
+				return nil, nil, errFast
+			}
+			for j := i + 1; j < n; j++ {
+				if r.exit && runs[j].exit && cabs(r.fin-runs[j].fin) <= math.Max(r.lastCh, runs[j].lastCh) {
+					// Two roots leave the disc within one step of each
+					// other: possibly one path followed twice.
+					return nil, nil, errFast
+				}
+			}
+			paths[i] = r.path
+		}
+	} else {
+		paths, fin, err = t.cont(km, uMax, nd.slots, nil, nil, 1, stop, ways)
+	}
 	if errors.Is(err, ErrTraceFailed) {
 		// Near a multiple limit point (a multiple zero) the converging
 		// roots are only known to about ε^(1/ν), and the continuation can
@@ -689,7 +754,13 @@ func (t *tracer) traceToEnd(nd node, end node) ([][]Point, []int, error) {
 // end: at n = 2 it took ≈ 1550 steps per branch to match a 2000-gain grid's
 // chord, most of them outside the view.
 func (t *tracer) chordLimit(s, c complex128) float64 {
-	x := math.Min(cabs(s-t.centre), cabs(c-t.centre)) / (chordHoldRadius * t.scale)
+	return t.chordLimitAt(math.Min(cabs(s-t.centre), cabs(c-t.centre)))
+}
+
+// chordLimitAt is chordLimit for a step whose nearer end is at the
+// distance d from the view's centre.
+func (t *tracer) chordLimitAt(d float64) float64 {
+	x := d / (chordHoldRadius * t.scale)
 	if x <= 1 {
 		return t.chordAbs
 	}

@@ -6,13 +6,16 @@ package locus
 // points, the value where the degree of a + k·b drops) every root of
 // a + k·b is simple, so each root is an analytic function of k there and
 // can be followed by continuation (Allgower & Georg, Introduction to
-// Numerical Continuation Methods, SIAM 2003, ch. 2): an Euler–Hermite
-// predictor along ds/dk = −b/(a′ + k·b′), then Newton's method on
-// a(s) + k·b(s) = 0 at the new k. Steps are accepted only if (i) Newton
-// converges, (ii) the correction is small against the distance to every
-// other root, so the iterate cannot have been captured by a neighbouring
-// branch, (iii) the chord and the turn of every branch stay within the
-// tolerances. Otherwise the step is halved.
+// Numerical Continuation Methods, SIAM 2003, ch. 2). Each root is first
+// followed on its own (branch.go: cubic Hermite predictor along
+// ds/dk = −b/(a′ + k·b′), Newton's method on a(s) + k·b(s) = 0 at the new
+// k, a step of its own), and the piece is checked as a whole afterwards.
+// When that is inconclusive the piece is traced in lockstep (engine.go
+// cont): an Euler–Hermite predictor for all roots with one common step,
+// accepted only if (i) Newton converges, (ii) the correction is small
+// against the distance to every other root, so the iterate cannot have
+// been captured by a neighbouring branch, (iii) the chord and the turn of
+// every branch stay within the tolerances; otherwise the step is halved.
 //
 // The singular ends are handled by the parameterisation, not by small
 // steps:
@@ -41,6 +44,7 @@ package locus
 
 import (
 	"cmp"
+	"errors"
 	"fmt"
 	"math"
 	"math/cmplx"
@@ -73,13 +77,18 @@ type Rect struct{ ReMin, ReMax, ImMin, ImMax float64 }
 // TraceStats counts the work of a trace.
 type TraceStats struct {
 	// Steps and RejectedSteps count accepted and rejected continuation
-	// steps (each step moves every active root).
+	// steps (a step moves one root in the per-branch continuation, every
+	// active root in the lockstep one; an exact conjugate is mirrored and
+	// not counted).
 	Steps, RejectedSteps int
 	// NewtonIterations counts single-root Newton iterations.
 	NewtonIterations int
 	// RootSolves counts full polynomial root computations (at special
 	// values only).
 	RootSolves int
+	// Retraced counts the pieces traced again in lockstep because the
+	// per-branch continuation was inconclusive there.
+	Retraced int
 	// Points is the total number of points in Branches.
 	Points int
 }
@@ -171,13 +180,15 @@ type tracer struct {
 	kTyp     float64
 	notes    []string
 	coef     []float64 // scratch coefficients of a + k·b
+	coefEach []float64 // the same for the per-branch continuation
+	arena    []Point   // points of the per-branch continuation (see follow)
 	waysAll  []Crossing
 	traced   int
 	reseedAt float64 // parameter of the last reseed (see reseed)
 }
 
 func newTracer(p *problem, an Analysis, r resolved) *tracer {
-	t := &tracer{p: p, an: an, r: r}
+	t := &tracer{p: p, an: an, r: r, arena: make([]Point, 0, 64*p.order)}
 	var pts []complex128
 	for _, x := range an.Poles {
 		pts = append(pts, x.Value)
@@ -498,11 +509,30 @@ func (t *tracer) traceLink(left, right node) (link, error) {
 	switch {
 	case left.kind == regularNode && right.kind == regularNode:
 		mid := left.k + (right.k-left.k)/2
-		lp, lend, err := t.traceHalf(left, mid)
+		saved := t.traced
+		lp, lend, err := t.traceHalfEach(left, mid)
+		var rp [][]Point
+		var rend []complex128
+		if err == nil {
+			rp, rend, err = t.traceHalfEach(right, mid)
+		}
+		if err == nil {
+			if perm, ok := t.matchFast(lend, rend); ok {
+				return t.joinHalves(lp, rp, perm), nil
+			}
+			err = errFast
+		}
+		if !errors.Is(err, errFast) {
+			return link{}, err
+		}
+		// Inconclusive: trace the piece again in lockstep.
+		t.traced = saved
+		t.stats.Retraced++
+		lp, lend, err = t.traceHalf(left, mid)
 		if err != nil {
 			return link{}, err
 		}
-		rp, rend, err := t.traceHalf(right, mid)
+		rp, rend, err = t.traceHalf(right, mid)
 		if err != nil {
 			return link{}, err
 		}
@@ -510,16 +540,7 @@ func (t *tracer) traceLink(left, right node) (link, error) {
 		if worst > 1e-6*t.scale && !t.withinNoise(lend, rend, perm, mid) {
 			return link{}, fmt.Errorf("%w: the traces from %s = %v and %v disagree by %.3g at %v", ErrTraceFailed, t.p.variable, left.k, right.k, worst, mid)
 		}
-		l := link{to: perm, paths: make([][]Point, N)}
-		for i := range N {
-			path := lp[i]
-			r := rp[perm[i]]
-			for j := len(r) - 2; j >= 0; j-- {
-				path = append(path, r[j])
-			}
-			l.paths[i] = path
-		}
-		return l, nil
+		return t.joinHalves(lp, rp, perm), nil
 	case left.kind == regularNode:
 		paths, to, err := t.traceToEnd(left, right)
 		return link{to: to, paths: paths}, err
@@ -544,6 +565,22 @@ func (t *tracer) traceLink(left, right node) (link, error) {
 		return l, nil
 	}
 	return link{}, fmt.Errorf("%w: two end values %v and %v are adjacent", ErrTraceFailed, left.k, right.k)
+}
+
+// joinHalves joins the half traces of a piece, lp from the left node and
+// rp from the right one, paired by perm at the middle.
+func (t *tracer) joinHalves(lp, rp [][]Point, perm []int) link {
+	l := link{to: perm, paths: make([][]Point, len(lp))}
+	for i := range lp {
+		r := rp[perm[i]]
+		path := make([]Point, len(lp[i]), len(lp[i])+len(r)-1)
+		copy(path, lp[i])
+		for j := len(r) - 2; j >= 0; j-- {
+			path = append(path, r[j])
+		}
+		l.paths[i] = path
+	}
+	return l
 }
 
 // withinNoise reports whether every matched pair agrees within 1e-6 of the

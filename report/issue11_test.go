@@ -465,3 +465,33 @@ func TestNegligibleDeadTime(t *testing.T) {
 		t.Errorf("2(s+1)/(s+2)·e^(−1e-300 s): closed loop stable = %v, want false", cl)
 	}
 }
+
+// TestLostPolynomialIsNotJudged: the closed loop of 1/(s + 1)ⁿ at k = 1 has
+// the characteristic polynomial (s + 1)ⁿ + 1, whose roots are
+// −1 + e^(jπ(2m+1)/n) (closed form): all have Re s = −1 + cos(π(2m+1)/n) < 0,
+// so the loop is stable. At high degree the expanded coefficients (binomials
+// up to 1e149 at n = 500) lose the roots, whose computed values scatter into
+// the right half-plane; the verdict must then be "not determined", never
+// "unstable". At n = 10 the roots are well conditioned and the verdict is
+// "stable".
+func TestLostPolynomialIsNotJudged(t *testing.T) {
+	for _, n := range []int{10, 60, 120, 200} {
+		p := mustPoly(t, 1)
+		f := mustPoly(t, 1, 1)
+		for range n {
+			p = p.Mul(f)
+		}
+		p = p.Add(mustPoly(t, 1))
+		roots, err := p.Roots()
+		if err != nil {
+			t.Fatalf("n = %d: %v", n, err)
+		}
+		v := judgePoles(p, roots, false)
+		if v.known && !v.stable {
+			t.Errorf("n = %d: verdict unstable, want stable or not determined (every root has Re s < 0)", n)
+		}
+		if n == 10 && !(v.known && v.stable) {
+			t.Errorf("n = 10: verdict known=%v stable=%v, want stable", v.known, v.stable)
+		}
+	}
+}

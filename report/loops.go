@@ -98,6 +98,9 @@ func (a *analysis) verdictWarnings() {
 		}
 		a.warn("%s: %s", verdict, v.undecidedText(discrete))
 	}
+	if v.isLost {
+		a.warn("the stability of the closed loop is not determined: the characteristic polynomial (degree %d) vanishes at %s on %s to within the rounding of its coefficients, so its computed roots do not tell on which side of the boundary the true ones lie; the margins (computed from the loop's factors) are the better guide", a.m.rational.CharacteristicPolynomial().Degree(), cplx(newComplex(v.lost), false), boundaryName(discrete))
+	}
 }
 
 // feedbackWithSensor returns forward/(1 + forward·sensor) with dead time

@@ -71,6 +71,11 @@ type verdict struct {
 	// radius is the largest of their uncertainty radii.
 	undecided []complex128
 	radius    float64
+	// lost is a point of the boundary at which the characteristic
+	// polynomial vanishes to within the rounding of its coefficients when
+	// no computed root is near it (boundaryPseudoRoot): known is false.
+	lost   complex128
+	isLost bool
 	// distance is the smallest distance of an undecided root from the
 	// boundary.
 	distance float64
@@ -95,23 +100,7 @@ func rootRadius(p poly.Poly, r complex128) float64 {
 	if n < 1 {
 		return 0
 	}
-	k := 0
-	if ar := cmplx.Abs(r); ar > 0 && !math.IsInf(ar, 0) {
-		k = math.Ilogb(ar)
-	}
-	a := p.Ascending()
-	// E: the largest binary exponent of aᵢ·2^(i·k).
-	e := math.MinInt
-	for i, c := range a {
-		if c != 0 {
-			e = max(e, math.Ilogb(c)+i*k)
-		}
-	}
-	q := make([]float64, n+1)
-	for i, c := range a {
-		q[i] = math.Ldexp(c, i*k-e)
-	}
-	x := r / complex(math.Ldexp(1, k), 0)
+	q, x, k := rescaled(p, r)
 	ax := cmplx.Abs(x)
 	s := 0.0
 	for i := n; i >= 0; i-- {
@@ -173,7 +162,95 @@ func judgePoles(p poly.Poly, roots []complex128, discrete bool) verdict {
 		// undecided ones do; otherwise the verdict is unknown.
 		v.known, v.stable = false, false
 	}
+	if v.known && len(v.boundary) == 0 {
+		// ρ linearises about each computed root, which fails when the
+		// coefficients have lost the loop altogether: the computed roots
+		// of (s + 1)⁵⁰⁰ + 1 scatter into the right half-plane although
+		// every true root has Re s < 0. Such a polynomial nearly vanishes
+		// on the boundary itself, relative to its coefficients.
+		if w, ok := boundaryPseudoRoot(p, roots, discrete); ok {
+			v.known, v.stable = false, false
+			v.lost, v.isLost = w, true
+		}
+	}
 	return v
+}
+
+// boundaryPseudoRoot looks for a point b of the stability boundary (the
+// imaginary axis, or the unit circle) at which |P(b)| ≤ η·S(|b|), η as in
+// rootRadius: a relative change of the coefficients by η then makes b a
+// root, so no computation in double precision can tell on which side of
+// the boundary the roots lie (Wilkinson 1963, ch. 2: the roots of the
+// perturbed polynomials fill the pseudo-zero set, which then touches the
+// boundary). It tries b = 0 (z = 1), z = −1, and the boundary points
+// nearest to and level with each computed root: a necessary test that
+// catches the lost cases without a search, and never turns a boundary
+// root (already judged) into an unknown verdict.
+func boundaryPseudoRoot(p poly.Poly, roots []complex128, discrete bool) (complex128, bool) {
+	n := p.Degree()
+	if n < 1 {
+		return 0, false
+	}
+	eta := 8 * float64(n+1) * 0x1p-53
+	var pts []complex128
+	if discrete {
+		pts = append(pts, 1, -1)
+		for _, r := range roots {
+			if r != 0 {
+				pts = append(pts, r/complex(cmplx.Abs(r), 0))
+			}
+		}
+	} else {
+		pts = append(pts, 0)
+		for _, r := range roots {
+			pts = append(pts, complex(0, math.Abs(imag(r))), complex(0, cmplx.Abs(r)))
+		}
+	}
+	for _, b := range pts {
+		if rel := relativeValue(p, b); rel <= eta {
+			return b, true
+		}
+	}
+	return 0, false
+}
+
+// relativeValue returns |P(x)|/S(|x|), S(t) = Σ|aᵢ|tⁱ, evaluated on the
+// rescaled polynomial (rescaled) so that neither overflows.
+func relativeValue(p poly.Poly, x complex128) float64 {
+	q, y, _ := rescaled(p, x)
+	ay := cmplx.Abs(y)
+	var v complex128
+	s := 0.0
+	for i := len(q) - 1; i >= 0; i-- {
+		v = v*y + complex(q[i], 0)
+		s = s*ay + math.Abs(q[i])
+	}
+	if s == 0 {
+		return math.Inf(1)
+	}
+	return cmplx.Abs(v) / s
+}
+
+// rescaled returns the ascending coefficients of q(y) = p(2ᵏy)/2ᴱ and
+// y = x/2ᵏ, with 2ᵏ near |x| and E the largest binary exponent of
+// aᵢ·2^(i·k): exact scalings by powers of two that bring the point near
+// modulus 1 and the largest coefficient near 1.
+func rescaled(p poly.Poly, x complex128) (q []float64, y complex128, k int) {
+	if ax := cmplx.Abs(x); ax > 0 && !math.IsInf(ax, 0) {
+		k = math.Ilogb(ax)
+	}
+	a := p.Ascending()
+	e := math.MinInt
+	for i, c := range a {
+		if c != 0 {
+			e = max(e, math.Ilogb(c)+i*k)
+		}
+	}
+	q = make([]float64, len(a))
+	for i, c := range a {
+		q[i] = math.Ldexp(c, i*k-e)
+	}
+	return q, x / complex(math.Ldexp(1, k), 0), k
 }
 
 // crowdsAtOne reports whether, for a loop converted to z, the verdict is

@@ -2,6 +2,7 @@ package response
 
 import (
 	"fmt"
+	"github.com/loopwise/loopwise/internal/testutil"
 	"math"
 	"runtime"
 	"testing"
@@ -301,26 +302,26 @@ func BenchmarkRatio(b *testing.B) {
 				runtime.LockOSThread()
 				defer runtime.UnlockOSThread()
 				for b.Loop() {
-					t0 := threadCPU()
+					t0 := testutil.ThreadCPU()
 					if _, err := Step(sys, set); err != nil {
 						b.Fatal(err)
 					}
-					t1 := threadCPU()
+					t1 := testutil.ThreadCPU()
 					mm, _ := statespace.FromTransferFunction(f.Num, f.Den)
 					rk4(mm, f.StepSec, sub8, out)
-					t2 := threadCPU()
+					t2 := testutil.ThreadCPU()
 					if subEq > 0 {
 						mm, _ := statespace.FromTransferFunction(f.Num, f.Den)
 						rk4(mm, f.StepSec, subEq, out)
 					}
-					t3 := threadCPU()
+					t3 := testutil.ThreadCPU()
 					floorLoop(a, x, nx, f.Count)
-					t4 := threadCPU()
+					t4 := testutil.ThreadCPU()
 					for i := range x0 {
 						x0[i] = 0
 					}
 					stepLoop(phi, x0, gam, m.C, m.D, out)
-					t5 := threadCPU()
+					t5 := testutil.ThreadCPU()
 					tLoop += t5 - t4
 					tStep += t1 - t0
 					t8 += t2 - t1

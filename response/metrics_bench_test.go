@@ -2,6 +2,7 @@ package response
 
 import (
 	"fmt"
+	"github.com/loopwise/loopwise/internal/testutil"
 	"math"
 	"math/cmplx"
 	"math/rand/v2"
@@ -135,11 +136,11 @@ func interleavedCPU(b *testing.B, fns ...func() error) []time.Duration {
 	defer runtime.UnlockOSThread()
 	for b.Loop() {
 		for i, f := range fns {
-			t0 := threadCPU()
+			t0 := testutil.ThreadCPU()
 			if err := f(); err != nil {
 				b.Fatal(err)
 			}
-			total[i] += threadCPU() - t0
+			total[i] += testutil.ThreadCPU() - t0
 		}
 	}
 	return total
