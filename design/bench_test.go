@@ -5,6 +5,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/loopwise/loopwise/internal/testutil"
 	"github.com/loopwise/loopwise/margins"
 	"github.com/loopwise/loopwise/response"
 	"github.com/loopwise/loopwise/spec"
@@ -67,11 +68,11 @@ func BenchmarkRatio(b *testing.B) {
 			defer runtime.UnlockOSThread()
 			var design, base time.Duration
 			for b.Loop() {
-				t0 := threadCPU()
+				t0 := testutil.ThreadCPU()
 				if _, err := Solve(v, c.req, nil); err != nil {
 					b.Fatal(err)
 				}
-				t1 := threadCPU()
+				t1 := testutil.ThreadCPU()
 				if _, err := margins.Compute(l, nil); err != nil {
 					b.Fatal(err)
 				}
@@ -79,7 +80,7 @@ func BenchmarkRatio(b *testing.B) {
 				if _, err := response.StepMetrics(cl, nil); err != nil {
 					b.Fatal(err)
 				}
-				design, base = design+t1-t0, base+threadCPU()-t1
+				design, base = design+t1-t0, base+testutil.ThreadCPU()-t1
 			}
 			b.ReportMetric(float64(design)/float64(base), "design/baseline")
 			b.ReportMetric(float64(design.Microseconds())/float64(b.N), "design-µs/op")

@@ -114,16 +114,20 @@ func (c *closedLoop) grid(h float64, n int) (samples, bool) {
 		}
 		nx, nw := s.x[(k+1)*N:(k+2)*N], s.w[(k+1)*N:(k+2)*N]
 		for i := 0; i < N; i++ {
-			row := phi.Data[i*phi.Stride : i*phi.Stride+N]
-			sx, sw := gamma[i], 0.0
-			for j, v := range row {
-				sx += v * x[j]
-				sw += v * w[j]
-			}
-			nx[i], nw[i] = sx, sw
+			nx[i], nw[i] = rowTimes(phi.Data[i*phi.Stride:i*phi.Stride+N], x, w, gamma[i])
 		}
 	}
 	return s, true
+}
+
+// rowTimes returns g + row·x and row·w: one row of Φ·x + Γ and of Φ·w.
+func rowTimes(row, x, w []float64, g float64) (sx, sw float64) {
+	sx = g
+	for j, v := range row {
+		sx += v * x[j]
+		sw += v * w[j]
+	}
+	return sx, sw
 }
 
 // between returns y(t) and y′(t) for t in [t_k, t_{k+1}] from the states
@@ -161,12 +165,7 @@ func (c *closedLoop) values(g samples, k int, t float64, second bool) (y, dy, dd
 		raw := phi.RawMatrix()
 		y = c.m.D
 		for i := 0; i < N; i++ {
-			row := raw.Data[i*raw.Stride : i*raw.Stride+N]
-			sx, sw := gamma[i], 0.0
-			for j, v := range row {
-				sx += v * x[j]
-				sw += v * w[j]
-			}
+			sx, sw := rowTimes(raw.Data[i*raw.Stride:i*raw.Stride+N], x, w, gamma[i])
 			y += c.m.C[i] * sx
 			dy += c.m.C[i] * sw
 			pw[i] = sw
