@@ -117,10 +117,10 @@
 // against plain bisection on spec.Check.
 // Measured (testdata/benchmarks.md, BenchmarkRatio, CPU time of the
 // thread): the one-variable design of an order-10 loop with all nine
-// requirement kinds costs about 30–31 times one margins.Compute plus
+// requirement kinds costs about 33–36 times one margins.Compute plus
 // response.StepMetrics of the same loop (it was 130–350 before the
 // constructions above); for an order-6 PI loop whose baseline is very
-// cheap (0.13 ms) it costs about 6.6 ms, 50–52 times the baseline. The
+// cheap (0.13 ms) it costs about 6.3 ms, 49–52 times the baseline. The
 // plane of a PI loop of order 8 takes about 4 ms on one core.
 //
 // # Conventions
