@@ -196,26 +196,6 @@ func (r *delayRun) metrics(ys [][]float64, pts []point, final, lo, hi, band floa
 		}
 		m.SettlingTimeSec = r.solve(ys, pts[last], pts[last+1], final, level)
 	}
-	iMax, iMin := 0, 0
-	for i, p := range pts {
-		if p.r > pts[iMax].r {
-			iMax = i
-		}
-		if p.r < pts[iMin].r {
-			iMin = i
-		}
-	}
-	m.PeakValue, m.PeakTimeSec = math.NaN(), math.NaN()
-	if pts[iMax].r-1 > existTol {
-		m.PeakValue = pts[iMax].r * final
-		m.PeakTimeSec = pts[iMax].t
-		m.OvershootPct = 100 * (pts[iMax].r - 1)
-	}
-	m.UndershootValue, m.UndershootTimeSec = math.NaN(), math.NaN()
-	if pts[iMin].r < -existTol {
-		m.UndershootValue = pts[iMin].r * final
-		m.UndershootTimeSec = pts[iMin].t
-		m.UndershootPct = -100 * pts[iMin].r
-	}
+	m.setExtremes(pts, final)
 	return m
 }

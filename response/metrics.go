@@ -223,27 +223,7 @@ func StepMetrics(sys tf.TF, set *MetricSettings) (Metrics, error) {
 		}
 		m.SettlingTimeSec = locate(pts[last], pts[last+1], level)
 	}
-	iMax, iMin := 0, 0
-	for i, p := range pts {
-		if p.r > pts[iMax].r {
-			iMax = i
-		}
-		if p.r < pts[iMin].r {
-			iMin = i
-		}
-	}
-	m.PeakValue, m.PeakTimeSec = math.NaN(), math.NaN()
-	if pts[iMax].r-1 > existTol {
-		m.PeakValue = pts[iMax].r * final
-		m.PeakTimeSec = pts[iMax].t
-		m.OvershootPct = 100 * (pts[iMax].r - 1)
-	}
-	m.UndershootValue, m.UndershootTimeSec = math.NaN(), math.NaN()
-	if pts[iMin].r < -existTol {
-		m.UndershootValue = pts[iMin].r * final
-		m.UndershootTimeSec = pts[iMin].t
-		m.UndershootPct = -100 * pts[iMin].r
-	}
+	m.setExtremes(pts, final)
 	// Dead time: an exact shift of every time. Before it, y = 0: outside
 	// the band, below every level.
 	if d := s.delay; d > 0 {
@@ -407,4 +387,32 @@ func (m Metrics) String() string {
 		s += fmt.Sprintf(", undershoot %.4g %% (%.6g at %.6g s)", m.UndershootPct, m.UndershootValue, m.UndershootTimeSec)
 	}
 	return s
+}
+
+// setExtremes sets the peak (with the overshoot) and the undershoot of m
+// from the located points pts of the normalised response r = y/final: the
+// largest and the smallest r, kept only when they exceed the final value,
+// or fall below zero, by more than existTol.
+func (m *Metrics) setExtremes(pts []point, final float64) {
+	iMax, iMin := 0, 0
+	for i, p := range pts {
+		if p.r > pts[iMax].r {
+			iMax = i
+		}
+		if p.r < pts[iMin].r {
+			iMin = i
+		}
+	}
+	m.PeakValue, m.PeakTimeSec = math.NaN(), math.NaN()
+	if pts[iMax].r-1 > existTol {
+		m.PeakValue = pts[iMax].r * final
+		m.PeakTimeSec = pts[iMax].t
+		m.OvershootPct = 100 * (pts[iMax].r - 1)
+	}
+	m.UndershootValue, m.UndershootTimeSec = math.NaN(), math.NaN()
+	if pts[iMin].r < -existTol {
+		m.UndershootValue = pts[iMin].r * final
+		m.UndershootTimeSec = pts[iMin].t
+		m.UndershootPct = -100 * pts[iMin].r
+	}
 }
