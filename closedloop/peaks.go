@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/cmplx"
 
+	"github.com/loopwise/loopwise/internal/rootfind"
 	"github.com/loopwise/loopwise/poly"
 	"github.com/loopwise/loopwise/tf"
 )
@@ -172,23 +173,9 @@ func (fs *Functions) gridPeak(from Input, to Output, g tf.TF) (FrequencyPeak, er
 		}
 	}
 	if bi > 0 && bi < N-1 {
-		a, b := ws[bi-1], ws[bi+1]
-		const gr = 0.6180339887498949
-		c, d := b-gr*(b-a), a+gr*(b-a)
-		fc, fd := f(c), f(d)
-		for b-a > 1e-10*b {
-			if fc > fd {
-				b, d, fd = d, c, fc
-				c = b - gr*(b-a)
-				fc = f(c)
-			} else {
-				a, c, fc = c, d, fd
-				d = a + gr*(b-a)
-				fd = f(d)
-			}
-		}
-		w := (a + b) / 2
-		if v := f(w); v > best.Value {
+		// Golden-section refinement (Kiefer 1953) between the neighbours.
+		w, v := rootfind.GoldenMax(f, ws[bi-1], ws[bi+1], 200, 5e-11)
+		if v > best.Value {
 			best = FrequencyPeak{v, w}
 		}
 	}
