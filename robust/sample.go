@@ -190,9 +190,17 @@ func drawParam(rng *rand.Rand, p Param) float64 {
 	return p.Min + (p.Max-p.Min)*rng.Float64()
 }
 
-// chunk is the number of consecutive samples a worker takes at a time: the
-// shared counter is touched once per chunk, not once per sample.
-const chunk = 16
+// maxChunk is the largest number of consecutive samples a worker takes at a
+// time: the shared counter is touched once per chunk, not once per sample.
+// Smaller runs use smaller chunks (see chunkSize), so that the last chunks do
+// not leave a core idle while another finishes a long one.
+const maxChunk = 16
+
+// chunkSize returns the chunk for total samples on workers goroutines: about
+// eight chunks per worker, between 1 and maxChunk samples each.
+func chunkSize(total, workers int) int {
+	return max(1, min(maxChunk, total/(8*max(1, workers))))
+}
 
 // accumulator holds one worker's statistics; workers share nothing while
 // they run (no mutex, no shared slice but the kept-sample prefix, written at
@@ -264,6 +272,7 @@ func run(ctx context.Context, l *Loop, req spec.Requirements, s SampleSettings, 
 	step := int64(max(1, total/100))
 	nextReport := atomic.Int64{}
 	nextReport.Store(step)
+	chunk := chunkSize(total, s.Workers)
 	workers := min(s.Workers, (total+chunk-1)/chunk)
 	accs := make([]accumulator, workers)
 	var wg sync.WaitGroup
@@ -278,7 +287,7 @@ func run(ctx context.Context, l *Loop, req spec.Requirements, s SampleSettings, 
 				if ctx.Err() != nil {
 					return
 				}
-				lo := int(next.Add(chunk) - chunk)
+				lo := int(next.Add(int64(chunk)) - int64(chunk))
 				if lo >= total {
 					return
 				}
