@@ -10,6 +10,8 @@ import (
 	"slices"
 	"strings"
 	"unicode/utf8"
+
+	"github.com/loopwise/loopwise/tf"
 )
 
 // Loop describes one feedback loop L = k·controller·plant·sensor with
@@ -477,6 +479,22 @@ func (lf *Loop) validate() error {
 	}
 	if lf.SampleTimeSec < 0 {
 		return badInput("key \"sample_time_sec\"%s: the sample time must be zero (continuous time) or positive, got %g", lf.where("sample_time_sec"), lf.SampleTimeSec)
+	}
+	if T, d := lf.SampleTimeSec, lf.DelaySec; T > 0 && d > 0 {
+		// A loop written in z holds a dead time only as whole sample periods
+		// (z^−d): between samples the z-domain loop says nothing, so a
+		// fractional part has no exact meaning there. tf applies the rule
+		// (and its tolerance); say it once here instead of in every section.
+		one, err := tf.NewDiscrete([]float64{1}, []float64{1}, T)
+		if err == nil {
+			if one, err = one.WithDelay(d); err == nil {
+				_, err = one.Pade(1)
+			}
+		}
+		if errors.Is(err, tf.ErrFractionalDelay) {
+			return badInput("key \"delay_sec\"%s: %s s is %s sample periods of \"sample_time_sec\" %s s; a loop written in z can only hold whole sample periods of dead time (z^−d). For a fractional dead time write the loop in s and add \"discretize\" with the zero- or first-order hold, which keep any dead time exactly (modified z-transform)",
+				lf.where("delay_sec"), g(Number(d)), g(Number(d/T)), g(Number(T)))
+		}
 	}
 	if lf.Gain == 0 {
 		return badInput("key \"gain\"%s: the loop gain k must not be zero (there would be no feedback); use a small value such as 0.001, negative for the complementary locus", lf.where("gain"))
