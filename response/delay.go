@@ -10,6 +10,7 @@ import (
 	"github.com/loopwise/loopwise/internal/quasipoly"
 	"github.com/loopwise/loopwise/internal/statespace"
 	"github.com/loopwise/loopwise/tf"
+	"gonum.org/v1/gonum/blas/blas64"
 	"gonum.org/v1/gonum/mat"
 )
 
@@ -433,30 +434,13 @@ func (r *delayRun) integrate(H float64) ([][]float64, float64, error) {
 		y := make([]float64, p+1)
 		e := make([]float64, p+1)
 		for j := 0; j <= p; j++ {
-			v := r.outDis + uf*r.yc[j]
-			row := px.Data[j*px.Stride : j*px.Stride+r.nx]
-			for k, a := range row {
-				v += a * x[k]
-			}
-			urow := pu.Data[j*pu.Stride : j*pu.Stride+p+1]
-			for k, a := range urow {
-				v += a * u[k]
-			}
+			v := r.outDis + uf*r.yc[j] + rowDot(px, j, x) + rowDot(pu, j, u)
 			y[j] = v
 			e[j] = r.ref - v
 			peak = math.Max(peak, math.Abs(v))
 		}
 		for k := range nx {
-			v := uf * r.ec[k]
-			row := ex.Data[k*ex.Stride : k*ex.Stride+r.nx]
-			for l, a := range row {
-				v += a * x[l]
-			}
-			urow := eu.Data[k*eu.Stride : k*eu.Stride+p+1]
-			for l, a := range urow {
-				v += a * u[l]
-			}
-			nx[k] = v
+			nx[k] = uf*r.ec[k] + rowDot(ex, k, x) + rowDot(eu, k, u)
 		}
 		x, nx = nx, x
 		ys[i], es[i%r.M] = y, e
@@ -527,4 +511,15 @@ func (r *delayRun) autoHorizon() float64 {
 		}
 	}
 	return 5*r.tau + horizonTimeConstants*1.2/sigma
+}
+
+// rowDot returns the dot product of row i of m with v, over the first
+// len(v) columns of m (m has at least that many).
+func rowDot(m blas64.General, i int, v []float64) float64 {
+	row := m.Data[i*m.Stride : i*m.Stride+len(v)]
+	sum := 0.0
+	for k, a := range row {
+		sum += a * v[k]
+	}
+	return sum
 }
