@@ -37,6 +37,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"math/cmplx"
 
 	"github.com/loopwise/loopwise/internal/rootfind"
 	"github.com/loopwise/loopwise/locus"
@@ -123,7 +124,7 @@ func (fs *Functions) delayedStep(from Input, to Output) (*delayedResponse, error
 	p := fs.exact
 	tc, tg, th, tfl := p.c.DelaySec(), p.g.DelaySec(), p.h.DelaySec(), p.f.DelaySec()
 	tau := tc + tg + th
-	c, g, h, f := p.c.WithoutDelay(), p.g.WithoutDelay(), p.h.WithoutDelay(), p.f.WithoutDelay()
+	c, g, f := p.c.WithoutDelay(), p.g.WithoutDelay(), p.f.WithoutDelay()
 	kc, err := c.Scale(p.k)
 	if err != nil {
 		return nil, fmt.Errorf("%w: %v", ErrLoop, err)
@@ -138,16 +139,9 @@ func (fs *Functions) delayedStep(from Input, to Output) (*delayedResponse, error
 		}
 		return out, nil
 	}
-	lr, err := series(kc, g, h)
+	loop, err := fs.delayedLoop()
 	if err != nil {
 		return nil, err
-	}
-	if !lr.IsStrictlyProper() {
-		return nil, fmt.Errorf("%w: the loop k·C·G·H = %v with dead time %v s is biproper: its closed loop is of neutral type, whose exact response is not computed here", ErrImproper, lr, tau)
-	}
-	loop, err := lr.WithDelay(tau)
-	if err != nil {
-		return nil, fmt.Errorf("%w: %v", ErrLoop, err)
 	}
 	d := &delayedResponse{tau: tau, off: 0, sgn: 1}
 	var phi tf.TF
@@ -162,7 +156,7 @@ func (fs *Functions) delayedStep(from Input, to Output) (*delayedResponse, error
 		}
 		d.t0 = tc + tfl
 	case from == LoadDisturbance && to == Control:
-		phi, d.t0 = lr.Neg(), tau
+		phi, d.t0 = loop.WithoutDelay().Neg(), tau
 	case from == Reference && to == Error:
 		if phi, err = series(kc, g, f); err != nil {
 			return nil, err
@@ -240,6 +234,84 @@ func (fs *Functions) delayedStep(from Input, to Output) (*delayedResponse, error
 	}
 	d.points(M)
 	return d, nil
+}
+
+// delayedLoop returns the loop k·C·G·H·e^(−sτ) of a continuous loop with
+// dead time as one transfer function (the plain product: no factor
+// cancels, so a hidden mode stays a root of its quasi-polynomial).
+// ErrImproper for a biproper loop, whose closed loop is of neutral type.
+func (fs *Functions) delayedLoop() (tf.TF, error) {
+	p := fs.exact
+	tau := p.c.DelaySec() + p.g.DelaySec() + p.h.DelaySec()
+	kc, err := p.c.WithoutDelay().Scale(p.k)
+	if err != nil {
+		return tf.TF{}, fmt.Errorf("%w: %v", ErrLoop, err)
+	}
+	lr, err := kc.Series(p.g.WithoutDelay())
+	if err == nil {
+		lr, err = lr.Series(p.h.WithoutDelay())
+	}
+	if err != nil {
+		return tf.TF{}, fmt.Errorf("%w: %v", ErrLoop, err)
+	}
+	if !lr.IsStrictlyProper() {
+		return tf.TF{}, fmt.Errorf("%w: the loop k·C·G·H = %v with dead time %v s is biproper: its closed loop is of neutral type, whose exact response is not computed here", ErrImproper, lr, tau)
+	}
+	loop, err := lr.WithDelay(tau)
+	if err != nil {
+		return tf.TF{}, fmt.Errorf("%w: %v", ErrLoop, err)
+	}
+	return loop, nil
+}
+
+// exactStability decides the internal stability of a continuous loop with
+// dead time on its quasi-polynomial D_C·D_G·D_H + k·N_C·N_G·N_H·e^(−sτ)
+// instead of the Padé polynomial: by the rightmost root with its count
+// proof (locus.DelayedRoots, argument principle), or, when the roots
+// cannot be counted (a dead time very long against the loop's dynamics),
+// by delay-independent stability (locus.DelayedStableDelays: stable for
+// every τ ≥ 0). fpoles are the prefilter's poles, which count as well.
+// When neither decides (a biproper, neutral loop; no proof), the Padé
+// verdict stays and exact is false.
+func (fs *Functions) exactStability(fpoles []complex128) (exact bool) {
+	loop, err := fs.delayedLoop()
+	if err != nil {
+		return false
+	}
+	fs.rightmostOnce.Do(func() { fs.rightmost, fs.rightmostErr = rightmostRoot(loop) })
+	var bad []complex128
+	switch {
+	case fs.rightmostErr == nil && unstable(fs.rightmost, 0):
+		rm := fs.rightmost
+		rs, err := locus.DelayedRoots(loop, 1, &locus.DelaySettings{Region: locus.Above, MinRealPart: -axisTol * math.Max(1, cmplx.Abs(rm))})
+		if err == nil && rs.CountVerified {
+			for _, r := range rs.Roots {
+				if unstable(r, 0) {
+					bad = append(bad, r)
+				}
+			}
+		}
+		if len(bad) == 0 {
+			bad = []complex128{rm}
+			if imag(rm) != 0 {
+				bad = append(bad, cmplx.Conj(rm))
+			}
+		}
+	case fs.rightmostErr == nil:
+	default:
+		st, err := locus.DelayedStableDelays(loop, 1)
+		if err != nil || !st.DelayIndependent {
+			return false
+		}
+	}
+	for _, p := range fpoles {
+		if unstable(p, 0) {
+			bad = append(bad, p)
+		}
+	}
+	fs.UnstablePoles = bad
+	fs.InternallyStable = len(bad) == 0
+	return true
 }
 
 // rightmostRoot returns the rightmost closed-loop root of the loop with

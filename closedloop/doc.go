@@ -48,9 +48,14 @@
 //     Function.TF, the characteristic polynomial, ClosedLoopPoles and the
 //     H2 norms of NoiseGains carry the Padé approximant of order
 //     Settings.PadeOrder (default 8) in place of the loop's dead time
-//     (Functions.DelayApproximated says so). InternallyStable is decided
-//     on that polynomial; the time metrics check the exact roots again and
-//     return ErrInternallyUnstable when the delay equation is unstable. A
+//     (Functions.DelayApproximated says so). InternallyStable and
+//     UnstablePoles are decided on the exact quasi-polynomial (its
+//     rightmost root with the argument-principle count of
+//     locus.DelayedRoots, or stability for every dead time by
+//     locus.DelayedStableDelays when the roots are too many to count;
+//     Functions.StabilityExact says so), not on the Padé polynomial, whose
+//     verdict can be wrong near a stability limit; only a biproper loop
+//     (neutral type) or a case with no proof keeps the Padé verdict. A
 //     dead time of the prefilter alone is kept exactly as a shift. In
 //     discrete time a dead time of whole samples is exact (poles at z = 0).
 //     With dead time, ControlEffort.InitialValue is the value just after

@@ -136,7 +136,9 @@ type Functions struct {
 	ClosedLoopPoles []complex128
 	// UnstablePoles are those ClosedLoopPoles with Re ≥ 0 (continuous) or
 	// |z| ≥ 1 (discrete); the loop is internally stable when there are
-	// none.
+	// none. With StabilityExact, they are instead the exact roots of the
+	// delayed loop's quasi-polynomial with Re s ≥ 0 (and unstable
+	// prefilter poles).
 	UnstablePoles []complex128
 	// HiddenModes are the unstable poles that some closed-loop function
 	// cancels (the union over all functions, each value once).
@@ -147,6 +149,14 @@ type Functions struct {
 	// internally stable iff all the input–output maps are, which for
 	// coprime-free polynomial data is the characteristic polynomial above).
 	InternallyStable bool
+	// StabilityExact reports whether InternallyStable and UnstablePoles of
+	// a continuous loop with dead time were decided on the exact
+	// quasi-polynomial D_C·D_G·D_H + k·N_C·N_G·N_H·e^(−sτ) (its rightmost
+	// root, counted by the argument principle, or stability for every
+	// dead time) rather than on the Padé polynomial P. False for loops
+	// without dead time (P is exact), for biproper loops with dead time
+	// (neutral type) and when no proof was found.
+	StabilityExact bool
 	// DelayApproximated reports whether the rational TF of the functions
 	// carries a Padé approximation of a continuous dead time inside the
 	// loop. Frequency-domain results stay exact (see FrequencyResponse), and
@@ -395,6 +405,21 @@ func Of(l Loop, set *Settings) (*Functions, error) {
 				}
 			}
 			fs.fns[in][out] = fn
+		}
+	}
+	if fs.loopDelay() > 0 && fs.exactStability(fpoles) {
+		fs.StabilityExact = true
+		if fs.InternallyStable {
+			// An unstable mode a function cancels is a root of the
+			// quasi-polynomial as well; with none in the right half
+			// plane there is nothing hidden (the Padé roots said so
+			// wrongly only when they disagree).
+			fs.HiddenModes = nil
+			for in := range numInputs {
+				for out := range numOutputs {
+					fs.fns[in][out].HiddenModes = nil
+				}
+			}
 		}
 	}
 	for in := range numInputs {
