@@ -4,10 +4,13 @@ import (
 	"fmt"
 	"math"
 	"math/big"
+	"math/cmplx"
 	"math/rand/v2"
 
+	"github.com/loopwise/loopwise/locus"
 	"github.com/loopwise/loopwise/margins"
 	"github.com/loopwise/loopwise/poly"
+	"github.com/loopwise/loopwise/tf"
 )
 
 // Verdict is the answer of a guaranteed analysis.
@@ -41,8 +44,9 @@ type Counterexample struct {
 	// Values are the parameter values, in the order of Loop.Params.
 	Values []float64
 	// UnstableRoots are the closed-loop roots with Re s ≥ 0 (discrete
-	// |z| ≥ 1); with dead time, those of the Padé approximation of order
-	// 8 (the instability itself is confirmed by the Nyquist criterion).
+	// |z| ≥ 1); with dead time, the exact roots of the quasi-polynomial
+	// (locus.DelayedRoots), empty when they cannot be counted with proof
+	// (the instability itself is proven by the Nyquist criterion).
 	UnstableRoots []complex128
 }
 
@@ -149,15 +153,36 @@ func (l *Loop) pointStability(t []float64) (stable bool, unstable []complex128, 
 		if m.ClosedLoopStable {
 			return true, nil, nil
 		}
-		p, err := g.Pade(8)
-		if err == nil {
-			_, unstable = rootsOutside(p.CharacteristicPolynomial(), 0)
-		}
-		return false, unstable, nil
+		return false, delayedUnstableRoots(g), nil
 	}
 	stable, unstable = rootsOutside(g.CharacteristicPolynomial(), l.ts)
 	return stable, unstable, nil
 }
+
+// delayedUnstableRoots returns the exact closed-loop roots with Re s ≥ 0 of
+// a continuous loop with dead time, the roots of its quasi-polynomial
+// (locus.DelayedRoots, polished by Newton's method to 1e-12 and counted by
+// the argument principle), or nil when they cannot all be found with that
+// proof: the instability itself is proven by the Nyquist criterion, and no
+// approximation's roots are listed in their place.
+func delayedUnstableRoots(g tf.TF) []complex128 {
+	rs, err := locus.DelayedRoots(g, 1, &locus.DelaySettings{Region: locus.Above, MinRealPart: -unstableRootTol})
+	if err != nil || !rs.CountVerified {
+		return nil
+	}
+	var bad []complex128
+	for _, z := range rs.Roots {
+		if real(z) >= -unstableRootTol*math.Max(1, cmplx.Abs(z)) {
+			bad = append(bad, z)
+		}
+	}
+	return bad
+}
+
+// unstableRootTol is the relative distance left of the imaginary axis
+// within which an exact root of a delayed loop counts as unstable (on the
+// axis), as the rounding of its polish allows.
+const unstableRootTol = 1e-12
 
 func rootsOutside(p poly.Poly, sample float64) (bool, []complex128) {
 	r, err := p.Roots()

@@ -3,6 +3,7 @@ package robust
 import (
 	"errors"
 	"math"
+	"math/cmplx"
 	"testing"
 
 	"github.com/loopwise/loopwise/poly"
@@ -67,7 +68,19 @@ func checkVerdict(t *testing.T, l *Loop, want Verdict, set *Settings) StabilityR
 				t.Fatalf("counterexample %v outside the box", ce.Values)
 			}
 		}
-		if g.DelaySec() == 0 {
+		if tau := g.DelaySec(); tau > 0 {
+			// Exact roots of D(s) + N(s)·e^(−sτ) in the closed right half
+			// plane, each verified by its residual (polished to 1e-12).
+			if len(ce.UnstableRoots) == 0 {
+				t.Fatalf("counterexample %v: no unstable roots listed", ce.Values)
+			}
+			for _, z := range ce.UnstableRoots {
+				d, n := g.Den().EvalComplex(z), g.Num().EvalComplex(z)*cmplx.Exp(-z*complex(tau, 0))
+				if r := cmplx.Abs(d+n) / (cmplx.Abs(d) + cmplx.Abs(n)); real(z) < -1e-12*cmplx.Abs(z) || r > 1e-11 {
+					t.Fatalf("counterexample %v: listed root %v (relative residual %.3g)", ce.Values, z, r)
+				}
+			}
+		} else {
 			roots, _ := g.CharacteristicPolynomial().Roots()
 			bad := 0
 			for _, z := range roots {
