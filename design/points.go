@@ -21,6 +21,9 @@ type closedLoop struct {
 	cl          tf.TF
 	final, half float64
 	m           statespace.Model
+	// decay is −max Re p over the closed-loop poles p (positive: stable);
+	// NaN when the poles were not computed (a half period from a hint).
+	decay float64
 }
 
 // closedAt returns the closed loop at x (cached), and false when it has no
@@ -49,18 +52,20 @@ func (p *problem) newClosedLoop(x float64) *closedLoop {
 	if err != nil || final == 0 || math.IsNaN(final) || math.IsInf(final, 0) {
 		return nil
 	}
-	half := p.halfHint
+	half, decay := p.halfHint, math.NaN()
 	if !(half > 0) {
 		poles, err := cl.Poles()
 		if err != nil {
 			return nil
 		}
-		best := math.Inf(-1)
+		best, top := math.Inf(-1), math.Inf(-1)
 		for _, q := range poles {
+			top = math.Max(top, real(q))
 			if imag(q) > 0 && real(q) > best {
 				best, half = real(q), math.Pi/imag(q)
 			}
 		}
+		decay = -top
 		if !(half > 0) {
 			return nil
 		}
@@ -69,7 +74,7 @@ func (p *problem) newClosedLoop(x float64) *closedLoop {
 	if err != nil || m.Order() == 0 {
 		return nil
 	}
-	return &closedLoop{cl: cl, final: final, half: half, m: m}
+	return &closedLoop{cl: cl, final: final, half: half, m: m, decay: decay}
 }
 
 // samples are y and y′ on the grid t_k = k·h, k = 0…n, with the states

@@ -754,10 +754,25 @@ func (p *problem) solveGeneric(req spec.Requirements, idx []int, res *Result) {
 		}
 		samples = append(samples, samplesIn(xs[j], xs[j+1], p.samples)...)
 	}
+	// Samples whose verdicts are certain without the step metrics
+	// (certify.go) are judged by slack bounds; every other value by the
+	// step metrics.
+	bounds := map[float64][]float64{}
+	for _, x := range samples {
+		if b, ok := p.stepBounds(req, x); ok {
+			bounds[x] = b
+		}
+	}
 	for i := range req {
 		slack := func(x float64) float64 {
 			s := Slack(p.eval(x, "generic", req).Results[i])
 			return math.Max(-1e100, math.Min(1e100, s))
+		}
+		sampleSlack := func(x float64) float64 {
+			if b, ok := bounds[x]; ok {
+				return b[i]
+			}
+			return slack(x)
 		}
 		var ivs []Interval
 		start := math.NaN()
@@ -765,7 +780,7 @@ func (p *problem) solveGeneric(req spec.Requirements, idx []int, res *Result) {
 		prevX := math.NaN()
 		prevS := 0.0
 		for j, x := range samples {
-			s := slack(x)
+			s := sampleSlack(x)
 			// A breakpoint (stability boundary) between samples ends a run.
 			if j > 0 {
 				if b, ok := breakBetween(xs, prevX, x); ok && !math.IsNaN(start) {
@@ -938,7 +953,13 @@ func (p *problem) bracketEnd(req spec.Requirements, i int, f func(float64) float
 	if x, label, ok := p.directEnd(req, i, f, xp, xf); ok {
 		return x, label
 	}
-	e := p.refine(f, a, b, fa, fb)
+	// fa, fb may be bounds (certify.go): Brent's method needs the values
+	// (cached where the samples were measured).
+	ea, eb := f(a), f(b)
+	if (ea < 0) != (fa < 0) || (eb < 0) != (fb < 0) {
+		ea, eb = fa, fb
+	}
+	e := p.refine(f, a, b, ea, eb)
 	return e, p.boundLabel(req, i, e)
 }
 

@@ -1,0 +1,63 @@
+package design
+
+import (
+	"testing"
+
+	"github.com/loopwise/loopwise/spec"
+	"github.com/loopwise/loopwise/tf"
+)
+
+// TestStepBounds checks every certificate of certify.go against the step
+// metrics (spec.CheckWith): at 40 values across the stable range of each
+// loop, wherever stepBounds certifies the verdicts, the requirement holds
+// exactly where the bound is non-negative. The loops are those of the
+// benchmark and two of the tests, with limits that make each certificate
+// occur.
+func TestStepBounds(t *testing.T) {
+	cases := []struct {
+		loop string
+		req  spec.Requirements
+	}{
+		{benchLoop, spec.Requirements{spec.MaxOvershootPct(30), spec.MaxRiseTimeSec(5), spec.MaxSettlingTimeSec(20)}},
+		{"(s+0.5)/(s*(s+1)*(s+4)*(s^2+2*s+10))", spec.Requirements{spec.MaxOvershootPct(15), spec.MaxRiseTimeSec(3), spec.MaxSettlingTimeSec(12)}},
+		{"4*(s+1)/(s*(s+2)*(s^2+s+4))", spec.Requirements{spec.MaxOvershootPct(20), spec.MaxRiseTimeSec(2), spec.MaxSettlingTimeSec(10)}},
+		{"1/(s*(s+1)*(s+2))", spec.Requirements{spec.MaxOvershootPct(5), spec.MaxRiseTimeSec(8), spec.MaxSettlingTimeSec(6)}},
+	}
+	certified := 0
+	for _, c := range cases {
+		v, err := Gain(tf.MustParse(c.loop))
+		if err != nil {
+			t.Fatal(err)
+		}
+		p, err := newProblem(v, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, st := range p.stable {
+			for _, x := range samplesIn(st.Lo, st.Hi, 40) {
+				b, ok := p.stepBounds(c.req, x)
+				if !ok {
+					continue
+				}
+				certified++
+				l, _ := v.LoopAt(x)
+				rep := spec.CheckWith(l, c.req, nil)
+				for i, r := range rep.Results {
+					if (b[i] >= 0) != r.Pass {
+						t.Errorf("%s at k = %v: %s certified with slack bound %v, step metrics: %v (pass %v)", c.loop, x, r.Name, b[i], r.Value, r.Pass)
+					}
+					// The bound is on the correct side of the slack.
+					if s := Slack(r); b[i] >= 0 && s < b[i] || b[i] < 0 && s > b[i] {
+						t.Errorf("%s at k = %v: %s slack %v beyond its bound %v", c.loop, x, r.Name, s, b[i])
+					}
+				}
+			}
+		}
+	}
+	// The certificates occur (near the stability boundaries); otherwise
+	// this test would check nothing.
+	if certified < 10 {
+		t.Errorf("only %d values certified", certified)
+	}
+	t.Logf("%d values certified", certified)
+}
