@@ -72,12 +72,36 @@ func (p *problem) stepBounds(req spec.Requirements, x float64) ([]float64, bool)
 	if !(m+33 <= maxCertifyPoints) {
 		return nil, false
 	}
-	g, ok := c.grid(h, int(m)+33) // two periods beyond the horizon
+	// The grid of eight half periods first (that of gridAt): it holds the
+	// first peaks, so where the overshoot cannot be shown to fail on it the
+	// longer grid is not computed.
+	g, ok := c.grid(h, 64)
 	if !ok {
 		return nil, false
 	}
 	out := make([]float64, len(req))
+	if !p.certify(req, c, g, keyOvershoot, out) {
+		return nil, false
+	}
+	if n := int(m) + 33; n > 64 { // two periods beyond the horizon
+		if g, ok = c.grid(h, n); !ok {
+			return nil, false
+		}
+	}
+	if !p.certify(req, c, g, "", out) {
+		return nil, false
+	}
+	return out, true
+}
+
+// certify sets out[i] to the slack bound of every requirement of req of
+// the given key (every other key when key is empty) from the grid g, and
+// reports whether each has a certificate there.
+func (p *problem) certify(req spec.Requirements, c *closedLoop, g samples, key string, out []float64) bool {
 	for i, r := range req {
+		if key != "" && r.Key() != key || key == "" && r.Key() == keyOvershoot {
+			continue
+		}
 		lim := r.Limit()
 		b := math.NaN()
 		switch r.Key() {
@@ -107,9 +131,9 @@ func (p *problem) stepBounds(req spec.Requirements, x float64) ([]float64, bool)
 			}
 		}
 		if math.IsNaN(b) {
-			return nil, false
+			return false
 		}
 		out[i] = b
 	}
-	return out, true
+	return true
 }
