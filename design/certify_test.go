@@ -61,3 +61,50 @@ func TestStepBounds(t *testing.T) {
 	}
 	t.Logf("%d values certified", certified)
 }
+
+// TestUnstableFails checks what solveExact assumes without measuring:
+// every requirement kind with an exact construction fails (spec.CheckWith)
+// at values where the closed loop is unstable, for a continuous and a
+// discrete loop, at 20 values in each unstable piece of the range.
+func TestUnstableFails(t *testing.T) {
+	disc, err := tf.ParseDiscrete("0.1*(z+0.9)/((z-1)*(z-0.7))", 0.1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	req := allNine(40, 6, 1.8, 0.3, 0.1, 20, 2, 10, 0.1)
+	checked := 0
+	for _, l := range []tf.TF{tf.MustParse(benchLoop), tf.MustParse("(s+0.5)/(s*(s+1)*(s+4)*(s^2+2*s+10))"), disc} {
+		v, err := Gain(l)
+		if err != nil {
+			t.Fatal(err)
+		}
+		p, err := newProblem(v, &Settings{Range: Range{0, 1e4}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		var exact spec.Requirements
+		for _, r := range req {
+			if _, ok := p.exactCandidates(r); ok {
+				exact = append(exact, r)
+			}
+		}
+		xs := p.breakpoints(nil)
+		for j := 0; j+1 < len(xs); j++ {
+			if p.isStable(midpoint(xs[j], xs[j+1])) {
+				continue
+			}
+			for _, x := range samplesIn(xs[j], xs[j+1], 20) {
+				lx, _ := v.LoopAt(x)
+				for _, r := range spec.CheckWith(lx, exact, nil).Results {
+					checked++
+					if r.Pass {
+						t.Errorf("%v at %v (unstable): %s passes (%v)", l, x, r.Name, r.Value)
+					}
+				}
+			}
+		}
+	}
+	if checked < 100 {
+		t.Errorf("only %d verdicts checked", checked)
+	}
+}

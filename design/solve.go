@@ -705,7 +705,18 @@ func (p *problem) solveExact(req spec.Requirements, idx []int, own [][]candidate
 	xs := p.breakpoints(all)
 	pass := make([][]bool, len(req))
 	for j := 0; j+1 < len(xs); j++ {
-		rep := p.eval(midpoint(xs[j], xs[j+1]), "exact", req)
+		x := midpoint(xs[j], xs[j+1])
+		if p.v.delay == 0 && !p.isStable(x) {
+			// Every kind with an exact construction fails where the
+			// closed loop is unstable (spec: margins, damping ratio and
+			// steady-state error of an unstable loop fail), and without
+			// dead time the stable set of locus is exact: no check.
+			for i := range req {
+				pass[i] = append(pass[i], false)
+			}
+			continue
+		}
+		rep := p.eval(x, "exact", req)
 		for i := range req {
 			pass[i] = append(pass[i], rep.Results[i].Pass)
 		}
