@@ -3,6 +3,8 @@ package design
 import (
 	"math"
 
+	"gonum.org/v1/gonum/mat"
+
 	"github.com/loopwise/loopwise/internal/statespace"
 	"github.com/loopwise/loopwise/tf"
 )
@@ -24,6 +26,11 @@ type closedLoop struct {
 	// decay is −max Re p over the closed-loop poles p (positive: stable);
 	// NaN when the poles were not computed (a half period from a hint).
 	decay float64
+	// The transition of the last grid step (Φ(h), Γ(h) for h = zohStep),
+	// kept for the next grid with the same step.
+	zohStep  float64
+	zohPhi   *mat.Dense
+	zohGamma []float64
 }
 
 // closedAt returns the closed loop at x (cached), and false when it has no
@@ -92,10 +99,17 @@ type samples struct {
 // response.Impulse, sharing one matrix exponential). False when the
 // transition cannot be computed or a value is not finite.
 func (c *closedLoop) grid(h float64, n int) (samples, bool) {
-	phiM, gamma, err := c.m.ZeroOrderHold(h)
-	if err != nil || n < 1 {
+	if n < 1 {
 		return samples{}, false
 	}
+	if h != c.zohStep || c.zohPhi == nil {
+		phi, gamma, err := c.m.ZeroOrderHold(h)
+		if err != nil {
+			return samples{}, false
+		}
+		c.zohStep, c.zohPhi, c.zohGamma = h, phi, gamma
+	}
+	phiM, gamma := c.zohPhi, c.zohGamma
 	N := c.m.Order()
 	phi := phiM.RawMatrix()
 	s := samples{t: make([]float64, n+1), y: make([]float64, n+1), dy: make([]float64, n+1),
