@@ -25,14 +25,7 @@ func TestStepBounds(t *testing.T) {
 	}
 	certified := 0
 	for _, c := range cases {
-		v, err := Gain(tf.MustParse(c.loop))
-		if err != nil {
-			t.Fatal(err)
-		}
-		p, err := newProblem(v, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
+		v, p := gainProblem(t, tf.MustParse(c.loop), nil)
 		for _, st := range p.stable {
 			for _, x := range samplesIn(st.Lo, st.Hi, 40) {
 				b, ok := p.stepBounds(c.req, x)
@@ -74,14 +67,7 @@ func TestUnstableFails(t *testing.T) {
 	req := allNine(40, 6, 1.8, 0.3, 0.1, 20, 2, 10, 0.1)
 	checked := 0
 	for _, l := range []tf.TF{tf.MustParse(benchLoop), tf.MustParse("(s+0.5)/(s*(s+1)*(s+4)*(s^2+2*s+10))"), disc} {
-		v, err := Gain(l)
-		if err != nil {
-			t.Fatal(err)
-		}
-		p, err := newProblem(v, &Settings{Range: Range{0, 1e4}})
-		if err != nil {
-			t.Fatal(err)
-		}
+		v, p := gainProblem(t, l, &Settings{Range: Range{0, 1e4}})
 		var exact spec.Requirements
 		for _, r := range req {
 			if _, ok := p.exactCandidates(r); ok {
@@ -107,4 +93,19 @@ func TestUnstableFails(t *testing.T) {
 	if checked < 100 {
 		t.Errorf("only %d verdicts checked", checked)
 	}
+}
+
+// gainProblem returns the gain of the loop l as the variable and the
+// problem of a Solve with the settings set.
+func gainProblem(t *testing.T, l tf.TF, set *Settings) (Variable, *problem) {
+	t.Helper()
+	v, err := Gain(l)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, err := newProblem(v, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return v, p
 }

@@ -17,14 +17,7 @@ import (
 // rounding of about 1e-13.
 func TestExtremumValue(t *testing.T) {
 	for _, c := range ratioLoops {
-		v, err := Gain(tf.MustParse(c.loop))
-		if err != nil {
-			t.Fatal(err)
-		}
-		p, err := newProblem(v, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
+		_, p := gainProblem(t, tf.MustParse(c.loop), nil)
 		n := 0
 		for _, x := range []float64{5, 15, 30, 45, 60, 70} {
 			cl, g, ok := p.gridAt(x)
