@@ -1,6 +1,8 @@
 package design
 
 import (
+	"fmt"
+	"math/rand/v2"
 	"testing"
 
 	"github.com/loopwise/loopwise/spec"
@@ -12,7 +14,7 @@ import (
 // loop, wherever stepBounds certifies the verdicts, the requirement holds
 // exactly where the bound is non-negative. The loops are those of the
 // benchmark and two of the tests, with limits that make each certificate
-// occur.
+// occur, and twelve random loops of order 5 with an integrator.
 func TestStepBounds(t *testing.T) {
 	cases := []struct {
 		loop string
@@ -22,6 +24,18 @@ func TestStepBounds(t *testing.T) {
 		{"(s+0.5)/(s*(s+1)*(s+4)*(s^2+2*s+10))", spec.Requirements{spec.MaxOvershootPct(15), spec.MaxRiseTimeSec(3), spec.MaxSettlingTimeSec(12)}},
 		{"4*(s+1)/(s*(s+2)*(s^2+s+4))", spec.Requirements{spec.MaxOvershootPct(20), spec.MaxRiseTimeSec(2), spec.MaxSettlingTimeSec(10)}},
 		{"1/(s*(s+1)*(s+2))", spec.Requirements{spec.MaxOvershootPct(5), spec.MaxRiseTimeSec(8), spec.MaxSettlingTimeSec(6)}},
+	}
+	// Random loops k·(s + z)/(s·(s + a)·(s² + 2ζωs + ω²)·(s + b)), fixed
+	// seed, with limits drawn around typical values.
+	rng := rand.New(rand.NewPCG(5, 11))
+	for range 12 {
+		z, a, b := 0.2+3*rng.Float64(), 0.3+3*rng.Float64(), 2+20*rng.Float64()
+		zeta, w := 0.05+0.6*rng.Float64(), 0.5+4*rng.Float64()
+		loop := fmt.Sprintf("(s+%.3g)/(s*(s+%.3g)*(s^2+%.3g*s+%.3g)*(s+%.3g))", z, a, 2*zeta*w, w*w, b)
+		cases = append(cases, struct {
+			loop string
+			req  spec.Requirements
+		}{loop, spec.Requirements{spec.MaxOvershootPct(5 + 40*rng.Float64()), spec.MaxRiseTimeSec(0.5 + 8*rng.Float64()), spec.MaxSettlingTimeSec(2 + 30*rng.Float64())}})
 	}
 	certified := 0
 	for _, c := range cases {
