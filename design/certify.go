@@ -27,7 +27,10 @@ import (
 // margin of 1e-9 relative, far above their rounding (about 1e-12) and
 // the root-finding accuracy of the step metrics (1e-13), so that
 // response.StepMetrics, which locates every extremum, cannot reach the
-// other verdict. A sample is taken from these certificates only when every
+// other verdict. (StepMetrics could also fail to measure — ErrNotSettled —
+// and fail every requirement, but only for a response still outside
+// band/100 after 4⁷·10 time constants of its slowest pole, which a stable
+// loop never is.) A sample is taken from these certificates only when every
 // bracketed requirement has one there (otherwise one StepMetrics call is
 // needed anyway); the numbers returned are bounds on the slacks with the
 // certain sign, used to decide met or not met between samples. Every end
