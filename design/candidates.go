@@ -219,8 +219,9 @@ func (p *problem) peakSensitivityCandidates(ms float64) []candidate {
 // dead time tau has a closed-loop pole on the boundary: N_v(jω)·e^(−jωτ) +
 // D_v(jω) = 0. Only frequencies below 2π/τ matter (the delay margin of a
 // crossover at ω is below 2π/ω). v is real where h(ω) = Im(U·conj W) = 0,
-// U = N₀e + D₀, W = N₁e + D₁; h is scanned on 4000 points and every sign
-// change refined by Brent's method (the equation is transcendental).
+// U = N₀e + D₀, W = N₁e + D₁ (e = e^(−jωτ)); h is scanned on 4000 points
+// and every sign change refined by Brent's method (the equation is
+// transcendental).
 func (p *problem) delayMarginCandidates(tau float64) []candidate {
 	wmax := 2 * math.Pi / tau
 	if p.v.ts > 0 {
@@ -241,6 +242,22 @@ func (p *problem) delayMarginCandidates(tau float64) []candidate {
 	h := func(w float64) float64 {
 		u, ww := uw(w)
 		return imag(u * cmplx.Conj(ww))
+	}
+	if p.v.ts == 0 {
+		// In continuous time U·conj W = N₀N̄₁ + D₀D̄₁ + X·e + Y·ē with
+		// X = N₀D̄₁, Y = D₀N̄₁, e = e^(−jωτ), so h is a combination of
+		// three real polynomials in ω with cos ωτ and sin ωτ:
+		// h = P + (Im X + Im Y)·cos ωτ + (Re Y − Re X)·sin ωτ. They are
+		// formed once, which makes a frequency of the scan three real
+		// Horner evaluations and one sincos.
+		n0, n1, d0, d1 := onAxis(p.v.num0), onAxis(p.v.num1), onAxis(p.v.den0), onAxis(p.v.den1)
+		pp := imConj(n0, n1).Add(imConj(d0, d1))
+		pc := imConj(n0, d1).Add(imConj(d0, n1))
+		ps := reConj(d0, n1).Sub(reConj(n0, d1))
+		h = func(w float64) float64 {
+			s, c := math.Sincos(w * tau)
+			return pp.Eval(w) + pc.Eval(w)*c + ps.Eval(w)*s
+		}
 	}
 	const n = 4000
 	var out []candidate

@@ -40,8 +40,9 @@
 //     axis;
 //   - delay margin τ: N_v(jω)e^(−jωτ) + D_v(jω) = 0 for ω < 2π/τ, a
 //     transcendental equation: its imaginary part is scanned on 4000
-//     frequencies and every sign change refined by Brent's method; plus the
-//     jumps of the phase margin above;
+//     frequencies (in continuous time as three real polynomials in ω
+//     combined with cos ωτ and sin ωτ) and every sign change refined by
+//     Brent's method; plus the jumps of the phase margin above;
 //   - damping ratio ζ (continuous time): locus.DampingCrossings;
 //   - steady-state error e: (1 − e)·D_v(0) − e·N_v(0) = 0, linear in v.
 //
@@ -53,7 +54,15 @@
 // with dead time have no such construction: each piece between stability
 // boundaries is sampled (Settings.Samples values) and every change of the
 // verdict between neighbours is located as follows. RequirementSet.Method
-// says which method gave a set ("bracketing" for all of these).
+// says which method gave a set ("bracketing" for all of these). A sample
+// is judged by response.StepMetrics (through spec.CheckWith) unless exact
+// values of its step response on a grid prove every step-response verdict
+// there (certify.go: the overshoot fails, the rise time holds because y
+// reaches 90 % before T, the settling time fails because y is outside the
+// band after T, each with a margin of 1e-9 relative) — the usual case near
+// a stability boundary, where the step metrics are the most expensive.
+// Pieces where the closed loop is unstable fail every exactly constructed
+// kind without a check (no dead time).
 //
 //   - Settling time T_s ≤ T (continuous time, no dead time): T_s ≤ T
 //     exactly when B = max over t ≥ T of |y − y_∞|/|y_∞| is at most the
@@ -63,8 +72,11 @@
 //     response at located extrema (jump.go): one realisation of the closed
 //     loop per value, y and y′ on a grid from one zero-order-hold
 //     transition, values between grid points from the grid state and one
-//     short transition, extrema and the 10 % time by Newton's method
-//     safeguarded by bisection (points.go).
+//     short transition, the 10 % time by Newton's method safeguarded by
+//     bisection, the value at an extremum from one exact evaluation (y,
+//     y′, y″) at the extremum of the cubic Hermite interpolant of y′ on its
+//     grid cell and the quadratic model there (Newton's method when its
+//     step exceeds 1e-3 of the cell) (points.go).
 //   - Rise time ≤ T (same loops): it holds exactly when the largest value
 //     of y/y_∞ up to t₁₀ + T reaches 90 %; the same construction locates
 //     both its continuous ends and its jumps.
@@ -114,14 +126,20 @@
 // quantities are polished to 1e-11 relative (or confirmed to 1e-10 of the
 // limit); jumps are located to 1e-6 (confirmed on both sides) or, by
 // bisection, to 1e-5. TestDirectEnds checks the directly located ends
-// against plain bisection on spec.Check.
+// against plain bisection on spec.Check; TestStepBounds every certified
+// sample verdict against spec.CheckWith; TestExtremumValue the extremum
+// values against Newton's method on the exact y′ (1e-12 of the largest
+// |y|); TestUnstableFails the verdicts assumed on unstable pieces.
+//
 // Measured (testdata/benchmarks.md, BenchmarkRatio, CPU time of the
-// thread): the one-variable design of an order-10 loop with all nine
-// requirement kinds costs about 33–36 times one margins.Compute plus
-// response.StepMetrics of the same loop (it was 130–350 before the
-// constructions above); for an order-6 PI loop whose baseline is very
-// cheap (0.13 ms) it costs about 6.3 ms, 49–52 times the baseline. The
-// plane of a PI loop of order 8 takes about 4 ms on one core.
+// thread, side by side with the baseline in one process): the
+// one-variable design of an order-10 loop with all nine requirement kinds
+// costs about 28–30 times one margins.Compute plus response.StepMetrics
+// of the same loop (37–38 for the code before the certificates, measured
+// in the same session; 130–350 before the constructions above); for an
+// order-6 PI loop whose baseline is very cheap (0.13 ms) it costs about
+// 5.0–5.5 ms, 36–41 times the baseline (48–54 before). The plane of a PI
+// loop of order 8 takes about 4.5 ms on one core.
 //
 // # Conventions
 //

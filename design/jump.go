@@ -98,8 +98,7 @@ func gridPeak(c *closedLoop, g samples, lo, hi int, val func(float64) float64, i
 		if i < 0 || k == 1 && topVal[1] < topVal[0]-0.05*math.Abs(topVal[0]) {
 			continue
 		}
-		te := newtonRoot(func(t float64) (float64, float64) { _, d, dd := c.between2(g, i, t); return d, dd }, g.t[i], g.t[i+1], g.dy[i], g.dy[i+1], extremumTol)
-		y, _ := c.between(g, i, te)
+		y := c.extremumValue(g, i)
 		if math.IsNaN(y) {
 			return 0, false, false
 		}
@@ -212,8 +211,7 @@ func (p *problem) overshootAt(x float64) (float64, bool) {
 	if at < 0 {
 		return 0, false
 	}
-	te := newtonRoot(func(t float64) (float64, float64) { _, d, dd := c.between2(g, at, t); return d, dd }, g.t[at], g.t[at+1], g.dy[at], g.dy[at+1], extremumTol)
-	y, _ := c.between(g, at, te)
+	y := c.extremumValue(g, at)
 	y /= final
 	if math.IsNaN(y) {
 		return 0, false

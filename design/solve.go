@@ -705,7 +705,18 @@ func (p *problem) solveExact(req spec.Requirements, idx []int, own [][]candidate
 	xs := p.breakpoints(all)
 	pass := make([][]bool, len(req))
 	for j := 0; j+1 < len(xs); j++ {
-		rep := p.eval(midpoint(xs[j], xs[j+1]), "exact", req)
+		x := midpoint(xs[j], xs[j+1])
+		if p.v.delay == 0 && !p.isStable(x) {
+			// Every kind with an exact construction fails where the
+			// closed loop is unstable (spec: margins, damping ratio and
+			// steady-state error of an unstable loop fail), and without
+			// dead time the stable set of locus is exact: no check.
+			for i := range req {
+				pass[i] = append(pass[i], false)
+			}
+			continue
+		}
+		rep := p.eval(x, "exact", req)
 		for i := range req {
 			pass[i] = append(pass[i], rep.Results[i].Pass)
 		}
@@ -754,10 +765,25 @@ func (p *problem) solveGeneric(req spec.Requirements, idx []int, res *Result) {
 		}
 		samples = append(samples, samplesIn(xs[j], xs[j+1], p.samples)...)
 	}
+	// Samples whose verdicts are certain without the step metrics
+	// (certify.go) are judged by slack bounds; every other value by the
+	// step metrics.
+	bounds := map[float64][]float64{}
+	for _, x := range samples {
+		if b, ok := p.stepBounds(req, x); ok {
+			bounds[x] = b
+		}
+	}
 	for i := range req {
 		slack := func(x float64) float64 {
 			s := Slack(p.eval(x, "generic", req).Results[i])
 			return math.Max(-1e100, math.Min(1e100, s))
+		}
+		sampleSlack := func(x float64) float64 {
+			if b, ok := bounds[x]; ok {
+				return b[i]
+			}
+			return slack(x)
 		}
 		var ivs []Interval
 		start := math.NaN()
@@ -765,7 +791,7 @@ func (p *problem) solveGeneric(req spec.Requirements, idx []int, res *Result) {
 		prevX := math.NaN()
 		prevS := 0.0
 		for j, x := range samples {
-			s := slack(x)
+			s := sampleSlack(x)
 			// A breakpoint (stability boundary) between samples ends a run.
 			if j > 0 {
 				if b, ok := breakBetween(xs, prevX, x); ok && !math.IsNaN(start) {
@@ -938,7 +964,13 @@ func (p *problem) bracketEnd(req spec.Requirements, i int, f func(float64) float
 	if x, label, ok := p.directEnd(req, i, f, xp, xf); ok {
 		return x, label
 	}
-	e := p.refine(f, a, b, fa, fb)
+	// fa, fb may be bounds (certify.go): Brent's method needs the values
+	// (cached where the samples were measured).
+	ea, eb := f(a), f(b)
+	if (ea < 0) != (fa < 0) || (eb < 0) != (fb < 0) {
+		ea, eb = fa, fb
+	}
+	e := p.refine(f, a, b, ea, eb)
 	return e, p.boundLabel(req, i, e)
 }
 
