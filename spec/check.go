@@ -169,8 +169,10 @@ func Check(loop tf.TF, req Requirements) Report {
 // CheckWith evaluates the loop transfer function loop against every
 // requirement and returns one Result per requirement, in order. Only the
 // analyses the requirements need are run: margins.Compute for the margins
-// and the peak sensitivity, the closed-loop poles for the damping ratio,
-// response.StepMetrics of L/(1 + L) for the step metrics and
+// and the peak sensitivity, the closed-loop poles for the damping ratio
+// (with dead time: the dominant exact roots, see the package
+// documentation), response.StepMetrics of L/(1 + L) for the step metrics
+// (with dead time: response.ClosedLoopStepMetrics) and
 // response.SteadyState for the steady-state error. A failing analysis
 // fails the requirements that need it, with the reason in the message.
 // Invalid settings fail every requirement with ErrInvalidSettings.

@@ -164,6 +164,17 @@ func TestDominantSettings(t *testing.T) {
 	if !strings.Contains(r.Message, "Padé") || !strings.Contains(r.Message, "biproper") {
 		t.Errorf("biproper: %s", r.Message)
 	}
+	// A closed loop from reference to output given as a transfer function
+	// keeps Padé for the step metrics, and says why; its damping ratio is
+	// still that of the exact roots of 1 + L.
+	ro := spec.CheckWith(loop, spec.Requirements{spec.MaxOvershootPct(100), spec.MinDampingRatio(0.1)},
+		&spec.Settings{ReferenceToOutput: tf.MustParse("exp(-s)/(s+1)")}).Results
+	if !strings.Contains(ro[0].Message, "Padé") || !strings.Contains(ro[0].Message, "given as a transfer function") {
+		t.Errorf("reference to output, step: %s", ro[0].Message)
+	}
+	if !strings.Contains(ro[1].Message, "dead time exact") {
+		t.Errorf("reference to output, damping: %s", ro[1].Message)
+	}
 	dz, err := tf.ParseDiscrete("1/(z-0.5)", 0.1)
 	if err != nil {
 		t.Fatal(err)
@@ -174,6 +185,48 @@ func TestDominantSettings(t *testing.T) {
 	for _, l := range []tf.TF{tf.MustParse("1/(s+1)"), bi, dz} {
 		if _, err := spec.DominantClosedLoopRoots(l, nil); !errors.Is(err, spec.ErrInvalidSettings) {
 			t.Errorf("DominantClosedLoopRoots(%v): err %v", l, err)
+		}
+	}
+}
+
+// TestDelayedStepExact compares the step-response requirements of
+// a·e^(−sτ)/s, whose dead time is kept exact by default, with the closed
+// form of the method of steps (testdata/delayed_step.py, mpmath at 50
+// digits). Tolerance 1e-9 relative: the accuracy package response states
+// for the exact delayed step metrics. With PadeDeadTime the values differ
+// (the Padé closed loop), and the messages say which was used.
+func TestDelayedStepExact(t *testing.T) {
+	b, err := os.ReadFile("testdata/delayed_step.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var cs []struct {
+		A         float64 `json:"a"`
+		Tau       float64 `json:"tau"`
+		Overshoot string  `json:"overshoot_pct"`
+		Rise      string  `json:"rise_time_sec"`
+		Settling  string  `json:"settling_time_sec"`
+	}
+	if err := json.Unmarshal(b, &cs); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range cs {
+		loop := delayedIntegrator(t, c.A, c.Tau)
+		req := spec.Requirements{spec.MaxOvershootPct(100), spec.MaxRiseTimeSec(100), spec.MaxSettlingTimeSec(100)}
+		want := []float64{float(t, c.Overshoot), float(t, c.Rise), float(t, c.Settling)}
+		exact := spec.Check(loop, req)
+		pade := spec.CheckWith(loop, req, &spec.Settings{PadeDeadTime: true})
+		for i, r := range exact.Results {
+			if e := math.Abs(r.Value-want[i]) / want[i]; !(e <= 1e-9) || !r.Pass {
+				t.Errorf("%v %s: %v, want %v (rel. error %.2g), pass %v", loop, r.Name, r.Value, want[i], e, r.Pass)
+			}
+			if !strings.Contains(r.Message, "dead time exact") {
+				t.Errorf("message: %s", r.Message)
+			}
+			p := pade.Results[i]
+			if !strings.Contains(p.Message, "Padé") || p.Value == r.Value {
+				t.Errorf("Padé: value %v (exact %v): %s", p.Value, r.Value, p.Message)
+			}
 		}
 	}
 }
