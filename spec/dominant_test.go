@@ -156,7 +156,7 @@ func TestDominantSettings(t *testing.T) {
 		}
 	}
 	r := spec.CheckWith(loop, req, &spec.Settings{PadeDeadTime: true}).Results[0]
-	if !strings.Contains(r.Message, "Padé") || !strings.Contains(r.Message, "as the settings ask") {
+	if !strings.Contains(r.Message, "Padé") || !strings.Contains(r.Message, "as requested") {
 		t.Errorf("PadeDeadTime: %s", r.Message)
 	}
 	bi := tf.MustParse("exp(-s)*(s+1)/(s+2)")
