@@ -44,9 +44,9 @@ type planeSpec struct {
 	freqs       []float64
 	autoGrid    bool
 	key         []keyEntry
-	artPoles    []poly.Root // poles of an approximation (Approximation), drawn as artefacts
-	artZeros    []poly.Root // zeros of an approximation
-	artName     string      // the approximation's name in the key
+	artPoles    []poly.Root  // poles of an approximation (Approximation), drawn as artefacts
+	artZeros    []poly.Root  // zeros of an approximation
+	artName     string       // the approximation's name in the key
 	mustSee     []complex128 // points the automatic view must show
 	window      *Window      // fixed view; nil = automatic
 }
