@@ -28,16 +28,21 @@ type dominantCase struct {
 	Worst    [2]string `json:"worst"`
 }
 
-func loadDominant(t *testing.T) []dominantCase {
+// readJSON decodes the file testdata/name into v.
+func readJSON(t *testing.T, name string, v any) {
 	t.Helper()
-	b, err := os.ReadFile("testdata/dominant_lambertw.json")
+	b, err := os.ReadFile("testdata/" + name)
+	if err == nil {
+		err = json.Unmarshal(b, v)
+	}
 	if err != nil {
 		t.Fatal(err)
 	}
+}
+
+func loadDominant(t *testing.T) []dominantCase {
 	var cs []dominantCase
-	if err := json.Unmarshal(b, &cs); err != nil {
-		t.Fatal(err)
-	}
+	readJSON(t, "dominant_lambertw.json", &cs)
 	return cs
 }
 
@@ -196,10 +201,6 @@ func TestDominantSettings(t *testing.T) {
 // for the exact delayed step metrics. With PadeDeadTime the values differ
 // (the Padé closed loop), and the messages say which was used.
 func TestDelayedStepExact(t *testing.T) {
-	b, err := os.ReadFile("testdata/delayed_step.json")
-	if err != nil {
-		t.Fatal(err)
-	}
 	var cs []struct {
 		A         float64 `json:"a"`
 		Tau       float64 `json:"tau"`
@@ -207,9 +208,7 @@ func TestDelayedStepExact(t *testing.T) {
 		Rise      string  `json:"rise_time_sec"`
 		Settling  string  `json:"settling_time_sec"`
 	}
-	if err := json.Unmarshal(b, &cs); err != nil {
-		t.Fatal(err)
-	}
+	readJSON(t, "delayed_step.json", &cs)
 	for _, c := range cs {
 		loop := delayedIntegrator(t, c.A, c.Tau)
 		req := spec.Requirements{spec.MaxOvershootPct(100), spec.MaxRiseTimeSec(100), spec.MaxSettlingTimeSec(100)}
