@@ -64,6 +64,16 @@
 // exact delayed step response (response.ClosedLoopStepMetrics, the method
 // of steps).
 //
+// Accuracy and cost: ζ over the dominant set agrees with the Lambert-W
+// closed form of s + a·e^(−sτ) (mpmath, 50 digits) to 1e-11, and the
+// exact step metrics with the method-of-steps closed form to 1e-9
+// relative (see the tests). The exact damping check costs more than the
+// Padé(6) poles it replaces, mostly in the argument-principle count:
+// BenchmarkDampingDeadTime (testdata/bench_damping.txt, one run, fastest
+// of three) measured 1.6 ms against 30 µs for e^(−s)/s, 0.39 ms against
+// 44 µs for a PI loop on two lags, 19 ms against 64 µs for an order-6
+// loop.
+//
 // A Padé approximation of Settings.PadeOrder replaces the dead time for the
 // damping ratio and the step metrics when Settings.PadeDeadTime asks for
 // it, for a biproper loop (with dead time its closed loop is of neutral
