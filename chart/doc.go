@@ -59,7 +59,12 @@
 // eight times farther out than the rest (the poles and zeros of a Padé
 // approximation of dead time, say) are left out of the view and counted
 // in the key, unless the first crossing of the stability boundary lies
-// among them. PlaneSettings.Detail adds a zoomed panel for a small group
+// among them. When PlaneSettings.Approximation names the poles and zeros
+// an approximation added (the Padé approximation of dead time), they are
+// drawn as artefacts (a small grey + and ○, with their own key entries,
+// never as the plant's × and ○), and the view frames only the points within
+// half the modulus of the nearest of them, where the approximation is
+// faithful; a note under the figure says so. PlaneSettings.Detail adds a zoomed panel for a small group
 // of points near the origin, and one is added unasked where marks crowd
 // (PlaneSettings.Detail says when); PlaneSettings.Window fixes the view.
 // The key of a complex plane stands right of the panels, outside the data,

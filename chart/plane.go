@@ -44,6 +44,9 @@ type planeSpec struct {
 	freqs       []float64
 	autoGrid    bool
 	key         []keyEntry
+	artPoles    []poly.Root  // poles of an approximation (Approximation), drawn as artefacts
+	artZeros    []poly.Root  // zeros of an approximation
+	artName     string       // the approximation's name in the key
 	mustSee     []complex128 // points the automatic view must show
 	window      *Window      // fixed view; nil = automatic
 }
@@ -74,8 +77,22 @@ func (s *planeSpec) keyPoints() []complex128 {
 	for _, a := range s.also {
 		key = append(key, a...)
 	}
-	if s.hasAsym {
+	if s.hasAsym && len(s.artPoles)+len(s.artZeros) == 0 {
+		// (An approximation's poles and zeros move the centroid: it is
+		// not framed then, like them.)
 		key = append(key, complex(s.centroid, 0))
+	}
+	if reach := s.artefactReach(); reach > 0 {
+		// With an approximation, frame the region where it is faithful:
+		// the points within half the modulus of its nearest pole or zero,
+		// and the points the view must show.
+		kept := key[:0:0]
+		for _, z := range key {
+			if cmplx.Abs(z) < reach {
+				kept = append(kept, z)
+			}
+		}
+		key = append(kept, s.mustSee...)
 	}
 	if len(key) == 0 && len(s.branches) > 0 {
 		// Nothing special to frame: frame the branches.
@@ -84,6 +101,22 @@ func (s *planeSpec) keyPoints() []complex128 {
 		}
 	}
 	return key
+}
+
+// artefactReach returns half the smallest modulus of the approximation's
+// poles and zeros (0 without them): the automatic view frames the points
+// within it, the region where the approximation is faithful.
+func (s *planeSpec) artefactReach() float64 {
+	r := math.Inf(1)
+	for _, a := range [][]poly.Root{s.artPoles, s.artZeros} {
+		for _, z := range a {
+			r = math.Min(r, cmplx.Abs(z.Value))
+		}
+	}
+	if math.IsInf(r, 1) {
+		return 0
+	}
+	return r / 2
 }
 
 // view returns the axis limits and the number of key points left out of
@@ -411,6 +444,22 @@ func (s *planeSpec) figure() (*Figure, error) {
 		}
 	}
 
+	for _, a := range []struct {
+		roots []poly.Root
+		glyph draw.GlyphStyle
+	}{{s.artPoles, artefactPoleGlyph()}, {s.artZeros, artefactZeroGlyph()}} {
+		if len(a.roots) == 0 {
+			continue
+		}
+		xs, ys, _ := splitRoots(a.roots)
+		m, _ := NewMarks(xs, ys)
+		m.GlyphStyle = a.glyph
+		p.Add(m)
+		for i := range xs {
+			avoid.addPoint(xs[i], ys[i])
+		}
+	}
+
 	layer := &textLayer{Avoid: avoid}
 	layer.Notes = append(layer.Notes, &annotations{Notes: notes,
 		Style:  th.textStyle(th.FontSizeNote, false, draw.XLeft, draw.YBottom),
@@ -523,6 +572,23 @@ func (s *planeSpec) boundedBranchPoints(key []complex128) []complex128 {
 		}
 	}
 	return out
+}
+
+// artefactGrey is the colour of an approximation's poles and zeros: a
+// neutral grey, apart from the black of the plant's and the palette of the
+// branches.
+var artefactGrey = color.NRGBA{R: 0x80, G: 0x80, B: 0x80, A: 0xff}
+
+// artefactPoleGlyph is the mark of an approximation's pole: a small grey +
+// (the plant's poles are black ×).
+func artefactPoleGlyph() draw.GlyphStyle {
+	return draw.GlyphStyle{Color: artefactGrey, Radius: vg.Points(3.5), Shape: draw.PlusGlyph{}}
+}
+
+// artefactZeroGlyph is the mark of an approximation's zero: a small grey
+// ring (the plant's zeros are larger black rings).
+func artefactZeroGlyph() draw.GlyphStyle {
+	return draw.GlyphStyle{Color: artefactGrey, Radius: vg.Points(2.8), Shape: draw.RingGlyph{}}
 }
 
 func poleGlyph() draw.GlyphStyle {

@@ -2,6 +2,8 @@ package chart
 
 import (
 	"fmt"
+	"math"
+	"math/cmplx"
 
 	"github.com/loopwise/loopwise/poly"
 	"github.com/loopwise/loopwise/tf"
@@ -46,6 +48,80 @@ type PlaneSettings struct {
 	// chosen from the points that matter (see the package documentation);
 	// it is then widened on one axis so that both axes have the same scale.
 	Window *Window
+	// Approximation, if not nil, names the poles and zeros that an
+	// approximation added to the drawn loop (the Padé approximation of dead
+	// time): they are drawn as approximation artefacts, never as the
+	// plant's (see Approximation).
+	Approximation *Approximation
+}
+
+// Approximation describes poles and zeros that are artefacts of an
+// approximation rather than the plant's: a figure's pole or zero within
+// 1e-6·max(1, |z|) of one of them is drawn with its own mark (a small grey
+// + for a pole, a small grey ○ for a zero), named in the key as the
+// approximation's, and left out of the points the automatic view frames
+// (with the asymptotes' centroid, which they move), so that the default
+// view shows the plant's region and not the approximation's far poles:
+// the automatic view then frames only the points (poles, zeros, break
+// points, crossings, marked closed-loop poles) within half the modulus of
+// the approximation's nearest pole or zero — the region where it is
+// faithful — and the first crossing of the stability boundary.
+type Approximation struct {
+	// Name names the approximation in the key, e.g. "Padé approximation
+	// of the dead time". If empty, "approximation".
+	Name string
+	// Poles and Zeros are the approximation's own poles and zeros.
+	Poles, Zeros []complex128
+}
+
+// artefactTol is the distance, relative to max(1, |z|), within which a pole
+// or zero is taken for the approximation's: far above the rounding of the
+// roots of the product polynomial, far below any plant–artefact distance
+// worth drawing apart.
+const artefactTol = 1e-6
+
+// split returns the roots of rs that match one of the points of want, and
+// the others.
+func splitArtefacts(rs []poly.Root, want []complex128) (art, rest []poly.Root) {
+	for _, r := range rs {
+		hit := false
+		for _, z := range want {
+			if cmplx.Abs(r.Value-z) <= artefactTol*math.Max(1, cmplx.Abs(z)) {
+				hit = true
+				break
+			}
+		}
+		if hit {
+			art = append(art, r)
+		} else {
+			rest = append(rest, r)
+		}
+	}
+	return art, rest
+}
+
+// artefactNote returns the line under the figure that says where the
+// approximation's poles and zeros are ("" without them).
+func (s *planeSpec) artefactNote() string {
+	r := s.artefactReach()
+	if r == 0 || s.window != nil {
+		return ""
+	}
+	return fmt.Sprintf("the view frames the points with |s| < %s rad/s, where the %s is faithful; its own %d poles and %d zeros lie beyond and are not the plant's",
+		formatNumber(r, 3), s.artName, len(s.artPoles), len(s.artZeros))
+}
+
+// artefactKeys returns the key entries of the approximation's poles and
+// zeros in the figure.
+func (s *planeSpec) artefactKeys() []keyEntry {
+	var out []keyEntry
+	if len(s.artPoles) > 0 {
+		out = append(out, keyEntry{Text: "pole of the " + s.artName + " (artefact, not the plant's)", Glyph: ptr(artefactPoleGlyph())})
+	}
+	if len(s.artZeros) > 0 {
+		out = append(out, keyEntry{Text: "zero of the " + s.artName + " (artefact, not the plant's)", Glyph: ptr(artefactZeroGlyph())})
+	}
+	return out
 }
 
 // Window is a rectangle of the complex plane.
@@ -71,6 +147,13 @@ func (s *PlaneSettings) check() error {
 		if !finite(w.RealMin) || !finite(w.RealMax) || !finite(w.ImagMin) || !finite(w.ImagMax) ||
 			!(w.RealMin < w.RealMax) || !(w.ImagMin < w.ImagMax) {
 			return fmt.Errorf("%w: Window %+v, want finite bounds with min < max", ErrSettings, *w)
+		}
+	}
+	if a := s.Approximation; a != nil {
+		for i, z := range append(append([]complex128(nil), a.Poles...), a.Zeros...) {
+			if !finite(real(z)) || !finite(imag(z)) {
+				return fmt.Errorf("%w: Approximation point %d (poles, then zeros) is %v", ErrNotFinite, i, z)
+			}
 		}
 	}
 	for i, w := range s.NaturalFrequenciesRadPerSec {
@@ -121,15 +204,22 @@ func PoleZero(g tf.TF, set *PlaneSettings) (*Figure, error) {
 	}
 	spec.applySettings(set)
 	if !spec.keyHidden(set) {
-		if len(poles) > 0 {
+		if len(spec.poles) > 0 {
 			spec.key = append(spec.key, keyEntry{Text: "pole", Glyph: ptr(poleGlyph())})
 		}
-		if len(zeros) > 0 {
+		if len(spec.zeros) > 0 {
 			spec.key = append(spec.key, keyEntry{Text: "zero", Glyph: ptr(zeroGlyph())})
 		}
+		spec.key = append(spec.key, spec.artefactKeys()...)
 		spec.key = append(spec.key, spec.stableKey())
 	}
-	return spec.figureWithDetail(set)
+	f, err := spec.figureWithDetail(set)
+	if err == nil {
+		if n := spec.artefactNote(); n != "" {
+			f.Notes = append(f.Notes, n)
+		}
+	}
+	return f, err
 }
 
 func ptr[T any](v T) *T { return &v }
@@ -146,6 +236,14 @@ func (s *planeSpec) applySettings(set *PlaneSettings) {
 	s.freqs = set.NaturalFrequenciesRadPerSec
 	s.autoGrid = set.Grid
 	s.window = set.Window
+	if a := set.Approximation; a != nil {
+		s.artName = a.Name
+		if s.artName == "" {
+			s.artName = "approximation"
+		}
+		s.artPoles, s.poles = splitArtefacts(s.poles, a.Poles)
+		s.artZeros, s.zeros = splitArtefacts(s.zeros, a.Zeros)
+	}
 }
 
 func (s *planeSpec) keyHidden(set *PlaneSettings) bool { return set != nil && set.HideKey }

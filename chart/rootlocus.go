@@ -199,9 +199,10 @@ func RootLocus(l locus.Locus, set *LocusSettings) (*Figure, error) {
 		// on the locus.
 		poleText, zeroText := startEndWords(name, a.Range)
 		spec.key = append(spec.key, keyEntry{Text: poleText, Glyph: ptr(poleGlyph())})
-		if len(a.Zeros) > 0 {
+		if len(spec.zeros) > 0 {
 			spec.key = append(spec.key, keyEntry{Text: zeroText, Glyph: ptr(zeroGlyph())})
 		}
+		spec.key = append(spec.key, spec.artefactKeys()...)
 		if len(spec.breaks) > 0 {
 			spec.key = append(spec.key, keyEntry{Text: "break point", Glyph: ptr(breakGlyph())})
 		}
@@ -232,6 +233,9 @@ func RootLocus(l locus.Locus, set *LocusSettings) (*Figure, error) {
 	}
 	// Approximations and special situations recorded by the analysis.
 	f.Notes = append(f.Notes, a.Notes...)
+	if n := spec.artefactNote(); n != "" {
+		f.Notes = append(f.Notes, n)
+	}
 	return f, nil
 }
 

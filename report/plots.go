@@ -7,6 +7,7 @@ import (
 	"github.com/loopwise/loopwise/chart"
 	"github.com/loopwise/loopwise/locus"
 	"github.com/loopwise/loopwise/margins"
+	"github.com/loopwise/loopwise/tf"
 )
 
 // render draws fig as SVG and PNG into a figure of the report.
@@ -70,7 +71,7 @@ func (a *analysis) plots() []Figure {
 					mark = &chart.LocusMark{Value: value, Poles: poles}
 				}
 			}
-			return chart.RootLocus(l, &chart.LocusSettings{PlaneSettings: chart.PlaneSettings{Grid: true}, Mark: mark})
+			return chart.RootLocus(l, &chart.LocusSettings{PlaneSettings: chart.PlaneSettings{Grid: true, Approximation: padeArtefacts(a.locusFor)}, Mark: mark})
 		})
 
 	add("Frequency response", "frequency-response",
@@ -114,13 +115,49 @@ func (a *analysis) plots() []Figure {
 		"Open-loop poles (×) and zeros (○) of L with lines of constant damping; the shaded region is where poles are stable.",
 		func() (*chart.Figure, error) {
 			l := m.open.WithoutDelay()
-			if m.open.IsDiscrete() && a.rational.DelaySec() == 0 {
+			set := &chart.PlaneSettings{Grid: true, Title: "Pole–zero map of the open loop L"}
+			switch {
+			case m.open.IsDiscrete() && a.rational.DelaySec() == 0:
 				l = a.rational
+			case a.dead == nil && !m.delayIgnored && a.rational.DelaySec() == 0 && m.open.DelaySec() > 0:
+				// Padé mode: the loop analysed is the rational one; its
+				// approximation's poles and zeros are marked as such.
+				l = a.rational
+				set.Approximation = padeArtefacts(m.open)
+				set.Title += " with its dead time by a Padé approximation"
 			}
-			return chart.PoleZero(l, &chart.PlaneSettings{Grid: true, Title: "Pole–zero map of the open loop L"})
+			return chart.PoleZero(l, set)
 		})
 	a.closedLoopPlots(add) // closedloop.go
 	a.designPlots(add)     // design.go
 	a.robustPlots(add)     // robust.go
 	return figs
+}
+
+// padeArtefacts returns the poles and zeros of the Padé approximation of
+// order padeOrder that replaces the dead time of the continuous loop l in
+// the Padé-mode figures (the locus traced by locus.Trace, the rational
+// loop), or nil when l has no dead time or is discrete. They are drawn as
+// approximation artefacts, never as the plant's (chart.Approximation).
+func padeArtefacts(l tf.TF) *chart.Approximation {
+	tau := l.DelaySec()
+	if tau <= 0 || l.IsDiscrete() {
+		return nil
+	}
+	p, err := tf.New([]float64{1}, []float64{1})
+	if err == nil {
+		p, err = p.WithDelay(tau)
+	}
+	if err == nil {
+		p, err = p.Pade(padeOrder)
+	}
+	if err != nil {
+		return nil
+	}
+	poles, err1 := p.Den().Roots()
+	zeros, err2 := p.Num().Roots()
+	if err1 != nil || err2 != nil {
+		return nil
+	}
+	return &chart.Approximation{Name: fmt.Sprintf("Padé approximation of the dead time (order %d)", padeOrder), Poles: poles, Zeros: zeros}
 }

@@ -72,7 +72,12 @@ func (a *analysis) requirementsStage() {
 		}
 		req = append(req, q)
 	}
-	set := &spec.Settings{PadeOrder: padeOrder}
+	// The damping ratio and the step metrics keep the dead time exact as
+	// the rest of the report does (spec's dominant exact roots and exact
+	// delayed step), and use the Padé approximation where the report does
+	// ("dead_time_model": "pade"; spec itself takes Padé for a biproper
+	// loop).
+	set := &spec.Settings{PadeOrder: padeOrder, PadeDeadTime: a.m.file.DeadTimeModel == deadTimePade}
 	if !a.m.unitySensor && a.refOut.Den().Degree() > 0 {
 		set.ReferenceToOutput = a.refOut
 	}

@@ -25,6 +25,23 @@ type Settings struct {
 	// is F/(1 + L). Dead time in it is replaced as in the loop. If zero
 	// (the zero TF), defaults to L/(1 + L).
 	ReferenceToOutput tf.TF
+	// PadeDeadTime asks for the Padé approximation of dead time (of
+	// PadeOrder) for the damping ratio and the step metrics of a
+	// continuous loop even where the dead time can be kept exact. If false
+	// (the default), they use the exact closed-loop roots over the dominant
+	// set and the exact delayed step response (see the package
+	// documentation).
+	PadeDeadTime bool
+	// DominantFactor is the factor F of the dominant set of a loop with
+	// dead time: every exact closed-loop root with Re s > F·Re s₁ (s₁ the
+	// rightmost root) is judged, > 1 and at most 1000. If zero, defaults
+	// to 5.
+	DominantFactor float64
+	// DominantCrossoverMultiple is the multiple M of the dominant set: every
+	// exact closed-loop root with Re s > −M·ω_c (ω_c the highest gain
+	// crossover in rad/s) is judged as well, > 0 and at most 1000. If zero,
+	// defaults to 3.
+	DominantCrossoverMultiple float64
 	// Loop gives the loop's parts (plant, controller, sensor, prefilter),
 	// which the requirements on load disturbance, control effort and noise
 	// need (MaxDisturbancePeak, MaxRecoveryTimeSec, MaxControlPeak,
@@ -152,8 +169,10 @@ func Check(loop tf.TF, req Requirements) Report {
 // CheckWith evaluates the loop transfer function loop against every
 // requirement and returns one Result per requirement, in order. Only the
 // analyses the requirements need are run: margins.Compute for the margins
-// and the peak sensitivity, the closed-loop poles for the damping ratio,
-// response.StepMetrics of L/(1 + L) for the step metrics and
+// and the peak sensitivity, the closed-loop poles for the damping ratio
+// (with dead time: the dominant exact roots, see the package
+// documentation), response.StepMetrics of L/(1 + L) for the step metrics
+// (with dead time: response.ClosedLoopStepMetrics) and
 // response.SteadyState for the steady-state error. A failing analysis
 // fails the requirements that need it, with the reason in the message.
 // Invalid settings fail every requirement with ErrInvalidSettings.
@@ -170,6 +189,10 @@ func CheckWith(loop tf.TF, req Requirements, set *Settings) Report {
 		e.haveRefToOut = true
 	}
 	var setErr error
+	e.domFactor, e.domCross, setErr = dominantSettings(set)
+	if set != nil {
+		e.padeDeadTime = set.PadeDeadTime
+	}
 	if e.padeOrder < 1 || e.padeOrder > 20 {
 		setErr = fmt.Errorf("%w: PadeOrder %d is outside 1…20", ErrInvalidSettings, e.padeOrder)
 	}
@@ -199,6 +222,12 @@ type evaluator struct {
 	refToOut     tf.TF
 	haveRefToOut bool
 
+	padeDeadTime        bool
+	domFactor, domCross float64
+	domDone             bool
+	dom                 DominantRoots
+	domErr              error
+
 	marginsDone bool
 	margins     margins.Result
 	marginsErr  error
@@ -210,6 +239,7 @@ type evaluator struct {
 
 	stepDone bool
 	step     response.Metrics
+	stepNote string
 	stepErr  error
 
 	parts     closedloop.Loop
@@ -280,17 +310,59 @@ func (e *evaluator) getClosed() (tf.TF, string, error) {
 	return e.closed, e.closedNote, e.closedErr
 }
 
-func (e *evaluator) getStep() (response.Metrics, error) {
+// getStep returns the step metrics of the closed loop from reference to
+// output and a note on how dead time was treated ("" without dead time).
+func (e *evaluator) getStep() (response.Metrics, string, error) {
 	if !e.stepDone {
 		e.stepDone = true
-		cl, _, err := e.getClosed()
+		if e.exactDelay() && !e.haveRefToOut {
+			e.stepNote = "dead time exact: the step response of the delayed closed loop by the method of steps"
+			e.step, e.stepErr = response.ClosedLoopStepMetrics(e.loop, nil, nil)
+			return e.step, e.stepNote, e.stepErr
+		}
+		cl, note, err := e.getClosed()
+		if note != "" {
+			note += e.padeReason(true)
+		}
+		e.stepNote = note
 		if err != nil {
 			e.stepErr = err
 		} else {
 			e.step, e.stepErr = response.StepMetrics(cl, nil)
 		}
 	}
-	return e.step, e.stepErr
+	return e.step, e.stepNote, e.stepErr
+}
+
+// exactDelay reports whether the damping ratio is judged on the exact
+// closed-loop roots: a continuous, strictly proper loop with dead time,
+// and Settings.PadeDeadTime not set.
+func (e *evaluator) exactDelay() bool {
+	return !e.loop.IsDiscrete() && e.loop.DelaySec() > 0 && e.loop.IsStrictlyProper() && !e.padeDeadTime
+}
+
+// padeReason says why a continuous loop's dead time was replaced by its
+// Padé approximation (for the step metrics when step is true), as a
+// clause to append to the note.
+func (e *evaluator) padeReason(step bool) string {
+	switch {
+	case e.padeDeadTime:
+		return ", as requested (Settings.PadeDeadTime)"
+	case e.loop.DelaySec() > 0 && !e.loop.IsStrictlyProper():
+		return ", because the loop is biproper and with dead time its closed loop is of neutral type, which the exact analyses do not cover"
+	case step && e.haveRefToOut:
+		return ", because the closed loop from reference to output was given as a transfer function, whose delay structure the exact delayed response does not cover"
+	}
+	return ""
+}
+
+// getDominant returns the dominant exact closed-loop roots (dominant.go).
+func (e *evaluator) getDominant() (DominantRoots, error) {
+	if !e.domDone {
+		e.domDone = true
+		e.dom, e.domErr = e.dominantRoots(e.domFactor, e.domCross)
+	}
+	return e.dom, e.domErr
 }
 
 // cannot fills res for a value that could not be measured.
@@ -406,10 +478,24 @@ func (e *evaluator) evaluate(res *Result) {
 		judge(res, info.what, info.unit, extra)
 
 	case dampingRatio:
+		if e.exactDelay() {
+			d, err := e.getDominant()
+			if err != nil {
+				cannot(res, info.what, err)
+				return
+			}
+			zeta, worst := minDamping(d.Roots, 0)
+			res.Value = zeta
+			judge(res, "smallest damping ratio of the dominant closed-loop roots", "", " (root "+formatPole(worst)+"; "+d.describe()+")")
+			return
+		}
 		cl, note, err := e.getClosed()
 		if err != nil {
 			cannot(res, info.what, err)
 			return
+		}
+		if note != "" {
+			note += e.padeReason(false)
 		}
 		poles, err := cl.Poles()
 		if err != nil {
@@ -422,13 +508,7 @@ func (e *evaluator) evaluate(res *Result) {
 			res.Message = fmt.Sprintf("The closed loop has no poles, so every pole meets the requirement (%s).", res.Requirement)
 			return
 		}
-		zeta, worst := math.Inf(1), complex128(0)
-		for _, p := range poles {
-			z := DampingRatio(p, cl.SampleTimeSec())
-			if z < zeta {
-				zeta, worst = z, p
-			}
-		}
+		zeta, worst := minDamping(poles, cl.SampleTimeSec())
 		res.Value = zeta
 		what := "smallest damping ratio of the closed-loop poles"
 		detail := " (pole " + formatPole(worst)
@@ -438,12 +518,14 @@ func (e *evaluator) evaluate(res *Result) {
 		judge(res, what, "", detail+")")
 
 	case overshoot, riseTime, settlingTime:
-		m, err := e.getStep()
+		m, note, err := e.getStep()
 		if err != nil {
+			if note != "" {
+				err = fmt.Errorf("%w (%s)", err, note)
+			}
 			cannot(res, info.what, err)
 			return
 		}
-		_, note, _ := e.getClosed()
 		switch res.Requirement.q {
 		case overshoot:
 			res.Value = m.OvershootPct
@@ -537,6 +619,18 @@ func DampingRatio(p complex128, sampleTimeSec float64) float64 {
 		return 0
 	}
 	return -real(s) / r
+}
+
+// minDamping returns the smallest damping ratio of the roots and the root
+// that has it (the upper member of a conjugate pair).
+func minDamping(roots []complex128, sampleTimeSec float64) (float64, complex128) {
+	zeta, worst := math.Inf(1), complex128(0)
+	for _, p := range roots {
+		if z := DampingRatio(p, sampleTimeSec); z < zeta {
+			zeta, worst = z, p
+		}
+	}
+	return zeta, worst
 }
 
 func formatPole(p complex128) string {

@@ -40,3 +40,25 @@ func Example() {
 	// spec: 1 of 4 requirements not met:
 	//   - The step-response overshoot is 8.865 %, above the allowed maximum of 5 %: not met.
 }
+
+// The damping ratio of a loop with dead time is judged on its dominant
+// exact closed-loop roots: here e^(−s)/s, whose closed loop
+// s + e^(−s) = 0 has infinitely many roots.
+func ExampleDominantClosedLoopRoots() {
+	loop := tf.MustParse("exp(-s)/s")
+	d, err := spec.DominantClosedLoopRoots(loop, nil)
+	if err != nil {
+		log.Fatal(err)
+	}
+	fmt.Printf("%d roots with Re s > %.4g rad/s\n", len(d.Roots), d.AbscissaRadPerSec)
+	for _, r := range d.Roots {
+		if imag(r) >= 0 {
+			fmt.Printf("%.4g ± %.4gj  ζ = %.4g\n", real(r), imag(r), spec.DampingRatio(r, 0))
+		}
+	}
+	// Output:
+	// 6 roots with Re s > -3 rad/s
+	// -0.3181 ± 1.337j  ζ = 0.2314
+	// -2.062 ± 7.589j  ζ = 0.2622
+	// -2.653 ± 13.95j  ζ = 0.1869
+}

@@ -83,8 +83,8 @@ func MinDelayMarginSec(sec float64) Requirement { return Requirement{delayMargin
 func MaxPeakSensitivity(ms float64) Requirement { return Requirement{peakSensitivity, ms} }
 
 // MinDampingRatio requires every closed-loop pole to have a damping ratio
-// of at least zeta (see the package documentation for discrete poles and
-// dead time).
+// of at least zeta; with dead time, every dominant closed-loop root (see
+// the package documentation for discrete poles and dead time).
 func MinDampingRatio(zeta float64) Requirement { return Requirement{dampingRatio, zeta} }
 
 // MaxOvershootPct requires the closed-loop step response to overshoot its

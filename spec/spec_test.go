@@ -225,17 +225,24 @@ func TestKeysRoundTrip(t *testing.T) {
 
 func TestDeadTime(t *testing.T) {
 	// e^(−s)/s (reference case C04): phase margin 90° − 180°/π at 1 rad/s.
-	// The damping ratio and step metrics use a Padé approximation, which
-	// the message says.
-	rep := spec.Check(deadTimeIntegrator, spec.Requirements{
-		spec.MinPhaseMarginDeg(30), spec.MinDampingRatio(0.1), spec.MaxOvershootPct(50),
-	})
-	if want := 90 - 180/math.Pi; !testutil.Close(rep.Results[0].Value, want, 1e-9, 0) {
-		t.Errorf("phase margin %v, want %v", rep.Results[0].Value, want)
+	// The damping ratio and step metrics keep the dead time exact by
+	// default, and use a Padé approximation when the settings ask for it;
+	// the message says which.
+	req := spec.Requirements{
+		spec.MinPhaseMarginDeg(30), spec.MinDampingRatio(0.1), spec.MaxOvershootPct(60),
 	}
-	for _, r := range rep.Results[1:] {
-		if !strings.Contains(r.Message, "Padé") {
-			t.Errorf("message does not mention the Padé approximation: %s", r.Message)
+	for _, tc := range []struct {
+		set  *spec.Settings
+		want string
+	}{{nil, "dead time exact"}, {&spec.Settings{PadeDeadTime: true}, "Padé"}} {
+		rep := spec.CheckWith(deadTimeIntegrator, req, tc.set)
+		if want := 90 - 180/math.Pi; !testutil.Close(rep.Results[0].Value, want, 1e-9, 0) {
+			t.Errorf("phase margin %v, want %v", rep.Results[0].Value, want)
+		}
+		for _, r := range rep.Results[1:] {
+			if !r.Pass || !strings.Contains(r.Message, tc.want) {
+				t.Errorf("pass %v; message does not say %q: %s", r.Pass, tc.want, r.Message)
+			}
 		}
 	}
 }
