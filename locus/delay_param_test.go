@@ -325,3 +325,87 @@ func TestDelayParamErrors(t *testing.T) {
 		t.Error("unbounded range of a general parameter accepted")
 	}
 }
+
+// TestDelayParamAnalyzeGainAgrees: for the gain form the construction
+// quantities of the general Analyze equal those of DelayedAnalyze (break
+// points from D′N − DN′ + τDN, departure angles 180° + arg N − arg D′ −
+// Im(p)τ), to 1e-9 (two independent formulas evaluated in double
+// precision at roots known to ~1e-12).
+func TestDelayParamAnalyzeGainAgrees(t *testing.T) {
+	loop := tf.MustNew([]float64{1, 3}, []float64{1, 2, 5, 0})
+	loop, _ = loop.WithDelay(0.2)
+	set := &Settings{Range: Range{0.01, 30}}
+	want, err := DelayedAnalyze(loop, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dp, _ := NewDelayedParametric("k", loop.Den(), poly.Poly{}, poly.Poly{}, loop.Num(), 0.2)
+	got, err := dp.Analyze(set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(got.BreakPoints) != len(want.BreakPoints) {
+		t.Fatalf("break points %+v, want %+v", got.BreakPoints, want.BreakPoints)
+	}
+	for i := range want.BreakPoints {
+		if cmplx.Abs(got.BreakPoints[i].Point-want.BreakPoints[i].Point) > 1e-9 || math.Abs(got.BreakPoints[i].Value-want.BreakPoints[i].Value) > 1e-9*want.BreakPoints[i].Value {
+			t.Errorf("break %d: %+v, want %+v", i, got.BreakPoints[i], want.BreakPoints[i])
+		}
+	}
+	if len(got.Departures) != len(want.Departures) {
+		t.Fatalf("departures %+v, want %+v", got.Departures, want.Departures)
+	}
+	for i := range want.Departures {
+		if math.Abs(got.Departures[i].AngleDeg-want.Departures[i].AngleDeg) > 1e-9 {
+			t.Errorf("departure %d: %+v, want %+v", i, got.Departures[i], want.Departures[i])
+		}
+	}
+	if len(got.AxisCrossings) != len(want.AxisCrossings) {
+		t.Errorf("crossings %+v, want %+v", got.AxisCrossings, want.AxisCrossings)
+	}
+}
+
+// TestDelayParamTrace: every traced point of the sensor-lag locus is a
+// root of P(s; p) (relative residual at rounding level, 1e-10 allowing
+// for |s|³ terms), and the traced points at each crossing value include
+// the crossing point jω within 1e-9 relative.
+func TestDelayParamTrace(t *testing.T) {
+	a0 := mustPoly(t, []float64{1, 1})
+	b0 := mustPoly(t, []float64{1, 1, 0})
+	a1 := mustPoly(t, []float64{5})
+	dp, err := NewDelayedParametric("T", a0, a1, b0, poly.Poly{}, 0.4)
+	if err != nil {
+		t.Fatal(err)
+	}
+	l, err := dp.Trace(&Settings{Range: Range{0.05, 2}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(l.Branches) == 0 {
+		t.Fatal("no branches")
+	}
+	for _, b := range l.Branches {
+		for _, pt := range b.Points {
+			q := dp.quasi(pt.Value)
+			f, _ := q.Eval(pt.S)
+			r := cmplx.Abs(pt.S)
+			sc := dp.dAt(pt.Value).NormInf()*math.Pow(math.Max(1, r), 2) + 5*math.Exp(-0.4*real(pt.S))
+			if cmplx.Abs(f) > 1e-10*sc {
+				t.Fatalf("point %v at T = %v: |P| = %.3g (scale %.3g)", pt.S, pt.Value, cmplx.Abs(f), sc)
+			}
+		}
+	}
+	for _, c := range l.Analysis.AxisCrossings {
+		found := false
+		for _, b := range l.Branches {
+			for _, pt := range b.Points {
+				if pt.Value == c.Value && cmplx.Abs(pt.S-c.Point) <= 1e-9*math.Max(1, c.FrequencyRadPerSec) {
+					found = true
+				}
+			}
+		}
+		if !found {
+			t.Errorf("crossing %+v not on a traced branch", c)
+		}
+	}
+}
