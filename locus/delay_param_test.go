@@ -96,6 +96,7 @@ func TestDelayParamMpmath(t *testing.T) {
 					t.Errorf("crossing %d: ω = %.16g, p = %.16g; want ω = %.16g, p = %.16g", i, x.FrequencyRadPerSec, x.Value, w, v)
 				}
 			}
+			checkPieces(t, dp, st)
 			for _, r := range c.Roots {
 				res, err := dp.Roots(r.Value, &DelaySettings{Count: 6})
 				if err != nil {
