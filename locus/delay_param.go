@@ -320,6 +320,9 @@ func (dp DelayedParametric) StableIntervals(set *Settings) (DelayParamStability,
 	var all []DelayCrossing
 	if pb0 != 0 {
 		p := -pa0 / pb0
+		if p == 0 {
+			p = 0 // not −0
+		}
 		all = append(all, DelayCrossing{Value: p, FrequencyRadPerSec: 0, Direction: dp.direction(0, p)})
 	}
 	ws, err := dp.crossingFrequencies(omega)

@@ -8,13 +8,19 @@ package report
 // (locus.DelayedStableDelays) and the step response by the exact
 // method-of-steps collocation of package response. The Padé approximation
 // is used only where the loop file asks for it ("dead_time_model": "pade"),
-// for a biproper loop (neutral type, not handled exactly) and for the
-// analyses that have no exact form yet (the traced root-locus figure and
-// the sections of closedloop.go, design.go, robust.go, which say so).
+// for a biproper loop (neutral type, not handled exactly), for a parameter
+// locus that the exact analysis refuses (an unbounded range of a parameter
+// that is not a loop gain, a range through a value where the degree drops;
+// a warning says why) and for the analyses that have no exact form yet
+// (the sections of closedloop.go, design.go, robust.go, which say so). The
+// locus in the loop file's "parameter" is exact
+// (locus.DelayedParametric): the closed loop A0 + A1·e^(−sτ) +
+// p·(B0 + B1·e^(−sτ)), its crossings, stable intervals and traced branches.
 //
 // This file holds the section and the helpers the pipeline files call
 // through one-line hooks: loops.go (closed-loop roots and verdict),
-// rootlocus.go (exact crossings and stable intervals), step.go and
+// rootlocus.go (exact crossings and stable intervals, in the gain or the
+// parameter), step.go and
 // plots.go (the exact step response), margins.go (wording of the verdict
 // check).
 

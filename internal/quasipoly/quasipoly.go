@@ -25,6 +25,16 @@
 // (a bound on |f′| from the absolute coefficients), so each argument
 // increment is the principal value of arg f(b)/f(a) and no turn is missed.
 //
+// # Exponential polynomials
+//
+// ExpPoly.Roots finds every real root of a real exponential polynomial
+// Re or Im of Σ C_k(x)·e^(μ_k·x) on a finite interval (the crossing
+// frequencies and real break points of a loop with dead time in an affine
+// parameter), each in a certified bracket: subdivision with the exclusion
+// and monotonicity tests of interval root isolation, from bounds of |f′|
+// and |f″| on each piece, then Brent's method. A double root that cannot
+// be bracketed is an error (ErrTangent), never a silent miss.
+//
 // References:
 //   - D. Breda, S. Maset and R. Vermiglio, "Pseudospectral differencing
 //     methods for characteristic roots of delay differential equations",
