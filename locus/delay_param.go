@@ -276,7 +276,10 @@ type DelayParamStability struct {
 //     otherwise ErrUnsupported.
 //   - P(0; p) = 0 for every p: a root at s = 0 for every value; no stable
 //     interval (a note says so).
-//   - a double root of g (a tangential crossing): ErrTraceFailed.
+//   - a double root of g (a tangential crossing): ErrTraceFailed. The
+//     root of g at ω = 0 may be of any odd order up to 11 (a parameter
+//     multiplying s², such as a mass): no root lies in (0, δ] by the
+//     Taylor bound of quasipoly.ExpPoly.RootsAfterZero.
 //
 // References:
 //   - Yu. I. Neimark, "On the determination of the values of the
@@ -426,6 +429,9 @@ func (dp DelayedParametric) frequencyBound(rng Range) (float64, error) {
 	la, lb := dp.A0.Coef(n), dp.B0.Coef(n)
 	if lb != 0 {
 		if ps := -la / lb; ps >= rng.Min && ps <= rng.Max {
+			if ps == 0 {
+				ps = 0 // not −0
+			}
 			return 0, fmt.Errorf("%w: the leading coefficient of A0 + %s·B0 vanishes at %s = %.12g inside the range [%g, %g]: the degree drops there and crossings can accumulate; give a range that excludes it", ErrUnsupported, dp.Name, dp.Name, ps, rng.Min, rng.Max)
 		}
 	}
@@ -534,7 +540,7 @@ func (dp DelayedParametric) crossingFrequencies(omega float64) ([]float64, error
 		{C: cmul(a0, b1c), Mu: 1i * tau},
 		{C: cmul(a1, b0c), Mu: -1i * tau},
 	}}
-	ws, err := g.Roots(0, omega, 1e-13*omega)
+	ws, err := g.RootsAfterZero(omega, 1e-13*omega)
 	if err != nil {
 		if errors.Is(err, quasipoly.ErrTangent) {
 			return nil, fmt.Errorf("%w: crossing frequencies of %s: %v (a tangential crossing)", ErrTraceFailed, dp.Name, err)

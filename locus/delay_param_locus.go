@@ -20,10 +20,12 @@ import (
 // P(s; p) over set.Range (finite, see StableIntervals; the gain form
 // A1 = B0 = 0 goes to DelayedAnalyze):
 //
-//   - Poles are the roots of P(·; 0) = A0 + A1·e^(−sτ) in the view (where
-//     the branches are at p = 0), Zeros the roots of B0 + B1·e^(−sτ) in
-//     the view (where they go as |p| → ∞), each when that function is
-//     retarded, else left empty with a note;
+//   - Poles are the roots of P(·; 0) = A0 + A1·e^(−sτ) (where the branches
+//     are at p = 0), Zeros the roots of B0 + B1·e^(−sτ) (where they go as
+//     |p| → ∞): all of them when the function is a polynomial (A1 = 0;
+//     B0 = 0 or B1 = 0), those in the view when it is a retarded
+//     quasi-polynomial, else none (with a note when the computation
+//     failed);
 //   - the departure angle at a simple complex root s₀ of P(·; 0) is
 //     arg(−b(s₀)/P′(s₀; 0)) (the direction of ds/dp), the arrival angle at
 //     a simple complex root z of b is arg(−a(z)/b′(z)) (the direction of
@@ -95,7 +97,13 @@ func (dp DelayedParametric) analyze(set *Settings) (Analysis, Rect, error) {
 	an.Branches = nD
 	// Where the branches are at p = 0 and where they go.
 	if q := dp.quasi(0); q.Check() == nil && len(trimmed(q.D)) > 1 {
-		roots, err := rootsInView(q, view)
+		var roots []complex128
+		var err error
+		if dp.A1.IsZero() {
+			roots, err = dp.A0.Roots() // P(·; 0) is a polynomial
+		} else {
+			roots, err = rootsInView(q, view)
+		}
 		if err != nil {
 			an.Notes = append(an.Notes, fmt.Sprintf("roots at %s = 0 not computed: %v", dp.Name, err))
 		}
@@ -110,10 +118,14 @@ func (dp DelayedParametric) analyze(set *Settings) (Analysis, Rect, error) {
 	}
 	qb := quasipoly.Q{D: dp.B0.Coeffs(), N: dp.B1.Coeffs(), K: 1, Tau: dp.DelaySec}
 	switch {
-	case dp.B0.IsZero():
-		// b = B1·e^(−sτ): its zeros are those of B1.
-		if dp.B1.Degree() > 0 {
-			rs, err := dp.B1.Roots()
+	case dp.B0.IsZero() || dp.B1.IsZero():
+		// b = B1·e^(−sτ) or B0: its zeros are those of a polynomial.
+		bp := dp.B1
+		if bp.IsZero() {
+			bp = dp.B0
+		}
+		if bp.Degree() > 0 {
+			rs, err := bp.Roots()
 			if err == nil {
 				for _, z := range rs {
 					an.Zeros = append(an.Zeros, poly.Root{Value: z, Multiplicity: 1})

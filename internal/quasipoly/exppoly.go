@@ -74,21 +74,84 @@ func absDeriv(c []complex128, i int, r float64) float64 {
 	return s
 }
 
-// Bound returns an upper bound of |f^(m)(x)| over lo ≤ x ≤ hi, m ≤ 2, by
+// Bound returns an upper bound of |f^(m)(x)| over lo ≤ x ≤ hi by
 // Leibniz's rule on each term with absolute coefficients:
-// Σ_k Σ_i C(m,i)·|Mu_k|^(m−i)·|C_k^(i)|(r)·max e^(Re Mu_k·x).
+// Σ_k Σ_i C(m,i)·|Mu_k|^(m−i)·|C_k^(i)|(r)·max e^(Re Mu_k·x), r = max(|lo|, |hi|).
 func (e ExpPoly) Bound(m int, lo, hi float64) float64 {
 	r := math.Max(math.Abs(lo), math.Abs(hi))
-	binom := [3][3]float64{{1}, {1, 1}, {1, 2, 1}}
 	s := 0.0
 	for _, t := range e.Terms {
 		ex := math.Exp(math.Max(real(t.Mu)*lo, real(t.Mu)*hi))
 		mu := cmplx.Abs(t.Mu)
+		binom := 1.0
 		for i := 0; i <= m; i++ {
-			s += binom[m][i] * math.Pow(mu, float64(m-i)) * absDeriv(t.C, i, r) * ex
+			s += binom * math.Pow(mu, float64(m-i)) * absDeriv(t.C, i, r) * ex
+			binom = binom * float64(m-i) / float64(i+1)
 		}
 	}
 	return s
+}
+
+// derivAt0 returns f^(m)(0) and Σ of the absolute values of its terms
+// (the scale of its rounding error).
+func (e ExpPoly) derivAt0(m int) (v, scale float64) {
+	var z complex128
+	for _, t := range e.Terms {
+		n := len(t.C) - 1
+		binom := 1.0
+		for i := 0; i <= m; i++ {
+			if i <= n {
+				// C^(i)(0) = i!·c_i, c_i the coefficient of x^i.
+				f := 1.0
+				for k := 2; k <= i; k++ {
+					f *= float64(k)
+				}
+				w := complex(binom*f, 0) * cmplx.Pow(t.Mu, complex(float64(m-i), 0)) * t.C[n-i]
+				if m == i {
+					w = complex(binom*f, 0) * t.C[n-i]
+				}
+				z += w
+				scale += cmplx.Abs(w)
+			}
+			binom = binom * float64(m-i) / float64(i+1)
+		}
+	}
+	return e.part(z), scale
+}
+
+// RootsAfterZero returns the roots of f in (0, hi] when f(0) = 0: the
+// order k of the root at 0 is the first derivative at 0 that is not zero
+// within rounding (up to 12); near 0, f(x) = f^(k)(0)·x^k/k! + ρ with
+// |ρ| ≤ sup|f^(k+1)|·x^(k+1)/(k+1)! (Taylor), so no root lies in (0, δ]
+// when |f^(k)(0)| > δ·sup_[0,δ]|f^(k+1)|/(k+1); the rest, [δ, hi], goes
+// to Roots.
+func (e ExpPoly) RootsAfterZero(hi, minWidth float64) ([]float64, error) {
+	k := -1
+	for m := 1; m <= 12; m++ {
+		v, sc := e.derivAt0(m)
+		if math.Abs(v) > 1e-12*sc {
+			k = m
+			break
+		}
+	}
+	if k < 0 {
+		return nil, fmt.Errorf("%w: the first 12 derivatives vanish at 0", ErrTangent)
+	}
+	d, _ := e.derivAt0(k)
+	delta := hi
+	for range 200 {
+		if math.Abs(d) > delta*e.Bound(k+1, 0, delta)/float64(k+1) {
+			break
+		}
+		delta /= 2
+	}
+	if delta <= minWidth {
+		return nil, fmt.Errorf("%w: a root of order %d at 0 leaves no certified gap", ErrTangent, k)
+	}
+	if delta >= hi {
+		return nil, nil
+	}
+	return e.Roots(delta, hi, minWidth)
 }
 
 // maxRootIntervals bounds the intervals examined by Roots.

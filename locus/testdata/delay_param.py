@@ -20,6 +20,8 @@ Cases (scenarios of this project's own):
              s(s+1) + (0.5 s + Ki) e^(-0.5 s)
   lead_zero: lead zero a in 2(1 + a s)/((s+1)(0.5 s+1)) e^(-0.3 s)
   sensor_lag: sensor time constant T in 5 e^(-0.4 s)/((s+1)(T s+1))
+  mass:      mass m in 4 e^(-0.4 s)/(m s^2 + s + 1) (g has a triple root
+             at w = 0: b = s^2)
 """
 import json
 import mpmath as mp
@@ -33,6 +35,8 @@ cases = [
      "range": [0, 2], "W": 80, "values": [0.1, 0.5, 1.5]},
     {"name": "sensor_lag", "A0": [1, 1], "A1": [5], "B0": [1, 1, 0], "B1": [0], "tau": 0.4,
      "range": [0.05, 2], "W": 400, "values": [0.1, 0.5, 1.5]},
+    {"name": "mass", "A0": [1, 1], "A1": [4], "B0": [1, 0, 0], "B1": [0], "tau": 0.4,
+     "range": [0.05, 2], "W": 60, "values": [0.1, 0.5, 1.5]},
 ]
 
 
