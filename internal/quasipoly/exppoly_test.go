@@ -71,3 +71,23 @@ func TestExpPolyTangent(t *testing.T) {
 		t.Error("infinite interval accepted")
 	}
 }
+
+// TestExpPolyRootsAfterZero: roots in (0, hi] past a multiple root at 0.
+// x³(x − 1) has the triple root 0 and the root 1; sin x − x (order 3 at 0)
+// has no root in (0, ∞) (closed forms). The first needs the Taylor gap,
+// since Roots alone cannot isolate a triple root (ErrTangent).
+func TestExpPolyRootsAfterZero(t *testing.T) {
+	f := ExpPoly{Terms: []ExpTerm{{C: []complex128{1, -1, 0, 0, 0}}}}
+	if _, err := f.Roots(0, 3, 1e-12); !errors.Is(err, ErrTangent) {
+		t.Errorf("Roots on a triple root: %v, want ErrTangent", err)
+	}
+	got, err := f.RootsAfterZero(3, 1e-12)
+	if err != nil || len(got) != 1 || math.Abs(got[0]-1) > 1e-15 {
+		t.Errorf("x³(x − 1): roots %v, %v; want [1]", got, err)
+	}
+	g := ExpPoly{Imag: true, Terms: []ExpTerm{{C: []complex128{1}, Mu: 1i}, {C: []complex128{-1i, 0}}}}
+	got, err = g.RootsAfterZero(30, 1e-12)
+	if err != nil || len(got) != 0 {
+		t.Errorf("sin x − x: roots %v, %v; want none", got, err)
+	}
+}
