@@ -99,21 +99,28 @@ func DelayedTrace(loop tf.TF, set *Settings) (Locus, error) {
 	}
 	q := quasipoly.Q{D: loop.Den().Coeffs(), N: loop.Num().Coeffs(), Tau: loop.DelaySec()}
 	tr := newDelayTracer(view, func(k float64) quasipoly.Q { q.K = k; return q }, func(a, b float64) float64 { return math.Sqrt(a * b) })
-	values := make([]float64, 0, delayLocusSamples+len(st.Crossings)+len(an.BreakPoints))
+	return tr.trace(an, kLo, kHi, func(u float64) float64 { return kLo * math.Pow(kHi/kLo, u) }, r, loop.DelaySec())
+}
+
+// trace traces the locus over [lo, hi] at delayLocusSamples values
+// at(u), u evenly spaced in [0, 1], the crossing values and the break
+// values of an, and returns it with the view and a note.
+func (t *delayTracer) trace(an Analysis, lo, hi float64, at func(u float64) float64, r resolved, tau float64) (Locus, error) {
+	values := make([]float64, 0, delayLocusSamples+len(an.AxisCrossings)+len(an.BreakPoints))
 	for i := range delayLocusSamples {
-		values = append(values, kLo*math.Pow(kHi/kLo, float64(i)/float64(delayLocusSamples-1)))
+		values = append(values, at(float64(i)/float64(delayLocusSamples-1)))
 	}
-	for _, c := range st.Crossings {
+	for _, c := range an.AxisCrossings {
 		values = append(values, c.Value)
 	}
 	for _, b := range an.BreakPoints {
 		values = append(values, b.Value)
 	}
-	if err := tr.run(values, kLo, kHi, r); err != nil {
+	if err := t.run(values, lo, hi, r); err != nil {
 		return Locus{}, err
 	}
-	out := Locus{Analysis: an, View: view, Branches: tr.finish()}
-	out.Analysis.Notes = append(out.Analysis.Notes, fmt.Sprintf("dead time of %s s kept exact: the branches are the closed-loop roots in the view at %d values of %s", fmtG(loop.DelaySec()), tr.samples, variableName(r.variable)))
+	out := Locus{Analysis: an, View: t.view, Branches: t.finish()}
+	out.Analysis.Notes = append(out.Analysis.Notes, fmt.Sprintf("dead time of %s s kept exact: the branches are the closed-loop roots in the view at %d values of %s", fmtG(tau), t.samples, variableName(an.Variable)))
 	return out, nil
 }
 

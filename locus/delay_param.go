@@ -464,23 +464,7 @@ func (dp DelayedParametric) frequencyBound(rng Range) (float64, error) {
 		}
 		return lead*math.Pow(w, float64(2*n)) - v
 	}
-	hi := 1.0
-	for h(hi) <= 0 && hi < 1e300 {
-		hi *= 2
-	}
-	lo := 0.0
-	for range 200 {
-		mid := 0.5 * (lo + hi)
-		if mid == lo || mid == hi || hi-lo <= 1e-12*hi {
-			break
-		}
-		if h(mid) > 0 {
-			hi = mid
-		} else {
-			lo = mid
-		}
-	}
-	return 1.01 * hi, nil
+	return 1.01 * quasipoly.PositiveRoot(h), nil
 }
 
 // onAxis returns X(jω) as a polynomial in ω with complex coefficients,

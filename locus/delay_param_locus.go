@@ -294,20 +294,5 @@ func (dp DelayedParametric) Trace(set *Settings) (Locus, error) {
 	}
 	lo, hi := r.rng.Min, r.rng.Max
 	tr := newDelayTracer(view, dp.quasi, func(a, b float64) float64 { return 0.5 * (a + b) })
-	values := make([]float64, 0, delayLocusSamples+len(an.AxisCrossings)+len(an.BreakPoints))
-	for i := range delayLocusSamples {
-		values = append(values, lo+(hi-lo)*float64(i)/float64(delayLocusSamples-1))
-	}
-	for _, c := range an.AxisCrossings {
-		values = append(values, c.Value)
-	}
-	for _, b := range an.BreakPoints {
-		values = append(values, b.Value)
-	}
-	if err := tr.run(values, lo, hi, r); err != nil {
-		return Locus{}, err
-	}
-	out := Locus{Analysis: an, View: view, Branches: tr.finish()}
-	out.Analysis.Notes = append(out.Analysis.Notes, fmt.Sprintf("dead time of %s s kept exact: the branches are the closed-loop roots in the view at %d values of %s", fmtG(dp.DelaySec), tr.samples, an.Variable))
-	return out, nil
+	return tr.trace(an, lo, hi, func(u float64) float64 { return lo + (hi-lo)*u }, r, dp.DelaySec)
 }

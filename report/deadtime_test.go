@@ -157,10 +157,18 @@ func TestDeadTimeUnstableAndBiproper(t *testing.T) {
 // TestDeadTimeLocusFigure: with the dead time exact the root-locus figure
 // is traced on the exact closed loop (no fallback warning).
 func TestDeadTimeLocusFigure(t *testing.T) {
+	checkExactLocusFigure(t, `{"plant": "1/(0.1s+1)", "controller": "2(1+1/(0.05s))", "delay_sec": 0.02}`, "dead time 0.02 s exact")
+}
+
+// checkExactLocusFigure analyses the loop file text with plots and checks
+// that the root-locus figure is the exact one (its title holds title) and
+// that no warning concerns the locus.
+func checkExactLocusFigure(t *testing.T, text, title string) {
+	t.Helper()
 	if testing.Short() {
 		t.Skip("draws every figure")
 	}
-	lf, err := ReadLoop("x.json", []byte(`{"plant": "1/(0.1s+1)", "controller": "2(1+1/(0.05s))", "delay_sec": 0.02}`))
+	lf, err := ReadLoop("x.json", []byte(text))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -169,13 +177,13 @@ func TestDeadTimeLocusFigure(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, w := range r.Warnings {
-		if strings.Contains(w, "root locus") {
+		if strings.Contains(w, "root locus") || strings.Contains(w, "parameter locus") {
 			t.Errorf("warning %q", w)
 		}
 	}
 	found := false
 	for _, f := range r.Figures {
-		found = found || (f.File == "root-locus" && strings.Contains(string(f.SVG), "dead time 0.02 s exact"))
+		found = found || (f.File == "root-locus" && strings.Contains(string(f.SVG), title))
 	}
 	if !found {
 		t.Errorf("no exact root-locus figure")
@@ -249,28 +257,6 @@ func TestDeadTimeParameterExact(t *testing.T) {
 // TestDeadTimeParameterFigure: the locus figure in a parameter with dead
 // time is the exact one.
 func TestDeadTimeParameterFigure(t *testing.T) {
-	if testing.Short() {
-		t.Skip("draws every figure")
-	}
-	lf, err := ReadLoop("x.json", []byte(`{"plant": "1/(s+1)", "controller": "0.5 + Ki/s", "delay_sec": 0.5,
-		"parameter": {"name": "Ki", "value": 1, "range": [-1, 5]}}`))
-	if err != nil {
-		t.Fatal(err)
-	}
-	r, err := Analyze(lf, &Settings{Plots: true})
-	if err != nil {
-		t.Fatal(err)
-	}
-	for _, w := range r.Warnings {
-		if strings.Contains(w, "root locus") || strings.Contains(w, "parameter locus") {
-			t.Errorf("warning %q", w)
-		}
-	}
-	found := false
-	for _, f := range r.Figures {
-		found = found || (f.File == "root-locus" && strings.Contains(string(f.SVG), "dead time 0.5 s exact"))
-	}
-	if !found {
-		t.Errorf("no exact root-locus figure")
-	}
+	checkExactLocusFigure(t, `{"plant": "1/(s+1)", "controller": "0.5 + Ki/s", "delay_sec": 0.5,
+		"parameter": {"name": "Ki", "value": 1, "range": [-1, 5]}}`, "dead time 0.5 s exact")
 }

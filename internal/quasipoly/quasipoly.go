@@ -149,6 +149,14 @@ func (q Q) Radius(sigma0 float64) float64 {
 		nv, _ := absPoly(q.N, r)
 		return lead*math.Pow(r, float64(n)) - low - c*nv
 	}
+	return 1.01*PositiveRoot(g) + 1e-300
+}
+
+// PositiveRoot returns a point r > 0 within 1e-12 relative above the
+// largest positive root of g, for g ≤ 0 on [0, root] and g > 0 beyond it
+// (a leading power that dominates the rest, as in Cauchy's bound): g(r) >
+// 0. It doubles from 1 to find g > 0, then bisects.
+func PositiveRoot(g func(float64) float64) float64 {
 	hi := 1.0
 	for g(hi) <= 0 && hi < 1e300 {
 		hi *= 2
@@ -168,7 +176,7 @@ func (q Q) Radius(sigma0 float64) float64 {
 			break
 		}
 	}
-	return 1.01*hi + 1e-300
+	return hi
 }
 
 // derivBound bounds |f′| on the segment [a, b].
