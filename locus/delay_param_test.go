@@ -92,7 +92,7 @@ func TestDelayParamMpmath(t *testing.T) {
 			// Both lists are sorted by value.
 			for i, x := range got {
 				w, v := refNum(t, c.Crossings[i].Omega), refNum(t, c.Crossings[i].Value)
-				if math.Abs(x.FrequencyRadPerSec-w) > 1e-12*w || math.Abs(x.Value-v) > 1e-12*math.Max(1, math.Abs(v)) {
+				if math.Abs(x.FrequencyRadPerSec-w) > 1e-12*w || math.Abs(x.Value-v) > 1e-12*math.Abs(v) {
 					t.Errorf("crossing %d: ω = %.16g, p = %.16g; want ω = %.16g, p = %.16g", i, x.FrequencyRadPerSec, x.Value, w, v)
 				}
 			}
