@@ -289,6 +289,10 @@ func (a *analysis) deadTimeLocusFigure(set *locus.Settings, value float64) (fig 
 	} else {
 		l, err = locus.DelayedTrace(a.locusFor, set)
 	}
+	if err != nil && a.dead.param != nil {
+		// The locus section is the exact one: no Padé figure to fall back on.
+		return nil, true, fmt.Errorf("the locus in the parameter with the dead time exact could not be traced: %w", err)
+	}
 	if err != nil {
 		a.warn("root locus figure: the locus with the dead time exact could not be traced (%s); the figure shows the %s-order Padé approximation", short(err), ordinal(padeOrder))
 		return nil, false, nil
