@@ -98,42 +98,29 @@ func DelayedTrace(loop tf.TF, set *Settings) (Locus, error) {
 		kLo = kHi * 1e-4
 	}
 	q := quasipoly.Q{D: loop.Den().Coeffs(), N: loop.Num().Coeffs(), Tau: loop.DelaySec()}
-	tr := &delayTracer{q: q, view: view, size: math.Max(view.ReMax-view.ReMin, view.ImMax-view.ImMin)}
-	values := make([]float64, 0, delayLocusSamples+len(st.Crossings)+len(an.BreakPoints))
+	tr := newDelayTracer(view, func(k float64) quasipoly.Q { q.K = k; return q }, func(a, b float64) float64 { return math.Sqrt(a * b) })
+	return tr.trace(an, kLo, kHi, func(u float64) float64 { return kLo * math.Pow(kHi/kLo, u) }, r, loop.DelaySec())
+}
+
+// trace traces the locus over [lo, hi] at delayLocusSamples values
+// at(u), u evenly spaced in [0, 1], the crossing values and the break
+// values of an, and returns it with the view and a note.
+func (t *delayTracer) trace(an Analysis, lo, hi float64, at func(u float64) float64, r resolved, tau float64) (Locus, error) {
+	values := make([]float64, 0, delayLocusSamples+len(an.AxisCrossings)+len(an.BreakPoints))
 	for i := range delayLocusSamples {
-		values = append(values, kLo*math.Pow(kHi/kLo, float64(i)/float64(delayLocusSamples-1)))
+		values = append(values, at(float64(i)/float64(delayLocusSamples-1)))
 	}
-	for _, c := range st.Crossings {
-		if c.Value > kLo && c.Value < kHi {
-			values = append(values, c.Value)
-		}
+	for _, c := range an.AxisCrossings {
+		values = append(values, c.Value)
 	}
 	for _, b := range an.BreakPoints {
-		if b.Value > kLo && b.Value < kHi {
-			values = append(values, b.Value)
-		}
+		values = append(values, b.Value)
 	}
-	sort.Float64s(values)
-	prevK := values[0]
-	prev, err := tr.rootsAt(prevK)
-	if err != nil {
+	if err := t.run(values, lo, hi, r); err != nil {
 		return Locus{}, err
 	}
-	tr.start(prevK, prev)
-	for i, k := range values[1:] {
-		if r.ctx != nil && r.ctx.Err() != nil {
-			return Locus{}, fmt.Errorf("locus: trace cancelled: %w", r.ctx.Err())
-		}
-		if err := tr.advance(prevK, prev, k, 0); err != nil {
-			return Locus{}, err
-		}
-		prevK, prev = k, tr.last
-		if r.progress != nil {
-			r.progress(float64(i+1) / float64(len(values)-1))
-		}
-	}
-	out := Locus{Analysis: an, View: view, Branches: tr.finish()}
-	out.Analysis.Notes = append(out.Analysis.Notes, fmt.Sprintf("dead time of %s s kept exact: the branches are the closed-loop roots in the view at %d values of %s", fmtG(loop.DelaySec()), tr.samples, variableName(r.variable)))
+	out := Locus{Analysis: an, View: t.view, Branches: t.finish()}
+	out.Analysis.Notes = append(out.Analysis.Notes, fmt.Sprintf("dead time of %s s kept exact: the branches are the closed-loop roots in the view at %d values of %s", fmtG(tau), t.samples, variableName(an.Variable)))
 	return out, nil
 }
 
@@ -298,6 +285,11 @@ func delayView(an Analysis) Rect {
 	for _, c := range an.AxisCrossings {
 		pts = append(pts, c.Point)
 	}
+	return delayViewOf(pts)
+}
+
+// delayViewOf frames the points pts as delayView does.
+func delayViewOf(pts []complex128) Rect {
 	e, reMax := 0.0, 0.0
 	for _, p := range pts {
 		e = math.Max(e, cmplx.Abs(p))
@@ -309,9 +301,15 @@ func delayView(an Analysis) Rect {
 	return Rect{ReMin: -1.3 * e, ReMax: math.Max(0.3*e, 1.1*reMax+0.1*e), ImMin: -1.3 * e, ImMax: 1.3 * e}
 }
 
-// delayTracer joins the roots at successive values into branches.
+// delayTracer joins the roots at successive values of the locus variable
+// into branches. It is generic over the quasi-polynomial: qAt returns the
+// characteristic function at a value (the gain k of D + k·N·e^(−sτ), or
+// the parameter p of A0 + A1·e^(−sτ) + p·(B0 + B1·e^(−sτ))), mid the value
+// halfway between two (geometric for the gain, arithmetic for a
+// parameter).
 type delayTracer struct {
-	q       quasipoly.Q
+	qAt     func(v float64) quasipoly.Q
+	mid     func(a, b float64) float64
 	view    Rect
 	size    float64
 	open    []*Branch // branches still being extended
@@ -321,12 +319,51 @@ type delayTracer struct {
 	next    int
 }
 
-// rootsAt returns the exact roots in the view at k.
+func newDelayTracer(view Rect, qAt func(float64) quasipoly.Q, mid func(a, b float64) float64) *delayTracer {
+	return &delayTracer{qAt: qAt, mid: mid, view: view, size: math.Max(view.ReMax-view.ReMin, view.ImMax-view.ImMin)}
+}
+
+// run traces the branches over the sorted values in [lo, hi] (values
+// outside are dropped), refining between neighbours where roots move far.
+func (t *delayTracer) run(values []float64, lo, hi float64, r resolved) error {
+	vs := make([]float64, 0, len(values))
+	for _, v := range values {
+		if v >= lo && v <= hi {
+			vs = append(vs, v)
+		}
+	}
+	sort.Float64s(vs)
+	if len(vs) == 0 {
+		return fmt.Errorf("%w: no value of %s to trace in [%g, %g]", ErrInvalidRange, variableName(r.variable), lo, hi)
+	}
+	prevK := vs[0]
+	prev, err := t.rootsAt(prevK)
+	if err != nil {
+		return err
+	}
+	t.start(prevK, prev)
+	for i, k := range vs[1:] {
+		if r.ctx != nil && r.ctx.Err() != nil {
+			return fmt.Errorf("locus: trace cancelled: %w", r.ctx.Err())
+		}
+		if k == prevK {
+			continue
+		}
+		if err := t.advance(prevK, prev, k, 0); err != nil {
+			return err
+		}
+		prevK, prev = k, t.last
+		if r.progress != nil {
+			r.progress(float64(i+1) / float64(len(vs)-1))
+		}
+	}
+	return nil
+}
+
+// rootsAt returns the exact roots in the view at the value k.
 func (t *delayTracer) rootsAt(k float64) ([]complex128, error) {
 	t.samples++
-	q := t.q
-	q.K = k
-	res, err := q.Above(t.view.ReMin, nil)
+	res, err := t.qAt(k).Above(t.view.ReMin, nil)
 	if err != nil {
 		return nil, fmt.Errorf("%w: roots at %g: %v", ErrTraceFailed, k, err)
 	}
@@ -355,7 +392,7 @@ func (t *delayTracer) advance(k0 float64, roots0 []complex128, k1 float64, depth
 		return err
 	}
 	if depth < delayLocusDepth && t.maxMove(roots0, roots1) > delayLocusMove*t.size {
-		km := math.Sqrt(k0 * k1)
+		km := t.mid(k0, k1)
 		if err := t.advance(k0, roots0, km, depth+1); err != nil {
 			return err
 		}

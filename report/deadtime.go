@@ -8,13 +8,19 @@ package report
 // (locus.DelayedStableDelays) and the step response by the exact
 // method-of-steps collocation of package response. The Padé approximation
 // is used only where the loop file asks for it ("dead_time_model": "pade"),
-// for a biproper loop (neutral type, not handled exactly) and for the
-// analyses that have no exact form yet (the traced root-locus figure and
-// the sections of closedloop.go, design.go, robust.go, which say so).
+// for a biproper loop (neutral type, not handled exactly), for a parameter
+// locus that the exact analysis refuses (an unbounded range of a parameter
+// that is not a loop gain, a range through a value where the degree drops;
+// a warning says why) and for the analyses that have no exact form yet
+// (the sections of closedloop.go, design.go, robust.go, which say so). The
+// locus in the loop file's "parameter" is exact
+// (locus.DelayedParametric): the closed loop A0 + A1·e^(−sτ) +
+// p·(B0 + B1·e^(−sτ)), its crossings, stable intervals and traced branches.
 //
 // This file holds the section and the helpers the pipeline files call
 // through one-line hooks: loops.go (closed-loop roots and verdict),
-// rootlocus.go (exact crossings and stable intervals), step.go and
+// rootlocus.go (exact crossings and stable intervals, in the gain or the
+// parameter), step.go and
 // plots.go (the exact step response), margins.go (wording of the verdict
 // check).
 
@@ -72,6 +78,10 @@ type deadTimeState struct {
 	// output; nil when the response cannot be formed exactly (stepWhy).
 	stepSet *response.ClosedLoopSettings
 	stepWhy string
+	// param is the exact quasi-polynomial of the loop file's parameter
+	// (nil without a parameter, or when the locus in it fell back on
+	// Padé).
+	param *locus.DelayedParametric
 }
 
 // exactDelay reports whether the loop has a dead time that the report
@@ -231,20 +241,64 @@ func (a *analysis) deadTimeLocus(loop tf.TF, set *locus.Settings) bool {
 	return true
 }
 
+// deadTimeParamLocus fills the locus section in the loop file's parameter
+// with the dead time exact (locus.DelayedParametric: the closed loop
+// A0 + A1·e^(−sτ) + p·(B0 + B1·e^(−sτ)), crossings and stable intervals
+// by D-decomposition on the imaginary axis); called by rootLocus, which
+// forms the Padé parametric locus when it returns false (a warning then
+// says why).
+func (a *analysis) deadTimeParamLocus(loopAt func(float64) (tf.TF, error), set *locus.Settings) bool {
+	if a.dead == nil {
+		return false
+	}
+	fallback := func(err error) bool {
+		a.warn("root locus: the locus in the parameter %s with the dead time exact could not be formed (%s); the locus keys are those of a %s-order Padé approximation", set.Variable, short(err), ordinal(padeOrder))
+		return false
+	}
+	dp, err := locus.FromDelayedParameter(set.Variable, loopAt)
+	if err != nil {
+		return fallback(err)
+	}
+	an, err := dp.Analyze(set)
+	if err != nil {
+		return fallback(err)
+	}
+	a.dead.param = &dp
+	a.locus = &an
+	l := &a.rep.Locus
+	l.fill(an)
+	l.Notes = append([]string{fmt.Sprintf("dead time of %s s kept exact: the closed loop A0(s) + A1(s)·e^(−sτ) + %s·(B0(s) + B1(s)·e^(−sτ)) = 0; no asymptotes; crossings and stable intervals from the exact crossing condition on the imaginary axis; departure angles at the roots for %s = 0 in view", g(Number(dp.DelaySec)), set.Variable, set.Variable)}, an.Notes...)
+	for _, n := range dp.Notes {
+		a.warn("parameter locus: %s", n)
+	}
+	return true
+}
+
 // deadTimeLocusFigure draws the root locus with the dead time exact
 // (locus.DelayedTrace) when the loop's dead time is kept exact; ok is
 // false otherwise and plots.go draws the locus of the rational loop.
 func (a *analysis) deadTimeLocusFigure(set *locus.Settings, value float64) (fig *chart.Figure, ok bool, err error) {
-	if a.dead == nil || a.locusFor.DelaySec() <= 0 || set.Range.Min < 0 {
+	if a.dead == nil || ((a.locusFor.DelaySec() <= 0 || set.Range.Min < 0) && a.dead.param == nil) {
 		return nil, false, nil
 	}
-	l, err := locus.DelayedTrace(a.locusFor, set)
+	tau := a.locusFor.DelaySec()
+	var l locus.Locus
+	if dp := a.dead.param; dp != nil {
+		tau = dp.DelaySec
+		l, err = dp.Trace(set)
+	} else {
+		l, err = locus.DelayedTrace(a.locusFor, set)
+	}
+	if err != nil && a.dead.param != nil {
+		// The locus section is the exact one: no Padé figure to fall back on.
+		return nil, true, fmt.Errorf("the locus in the parameter with the dead time exact could not be traced: %w", err)
+	}
 	if err != nil {
 		a.warn("root locus figure: the locus with the dead time exact could not be traced (%s); the figure shows the %s-order Padé approximation", short(err), ordinal(padeOrder))
 		return nil, false, nil
 	}
 	ls := &chart.LocusSettings{PlaneSettings: chart.PlaneSettings{Grid: true,
-		Title: fmt.Sprintf("Root locus over %s, dead time %s s exact", variableWords(l.Analysis.Variable), g(Number(a.locusFor.DelaySec())))}}
+		Title: fmt.Sprintf("Root locus over %s, dead time %s s exact", variableWords(l.Analysis.Variable), g(Number(tau)))}}
 	if l.Analysis.Range.Contains(value) && a.dead.rootsErr == nil {
 		// The exact closed-loop roots at the nominal value that lie in the
 		// view (the others are far left).

@@ -157,10 +157,18 @@ func TestDeadTimeUnstableAndBiproper(t *testing.T) {
 // TestDeadTimeLocusFigure: with the dead time exact the root-locus figure
 // is traced on the exact closed loop (no fallback warning).
 func TestDeadTimeLocusFigure(t *testing.T) {
+	checkExactLocusFigure(t, `{"plant": "1/(0.1s+1)", "controller": "2(1+1/(0.05s))", "delay_sec": 0.02}`, "dead time 0.02 s exact")
+}
+
+// checkExactLocusFigure analyses the loop file text with plots and checks
+// that the root-locus figure is the exact one (its title holds title) and
+// that no warning concerns the locus.
+func checkExactLocusFigure(t *testing.T, text, title string) {
+	t.Helper()
 	if testing.Short() {
 		t.Skip("draws every figure")
 	}
-	lf, err := ReadLoop("x.json", []byte(`{"plant": "1/(0.1s+1)", "controller": "2(1+1/(0.05s))", "delay_sec": 0.02}`))
+	lf, err := ReadLoop("x.json", []byte(text))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -169,13 +177,13 @@ func TestDeadTimeLocusFigure(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, w := range r.Warnings {
-		if strings.Contains(w, "root locus") {
+		if strings.Contains(w, "root locus") || strings.Contains(w, "parameter locus") {
 			t.Errorf("warning %q", w)
 		}
 	}
 	found := false
 	for _, f := range r.Figures {
-		found = found || (f.File == "root-locus" && strings.Contains(string(f.SVG), "dead time 0.02 s exact"))
+		found = found || (f.File == "root-locus" && strings.Contains(string(f.SVG), title))
 	}
 	if !found {
 		t.Errorf("no exact root-locus figure")
@@ -202,4 +210,53 @@ func TestDeadTimeUnstablePlant(t *testing.T) {
 	if iv := r.Locus.StableIntervals; len(iv) != 1 || !relClose(iv[0][0], 1, 1e-12) {
 		t.Errorf("stable gain intervals %v, want one starting at k = 1 (D(0) + k·N(0) = 0)", iv)
 	}
+}
+
+// TestDeadTimeParameterExact: a loop file with a parameter (the integral
+// gain Ki of a PI controller, Kp = 0.5, on 1/(s+1) with 0.5 s dead time)
+// gets the exact locus in the parameter with no Padé warning: the closed
+// loop s(s+1) + (0.5s + Ki)·e^(−0.5s) crosses the axis at Ki = 0 (s = 0)
+// and at Ki = 3.00797419780234320758825659684 (ω = 1.6298…), the 50-digit
+// mpmath reference of locus/testdata/delay_param.py (case pi_lag); so it
+// is stable for 0 < Ki < 3.0079742. Tolerance 1e-12 relative: the
+// polishing goal of the interval ends.
+func TestDeadTimeParameterExact(t *testing.T) {
+	r := analyzeText(t, `{"plant": "1/(s+1)", "controller": "0.5 + Ki/s", "delay_sec": 0.5,
+		"parameter": {"name": "Ki", "value": 1, "range": [-1, 5]}}`)
+	for _, w := range r.Warnings {
+		if strings.Contains(w, "Padé") && (strings.Contains(w, "locus") || strings.Contains(w, "parameter")) {
+			t.Errorf("Padé warning for the locus without a request for Padé: %q", w)
+		}
+	}
+	l := r.Locus
+	if l.Variable != "Ki" {
+		t.Errorf("variable %q", l.Variable)
+	}
+	const want = 3.00797419780234320758825659684
+	if len(l.StableIntervals) != 1 || l.StableIntervals[0][0] != 0 || !relClose(l.StableIntervals[0][1], want, 1e-12) {
+		t.Errorf("stable intervals %v, want [[0, %.16g]]", l.StableIntervals, want)
+	}
+	if len(l.AxisCrossings) != 2 {
+		t.Errorf("crossings %v, want two", l.AxisCrossings)
+	}
+	if len(l.Notes) == 0 || !strings.Contains(l.Notes[0], "kept exact") {
+		t.Errorf("notes %q", l.Notes)
+	}
+	// With "dead_time_model": "pade" the Padé locus comes back, warned.
+	rp := analyzeText(t, `{"plant": "1/(s+1)", "controller": "0.5 + Ki/s", "delay_sec": 0.5, "dead_time_model": "pade",
+		"parameter": {"name": "Ki", "value": 1, "range": [-1, 5]}}`)
+	warned := false
+	for _, w := range rp.Warnings {
+		warned = warned || (strings.Contains(w, "Padé") && strings.Contains(w, "locus"))
+	}
+	if !warned {
+		t.Errorf("no Padé warning with dead_time_model pade: %q", rp.Warnings)
+	}
+}
+
+// TestDeadTimeParameterFigure: the locus figure in a parameter with dead
+// time is the exact one.
+func TestDeadTimeParameterFigure(t *testing.T) {
+	checkExactLocusFigure(t, `{"plant": "1/(s+1)", "controller": "0.5 + Ki/s", "delay_sec": 0.5,
+		"parameter": {"name": "Ki", "value": 1, "range": [-1, 5]}}`, "dead time 0.5 s exact")
 }

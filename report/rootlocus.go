@@ -27,6 +27,11 @@ func (a *analysis) rootLocus() {
 		// the locus cannot be formed.
 		rep.Locus.Variable = p.Name
 		rep.Locus.Range = Interval{Number(p.Range[0]), Number(p.Range[1])}
+		set.Variable = p.Name
+		set.Range = locus.Range{Min: p.Range[0], Max: p.Range[1]}
+		if a.deadTimeParamLocus(loopAt, set) { // deadtime.go: exact with dead time
+			return
+		}
 		par, err := locus.FromParameter(p.Name, loopAt)
 		if err != nil {
 			a.warn("the locus in the parameter %s cannot be formed: %s; the locus keys are null", p.Name, short(err))

@@ -25,6 +25,16 @@
 // (a bound on |f′| from the absolute coefficients), so each argument
 // increment is the principal value of arg f(b)/f(a) and no turn is missed.
 //
+// # Exponential polynomials
+//
+// ExpPoly.Roots finds every real root of a real exponential polynomial
+// Re or Im of Σ C_k(x)·e^(μ_k·x) on a finite interval (the crossing
+// frequencies and real break points of a loop with dead time in an affine
+// parameter), each in a certified bracket: subdivision with the exclusion
+// and monotonicity tests of interval root isolation, from bounds of |f′|
+// and |f″| on each piece, then Brent's method. A double root that cannot
+// be bracketed is an error (ErrTangent), never a silent miss.
+//
 // References:
 //   - D. Breda, S. Maset and R. Vermiglio, "Pseudospectral differencing
 //     methods for characteristic roots of delay differential equations",
@@ -139,6 +149,14 @@ func (q Q) Radius(sigma0 float64) float64 {
 		nv, _ := absPoly(q.N, r)
 		return lead*math.Pow(r, float64(n)) - low - c*nv
 	}
+	return 1.01*PositiveRoot(g) + 1e-300
+}
+
+// PositiveRoot returns a point r > 0 within 1e-12 relative above the
+// largest positive root of g, for g ≤ 0 on [0, root] and g > 0 beyond it
+// (a leading power that dominates the rest, as in Cauchy's bound): g(r) >
+// 0. It doubles from 1 to find g > 0, then bisects.
+func PositiveRoot(g func(float64) float64) float64 {
 	hi := 1.0
 	for g(hi) <= 0 && hi < 1e300 {
 		hi *= 2
@@ -158,7 +176,7 @@ func (q Q) Radius(sigma0 float64) float64 {
 			break
 		}
 	}
-	return 1.01*hi + 1e-300
+	return hi
 }
 
 // derivBound bounds |f′| on the segment [a, b].
