@@ -65,7 +65,10 @@ func (p *problem) exactCandidates(r spec.Requirement) ([]candidate, bool) {
 		}
 		return p.peakSensitivityCandidates(lim), true
 	case keyDamping:
-		if p.v.ts > 0 || !(lim >= 0 && lim < 1) {
+		// With dead time the damping ratio is that of spec's dominant
+		// exact roots (spec.DominantClosedLoopRoots), which no polynomial
+		// construction gives: bracketed on the metric.
+		if p.v.ts > 0 || p.v.delay > 0 || !(lim >= 0 && lim < 1) {
 			return nil, false
 		}
 		return p.dampingCandidates(lim), true

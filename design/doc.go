@@ -146,8 +146,14 @@
 // Requirements are those of package spec and are judged by spec.CheckWith
 // (unity negative feedback; margins of an unstable loop fail). Frequencies
 // are in rad/s. The range of the variable is Settings.Range, (0, +Inf) by
-// default. Dead time enters the margins exactly and the closed-loop poles
-// through a Padé approximation of Settings.PadeOrder.
+// default. Dead time of a continuous loop is kept exact: the margins and
+// the step metrics through spec, the stable set on the quasi-polynomial
+// (locus.DelayedParametric; Result.StableNote says so), the damping ratio
+// as spec's smallest damping of the dominant exact roots (bracketed on that
+// metric). A Padé approximation of Settings.PadeOrder remains for the
+// stable set where the exact analysis refuses (StableNote says why), for
+// the plane and in discrete time only for whole sample periods (exact
+// powers of z).
 //
 // # Invariants
 //

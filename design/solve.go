@@ -69,8 +69,13 @@ type Result struct {
 	// Range is the range searched.
 	Range Range
 	// Stable are the values for which the closed loop is stable (exact,
-	// from package locus; dead time by its Padé approximation).
+	// from package locus; a continuous loop's dead time kept exact by
+	// locus.DelayedParametric, or by its Padé approximation where that
+	// refuses — StableNote says which).
 	Stable []Interval
+	// StableNote says how Stable treats the loop's dead time: kept exact,
+	// or its Padé approximation and why; empty without dead time.
+	StableNote string
 	// Requirements has one set per requirement, in the order given.
 	Requirements []RequirementSet
 	// AllMet are the values where every requirement holds and the closed
@@ -142,6 +147,8 @@ type problem struct {
 	charLoop tf.TF // b/a with a + v·b the characteristic polynomial
 	stable   []Interval
 	stabC    []candidate
+	// stableNote says how the stable set treats dead time ("" without).
+	stableNote string
 	// tangencies and wraps are the candidates shared by the phase and
 	// delay margins (nil until first needed).
 	tangencies, wraps []candidate
@@ -235,8 +242,15 @@ func (v Variable) rationalCharacteristic(order int) (a, b polyPair, err error) {
 
 func (p *problem) locusRange() locus.Range { return locus.Range{Min: p.rng.Min, Max: p.rng.Max} }
 
-// stability computes the stable intervals and labels their ends.
+// stability computes the stable intervals and labels their ends: exact
+// from the characteristic polynomial (locus.Analyze), and for a continuous
+// loop with dead time from the quasi-polynomial itself (delayStability).
 func (p *problem) stability() error {
+	if p.v.delay > 0 && p.v.ts == 0 {
+		if ok := p.delayStability(); ok {
+			return nil
+		}
+	}
 	an, err := locus.Analyze(p.charLoop, &locus.Settings{Range: p.locusRange(), Variable: p.v.name})
 	if err != nil {
 		return fmt.Errorf("design: stability of the closed loop over %s: %w", p.v.name, err)
@@ -260,6 +274,43 @@ func (p *problem) stability() error {
 		p.stable = append(p.stable, iv)
 	}
 	return nil
+}
+
+// delayStability computes the stable intervals of a continuous loop with
+// dead time τ on its quasi-polynomial
+//
+//	D_x(s) + N_x(s)·e^(−sτ) = den0 + x·den1 + (num0 + x·num1)·e^(−sτ),
+//
+// e^(−sτ) exact: locus.DelayedParametric (D-decomposition along the
+// imaginary axis; the loop gain over an unbounded range goes to
+// locus.DelayedStableGains). It returns false, with p.stableNote saying
+// why, where that analysis refuses (a neutral-type loop, an unbounded range
+// of a parameter that is not a gain, a range reaching the value where the
+// degree of D_x drops); the caller then uses the Padé approximation.
+func (p *problem) delayStability() bool {
+	dp, err := locus.NewDelayedParametric(p.v.name, p.v.den0, p.v.num0, p.v.den1, p.v.num1, p.v.delay)
+	if err == nil {
+		var st locus.DelayParamStability
+		if st, err = dp.StableIntervals(&locus.Settings{Range: p.locusRange(), Variable: p.v.name}); err == nil {
+			for _, c := range st.Crossings {
+				where := "a closed-loop root at s = 0"
+				if c.FrequencyRadPerSec > 0 {
+					where = fmt.Sprintf("closed-loop roots at ±%sj (%s rad/s), dead time exact", fmtNum(c.FrequencyRadPerSec), fmtNum(c.FrequencyRadPerSec))
+				}
+				p.stabC = append(p.stabC, candidate{c.Value, "stability boundary: " + where})
+			}
+			for _, s := range st.StableIntervals {
+				iv := Interval{Lo: s.Lo, Hi: s.Hi}
+				iv.LoBinding = p.endLabel(s.Lo, nil)
+				iv.HiBinding = p.endLabel(s.Hi, nil)
+				p.stable = append(p.stable, iv)
+			}
+			p.stableNote = fmt.Sprintf("dead time of %s s exact (D-decomposition of the quasi-polynomial)", fmtNum(p.v.delay))
+			return true
+		}
+	}
+	p.stableNote = fmt.Sprintf("dead time of %s s by its Padé approximation of order %d: the exact analysis refused (%v)", fmtNum(p.v.delay), p.pade, err)
+	return false
 }
 
 // sameValue reports whether x and y agree to 1e-9 relative.
@@ -641,7 +692,7 @@ func Solve(v Variable, req spec.Requirements, set *Settings) (Result, error) {
 			return Result{}, fmt.Errorf("%w: requirement %q has no valid kind or a non-finite limit", ErrInvalidInput, r.String())
 		}
 	}
-	res := Result{Variable: v.name, Range: p.rng, Stable: p.stable, Suggested: math.NaN(), SuggestedSlack: math.NaN(), Compromise: math.NaN()}
+	res := Result{Variable: v.name, Range: p.rng, Stable: p.stable, StableNote: p.stableNote, Suggested: math.NaN(), SuggestedSlack: math.NaN(), Compromise: math.NaN()}
 	res.Requirements = make([]RequirementSet, len(req))
 	own := make([][]candidate, len(req))
 	var all []candidate

@@ -231,6 +231,9 @@ func (a *analysis) designVariable(req spec.Requirements) {
 	if !a.m.unitySensor {
 		a.warn("design: the sensor is not 1, but the sets of the design judge the step metrics and the damping ratio on L/(1 + L)")
 	}
+	if strings.Contains(res.StableNote, "Padé") {
+		a.warn("design: stable values: %s", res.StableNote)
+	}
 	d := &DesignResult{Variable: res.Variable, AllMet: []Interval{}, Suggested: Number(res.Suggested), Binding: res.Binding}
 	a.design.result = &res
 	for _, rs := range res.Requirements {

@@ -18,7 +18,9 @@ const (
 	GainMargin
 	// DelayMargin is the smallest delay margin, seconds.
 	DelayMargin
-	// DampingRatio is the smallest damping ratio of the closed-loop poles.
+	// DampingRatio is the smallest damping ratio of the closed-loop poles
+	// (with dead time in continuous time: of the dominant exact roots,
+	// spec.DominantClosedLoopRoots).
 	DampingRatio
 	// PeakSensitivity is the largest Ms = max|1/(1 + L)|.
 	PeakSensitivity
@@ -112,15 +114,28 @@ func (l *Loop) pointValues(t []float64) ([5]float64, error) {
 		return q, err
 	}
 	q[PhaseMargin], q[GainMargin], q[DelayMargin], q[PeakSensitivity] = m.PhaseMarginDeg, m.GainMarginDB, m.DelayMarginSec, m.PeakSensitivity
-	ch := g
-	if g.DelaySec() > 0 {
-		if ch, err = g.Pade(8); err != nil {
+	var roots []complex128
+	if g.DelaySec() > 0 && l.ts == 0 && g.IsStrictlyProper() {
+		// The dominant exact roots, as spec judges the damping ratio with
+		// dead time (a delayed loop has infinitely many roots, whose
+		// damping tends to 0 far out).
+		d, err := spec.DominantClosedLoopRoots(g, nil)
+		if err != nil {
 			return q, err
 		}
-	}
-	roots, err := ch.CharacteristicPolynomial().Roots()
-	if err != nil {
-		return q, err
+		roots = d.Roots
+	} else {
+		ch := g
+		if g.DelaySec() > 0 {
+			// Discrete: whole sample periods, exact poles at z = 0;
+			// continuous biproper: neutral type, Padé.
+			if ch, err = g.Pade(8); err != nil {
+				return q, err
+			}
+		}
+		if roots, err = ch.CharacteristicPolynomial().Roots(); err != nil {
+			return q, err
+		}
 	}
 	q[DampingRatio] = math.Inf(1)
 	for _, z := range roots {
