@@ -117,7 +117,19 @@ func (a *analysis) deadTimeLoops() bool {
 		st.rootsErr = fmt.Errorf("the count of the roots by the argument principle (%d) does not match the roots found (%d)", st.roots.Count, len(st.roots.Roots))
 	}
 	if st.rootsErr != nil {
-		a.warn("closed-loop roots with the dead time exact: %s; the closed_loop poles are null and the Nyquist criterion decides stability", short(st.rootsErr))
+		// The stability switches in the dead time decide without the
+		// roots (Cooke & van den Driessche 1986): the loop without dead
+		// time, then every crossing as τ grows to the loop's own — stable
+		// for every τ when |L(jω)| never reaches 1 at a crossing
+		// frequency. The Nyquist criterion, if it can be evaluated, has
+		// the last word (settleVerdict).
+		if ds, err := locus.DelayedStableDelays(m.open, 1); err == nil {
+			a.verdict = verdict{known: true, stable: ds.StableAtDelay, method: "the stability switches in the dead time"}
+			a.rep.ClosedLoop.Stable = a.verdict.ptr()
+			a.warn("closed-loop roots with the dead time exact: %s; the closed_loop poles are null and the stability switches in the dead time decide stability (%s)", short(st.rootsErr), map[bool]string{true: "stable for every dead time", false: "stable dead times: see dead_time"}[ds.DelayIndependent])
+		} else {
+			a.warn("closed-loop roots with the dead time exact: %s; the closed_loop poles are null and the Nyquist criterion decides stability", short(st.rootsErr))
+		}
 	} else {
 		a.rep.ClosedLoop.Poles = complexList(st.roots.Roots)
 		a.verdict = delayVerdict(st.roots)

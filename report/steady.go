@@ -15,12 +15,13 @@ func (a *analysis) steadyStage() {
 		return
 	}
 	if l.DelaySec() > 0 && !l.IsDiscrete() {
-		if a.margins == nil {
+		if a.margins == nil && a.dead == nil {
 			a.warn("steady-state errors: the closed loop with dead time is not known to be stable (the Nyquist criterion could not be applied); the steady-state keys are null")
 			return
 		}
 		// Dead time does not change the limits; stability comes from the
-		// Nyquist criterion of the margins.
+		// Nyquist criterion of the margins, or, with the dead time exact,
+		// from the exact roots or the stability switches.
 		l = l.WithoutDelay()
 	}
 	e, err := response.SteadyState(l)

@@ -133,7 +133,8 @@ type delayRun struct {
 // ClosedLoopResponse.ErrorEstimate.
 //
 // Errors: ErrImproper, ErrNotFinite, ErrSettings, ErrDelay (a discrete
-// loop, or a filter with its own dead time), ErrUnstable only from
+// loop, a filter with its own dead time, or a dead time too long against
+// the loop's fastest pole for the collocation), ErrUnstable only from
 // ClosedLoopStepMetrics.
 //
 // References:
@@ -264,7 +265,7 @@ func prepareDelay(loop tf.TF, s ClosedLoopSettings) (*delayRun, error) {
 	}
 	run.M = max(1, int(math.Ceil(tau*rho/collocReach)))
 	if run.M > maxIntervals {
-		return nil, fmt.Errorf("%w: dead time %v s against poles of modulus %v needs %d collocation intervals per delay", ErrSettings, tau, rho, run.M)
+		return nil, fmt.Errorf("%w: a dead time of %v s is too long against the loop's fastest pole (modulus %v rad/s): its exact response would need %d collocation intervals per dead time, more than %d", ErrDelay, tau, rho, run.M, maxIntervals)
 	}
 	run.h = tau / float64(run.M)
 	if err := run.operators(A, b1, b2, c, d1, d2); err != nil {

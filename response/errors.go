@@ -30,7 +30,9 @@ var (
 	// ErrDelay reports a dead time that cannot be simulated exactly: in
 	// discrete time it must be a whole number of sample periods; a
 	// continuous loop with dead time has no rational closed loop whose
-	// stability SteadyState could decide.
+	// stability SteadyState could decide; ClosedLoopStep refuses a dead
+	// time so long against the loop's dynamics that the method of steps
+	// would need more collocation intervals than it allows.
 	ErrDelay = errors.New("response: dead time not supported here")
 	// ErrNotSettled reports a response that did not settle into its band
 	// within the longest horizon tried (about 10⁴ time constants of the
