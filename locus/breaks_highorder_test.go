@@ -2,12 +2,14 @@ package locus
 
 import (
 	"encoding/json"
+	"fmt"
 	"math"
 	"os"
 	"slices"
 	"strconv"
 	"testing"
 
+	"github.com/loopwise/loopwise/internal/testutil"
 	"github.com/loopwise/loopwise/tf"
 )
 
@@ -112,4 +114,77 @@ func loadHarnessLoops(tb testing.TB) []harnessLoop {
 		}
 	}
 	return loops
+}
+
+// harnessFamilyLoop returns the harness's family loop num/den of order n
+// (internal/testutil.HarnessFamily) and its locus span k0·[1e-4, 1e4].
+func harnessFamilyLoop(tb testing.TB, n int) (tf.TF, *Settings) {
+	num, den, k0 := testutil.HarnessFamily(n)
+	g, err := tf.New(num, den)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return g, &Settings{Range: Range{Min: 1e-4 * k0, Max: 1e4 * k0}}
+}
+
+// BenchmarkAnalyzeGrowth times Analyze on the harness's family loops of
+// order 24, 40 and 60 (the harness's growth rows); the growth exponent
+// from n = 24 to 60 is log(t60/t24)/log(2.5) (goal ≤ 3):
+//
+//	go test ./locus -run '^$' -bench AnalyzeGrowth -benchtime 20x -count 3
+func BenchmarkAnalyzeGrowth(b *testing.B) {
+	for _, n := range []int{24, 40, 60} {
+		g, set := harnessFamilyLoop(b, n)
+		b.Run(fmt.Sprintf("order=%d", n), func(b *testing.B) {
+			for b.Loop() {
+				if _, err := Analyze(g, set); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
+// TestSignsDifferAgreesWithRoots checks the O(n) instability test of
+// stable (Stodola's condition, signsDiffer) against the closed-loop roots
+// on the harness's loops of order 24, 40 and 60 at 40 gains across their
+// span: wherever a coefficient certainly has the wrong sign, a
+// closed-loop root must lie in Re ≥ 0, by a margin larger than the
+// roots' rounding (1e-9 relative: the roots of these loops are good to
+// far better than that).
+func TestSignsDifferAgreesWithRoots(t *testing.T) {
+	decided := 0
+	for _, n := range []int{24, 40, 60} {
+		g, set := harnessFamilyLoop(t, n)
+		r, err := resolve(set)
+		if err != nil {
+			t.Fatal(err)
+		}
+		p, err := newProblem(g, r)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i := range 40 {
+			k := set.Range.Min * math.Pow(set.Range.Max/set.Range.Min, float64(i)/39)
+			c := p.charPoly(k)
+			if !p.signsDiffer(c, k) {
+				continue
+			}
+			decided++
+			rs, err := c.Roots()
+			if err != nil {
+				t.Fatal(err)
+			}
+			worst := math.Inf(-1)
+			for _, z := range rs {
+				worst = math.Max(worst, real(z)/math.Max(1, cabs(z)))
+			}
+			if !(worst > 1e-9) {
+				t.Errorf("order %d, k = %g: signsDiffer reports unstable, rightmost root has Re/|z| = %g", n, k, worst)
+			}
+		}
+	}
+	if decided == 0 {
+		t.Error("signsDiffer decided no gain: the test checks nothing")
+	}
 }
