@@ -5,9 +5,11 @@ import (
 	"fmt"
 	"math"
 	"os"
+	"runtime"
 	"slices"
 	"strconv"
 	"testing"
+	"time"
 
 	"github.com/loopwise/loopwise/internal/testutil"
 	"github.com/loopwise/loopwise/tf"
@@ -187,4 +189,34 @@ func TestSignsDifferAgreesWithRoots(t *testing.T) {
 	if decided == 0 {
 		t.Error("signsDiffer decided no gain: the test checks nothing")
 	}
+}
+
+// BenchmarkAnalyzeGrowthExponent alternates Analyze on the harness's
+// order-24 and order-60 loops on the calling thread's CPU clock
+// (internal/testutil.ThreadCPU, so that other processes on a shared
+// machine do not count) and reports the growth exponent
+// log(t60/t24)/log(60/24) of the summed times (goal ≤ 3):
+//
+//	go test ./locus -run '^$' -bench AnalyzeGrowthExponent -benchtime 20x -count 3
+func BenchmarkAnalyzeGrowthExponent(b *testing.B) {
+	g24, s24 := harnessFamilyLoop(b, 24)
+	g60, s60 := harnessFamilyLoop(b, 60)
+	runtime.LockOSThread()
+	defer runtime.UnlockOSThread()
+	var t24, t60 time.Duration
+	for b.Loop() {
+		t0 := testutil.ThreadCPU()
+		if _, err := Analyze(g24, s24); err != nil {
+			b.Fatal(err)
+		}
+		t1 := testutil.ThreadCPU()
+		if _, err := Analyze(g60, s60); err != nil {
+			b.Fatal(err)
+		}
+		t60 += testutil.ThreadCPU() - t1
+		t24 += t1 - t0
+	}
+	b.ReportMetric(math.Log(float64(t60)/float64(t24))/math.Log(60.0/24), "exponent")
+	b.ReportMetric(float64(t24.Microseconds())/float64(b.N), "µs24/op")
+	b.ReportMetric(float64(t60.Microseconds())/float64(b.N), "µs60/op")
 }
