@@ -220,3 +220,43 @@ func BenchmarkAnalyzeGrowthExponent(b *testing.B) {
 	b.ReportMetric(float64(t24.Microseconds())/float64(b.N), "µs24/op")
 	b.ReportMetric(float64(t60.Microseconds())/float64(b.N), "µs60/op")
 }
+
+// TestMultipleBreakPoints: where three or four branches meet, a′b − ab′
+// has a multiple root, which the break-point search must still recognise
+// after it solves without cluster recognition first (mayMerge). Closed
+// forms: s(s² + 3s + 3) + 1 = (s + 1)³ and (s + 1)⁴ − 1 + 1 = (s + 1)⁴, so
+// at k = 1 three (four) branches meet at s = −1. (For the first, a′b − ab′
+// is a quadratic with an exactly double root; for the second a cubic with
+// a triple root, which only cluster recognition reports as one.)
+func TestMultipleBreakPoints(t *testing.T) {
+	for _, tc := range []struct {
+		text     string
+		at       float64
+		branches int
+	}{
+		{"1/(s*(s^2+3*s+3))", -1, 3},
+		{"1/(s^4+4*s^3+6*s^2+4*s)", -1, 4},
+	} {
+		g, err := tf.Parse(tc.text)
+		if err != nil {
+			t.Fatal(err)
+		}
+		an, err := Analyze(g, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		found := false
+		for _, b := range an.BreakPoints {
+			if math.Abs(real(b.Point)-tc.at) <= 1e-6 && imag(b.Point) == 0 {
+				found = true
+				// The m-fold root is known to about ε^(1/m) relative.
+				if b.Branches != tc.branches || math.Abs(b.Value-1) > 1e-12 {
+					t.Errorf("%s: break point %+v, want %d branches at k = 1", tc.text, b, tc.branches)
+				}
+			}
+		}
+		if !found {
+			t.Errorf("%s: no break point at %v: %+v", tc.text, tc.at, an.BreakPoints)
+		}
+	}
+}
