@@ -97,7 +97,13 @@
 // last full run, so the goal of a tenth is met up to order 16 and missed
 // at order 24 (with SkipPeaks: at most 1/30 at every order); it grows
 // like n^1.8 from order 24 to 40 and n^3.0 from 40 to 60 (see
-// testdata/benchmarks.md and the raw runs beside it).
+// testdata/benchmarks.md and the raw runs beside it). A later full run
+// (testdata/perf_harness_full.txt at the repository root) gave 1/11 at order 24 and 1/15 at
+// order 16: the time is in the real-root isolation of the peak
+// polynomials (Taylor shifts and root bounds), not yet the 1/30 the issue
+// aims at. Compute allocates 96 objects at order 2 and 212 at order 24
+// (152 and 510 before the isolation reused its buffers within a call;
+// testdata/bench_allocs_perf.txt).
 //
 // # Invariants
 //
