@@ -211,8 +211,9 @@ func (p *problem) polishCrossing(t float64) (float64, float64, bool) {
 // differs from the leading one decides the verdict first, in O(n):
 // a real polynomial with every root in Re < 0 is a product of factors
 // s + α and s² + βs + γ with α, β, γ > 0, so all its coefficients have
-// one sign (Stodola's necessary condition; Gantmacher 1959, The Theory of
-// Matrices, vol. 2, ch. XV §6). This spares the roots above
+// one sign (Stodola's necessary condition, common practice; stated in
+// Gantmacher 1959, The Theory of Matrices, vol. 2, ch. XV, from memory).
+// This spares the roots above
 // routhMaxDegree on the pieces of the range where the loop is clearly
 // unstable.
 func (p *problem) stable(k float64) (bool, error) {

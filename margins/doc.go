@@ -98,7 +98,7 @@
 // at order 24 (with SkipPeaks: at most 1/30 at every order); it grows
 // like n^1.8 from order 24 to 40 and n^3.0 from 40 to 60 (see
 // testdata/benchmarks.md and the raw runs beside it). A later full run
-// (testdata/perf_harness_full.txt at the repository root) gave 1/11 at order 24 and 1/15 at
+// (testdata/perf_harness_full.txt at the repository root) gave 1/11.7 at order 24 and 1/13.4 at
 // order 16: the time is in the real-root isolation of the peak
 // polynomials (Taylor shifts and root bounds), not yet the 1/30 the issue
 // aims at. Compute allocates 96 objects at order 2 and 212 at order 24
