@@ -148,7 +148,9 @@
 // from order 24 to 60 (it was n^3.3): per BenchmarkAnalyzeGrowthExponent,
 // which alternates the harness's order-24 and order-60 loops on the
 // thread CPU clock, 1.7 ms and 22 ms against 1.7 ms and 35 ms before
-// (testdata/analyze_growth.txt). Two changes did it: a piece of the range
+// (testdata/analyze_growth.txt); the full harness run of 2026-12-06
+// (testdata/perf_harness_full.txt at the repository root) measured
+// 1.70 ms and 23.0 ms, n^2.84, with the trace 53× the grid or better. Two changes did it: a piece of the range
 // where a coefficient of a + k·b certainly has the wrong sign is unstable
 // without its roots (Stodola's condition; above degree 40 the Routh array
 // is not trusted and each piece used to cost a root solve), and the

@@ -97,11 +97,18 @@
 // last full run, so the goal of a tenth is met up to order 16 and missed
 // at order 24 (with SkipPeaks: at most 1/30 at every order); it grows
 // like n^1.8 from order 24 to 40 and n^3.0 from 40 to 60 (see
-// testdata/benchmarks.md and the raw runs beside it). A later full run
-// (testdata/perf_harness_full.txt at the repository root) gave 1/11.7 at order 24 and 1/13.4 at
-// order 16: the time is in the real-root isolation of the peak
-// polynomials (Taylor shifts and root bounds), not yet the 1/30 the issue
-// aims at. Compute allocates 96 objects at order 2 and 212 at order 24
+// testdata/benchmarks.md and the raw runs beside it). The full run of
+// 2026-12-06 (testdata/perf_harness_full.txt at the repository root,
+// load average 2–3) gives 1/14.5 at order 24, 1/16.7 at 16, 1/17.2 at
+// 12 and 1/20.9 at 8 (SkipPeaks: at most 1/33), with the growth n^2.6
+// from order 40 to 60. Two things got there: the level of the
+// peak's level set is first raised to a nearby local maximum (16
+// golden-section steps), which narrows the intervals searched for
+// stationary points (orders 16 and 24 about 20 % faster, 8 and 12 about
+// 6 % slower; testdata/bench_golden_level.txt), and fewer allocations.
+// The 1/30 the issue aims at is not reached: the time is the real-root
+// isolation of the peak polynomials (Taylor shifts and root bounds).
+// Compute allocates 96 objects at order 2 and 212 at order 24
 // (152 and 510 before the isolation reused its buffers within a call;
 // testdata/bench_allocs_perf.txt).
 //
