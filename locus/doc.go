@@ -144,7 +144,25 @@
 // branch swaps, Trace complete at orders 40 and 60 (there the per-branch
 // traces of 6 and 9 pieces are inconclusive and those pieces are traced
 // again in lockstep: 17682 and 23406 points), and Analyze growing as n^3.3 from order 24 to
-// 40 and n^2.8 from 40 to 60. Each root is followed with its own step, so
+// 40 and n^2.8 from 40 to 60 in that run. Analyze now grows as n^2.8
+// from order 24 to 60 (it was n^3.3): per BenchmarkAnalyzeGrowthExponent,
+// which alternates the harness's order-24 and order-60 loops on the
+// thread CPU clock, 1.7 ms and 22 ms against 1.7 ms and 35 ms before
+// (testdata/analyze_growth.txt); the full harness run of 2026-12-06
+// (testdata/perf_harness_full.txt at the repository root) measured
+// 1.70 ms and 23.0 ms, n^2.84, with the trace 53× the grid or better. Two changes did it: a piece of the range
+// where a coefficient of a + k·b certainly has the wrong sign is unstable
+// without its roots (Stodola's condition; above degree 40 the Routh array
+// is not trusted and each piece used to cost a root solve), and the
+// break-point polynomial is solved without cluster recognition unless
+// two of its roots lie close together where −a/b is real (the
+// recognition's backward-error checks in math/big were a fifth of the
+// time at order 60). What remains at order 60 is the eigenvalues of the
+// degree-118 break-point polynomial (about half; complex break points
+// need every root, so real-root isolation alone cannot replace it), the
+// poles and zeros, and the real roots of a + k·b at the range ends, whose
+// clustered negative roots defeat certified isolation at orders 40 and 60
+// (it falls back to the eigenvalues). Each root is followed with its own step, so
 // the points go where a branch moves (1360 points at order 8 against 4816
 // with one common step for all roots); the time goes to Newton evaluations
 // of a + k·b (one to two per step; real roots in real arithmetic), to one

@@ -13,7 +13,44 @@ var xPoly = poly.MustNew(1, 0)
 
 // squaredModulus returns |p(jv)|² = re² + x·im² as a polynomial in x = v².
 func squaredModulus(re, im poly.Poly) poly.Poly {
-	return re.Mul(re).Add(xPoly.Mul(im.Mul(im)))
+	return productSum(re, re, im, im)
+}
+
+// productSum returns a·b + x·(c·d), with the same operations in the same
+// order as a.Mul(b).Add(xPoly.Mul(c.Mul(d))) (so bit for bit the same
+// coefficients), but with one working buffer instead of four polynomials.
+func productSum(a, b, c, d poly.Poly) poly.Poly {
+	na, nb, nc, nd := a.Degree(), b.Degree(), c.Degree(), d.Degree()
+	lab, lcd := 0, 0
+	if !a.IsZero() && !b.IsZero() {
+		lab = na + nb + 1
+	}
+	if !c.IsZero() && !d.IsZero() {
+		lcd = nc + nd + 1
+	}
+	buf := make([]float64, max(lab, lcd+1)+lcd)
+	out, cd := buf[:len(buf)-lcd], buf[len(buf)-lcd:]
+	if lab > 0 {
+		for i := 0; i <= na; i++ {
+			ai := a.Coef(i)
+			for j := 0; j <= nb; j++ {
+				out[i+j] += ai * b.Coef(j)
+			}
+		}
+	}
+	if lcd > 0 {
+		for i := 0; i <= nc; i++ {
+			ci := c.Coef(i)
+			for j := 0; j <= nd; j++ {
+				cd[i+j] += ci * d.Coef(j)
+			}
+		}
+		for i, v := range cd {
+			out[i+1] += v
+		}
+	}
+	q, _ := poly.FromAscending(out) // finite: products of finite coefficients
+	return q
 }
 
 // crossing is a phase crossover found by a search.
@@ -58,13 +95,13 @@ func (lp *loop) gainCrossovers() ([]float64, error) {
 // a point where L = 0 is no phase crossover.
 func (lp *loop) numeratorVanishes(w float64) bool {
 	x := lp.point(w)
-	c := lp.num.Ascending()
 	v, _ := lp.num.EvalWithBound(x)
 	ax, a := cmplx.Abs(x), 0.0
-	for i := len(c) - 1; i >= 0; i-- {
-		a = a*ax + math.Abs(c[i])
+	n := lp.num.Degree()
+	for i := n; i >= 0; i-- {
+		a = a*ax + math.Abs(lp.num.Coef(i))
 	}
-	return cmplx.Abs(v) <= 8*float64(len(c))*0x1p-53*a
+	return cmplx.Abs(v) <= 8*float64(n+1)*0x1p-53*a
 }
 
 // allPass reports whether m = |an|² − |ad|² vanishes identically within
@@ -85,8 +122,8 @@ func allPass(m poly.Poly, lp *loop) bool {
 	}
 	a := squaredModulus(abs(lp.nr), abs(lp.ni)).Add(squaredModulus(abs(lp.dr), abs(lp.di)))
 	tol := 8 * float64(a.Degree()+1) * 0x1p-53
-	for i, c := range m.Ascending() {
-		if math.Abs(c) > tol*a.Coef(i) {
+	for i := 0; i <= m.Degree(); i++ {
+		if math.Abs(m.Coef(i)) > tol*a.Coef(i) {
 			return false
 		}
 	}
@@ -197,7 +234,7 @@ func sortCrossings(cs []crossing) {
 // once there: the search cannot miss a crossover.
 func (lp *loop) phaseCriticalPoints() []float64 {
 	j := lp.ni.Mul(lp.dr).Sub(lp.nr.Mul(lp.di))
-	r := lp.nr.Mul(lp.dr).Add(xPoly.Mul(lp.ni.Mul(lp.di)))
+	r := productSum(lp.nr, lp.dr, lp.ni, lp.di)
 	c := r.Mul(j).Add(xPoly.Mul(r.Mul(j.Derivative()).Sub(j.Mul(r.Derivative()))).Scale(2))
 	// In the scaled variable u = ω/σ the condition reads dθ/du = σ·τ.
 	c = c.Sub(r.Mul(r).Add(xPoly.Mul(j.Mul(j))).Scale(lp.sigma * lp.tau))

@@ -133,8 +133,8 @@ func axisScaled(an, ad poly.Poly) (sigma float64, san, sad poly.Poly) {
 	e := int(math.Round(math.Max(-1000, math.Min(1000, est))))
 	top := math.MinInt
 	for _, p := range []poly.Poly{an, ad} {
-		for i, c := range p.Ascending() {
-			if c != 0 {
+		for i := 0; i <= p.Degree(); i++ {
+			if c := p.Coef(i); c != 0 {
 				_, x := math.Frexp(c)
 				top = max(top, x+e*i)
 			}
@@ -203,10 +203,11 @@ func snapToAxis(rs []complex128) {
 
 // axisParts returns re and im with p(jv) = re(v²) + j·v·im(v²).
 func axisParts(p poly.Poly) (re, im poly.Poly) {
-	c := p.Ascending()
-	r := make([]float64, len(c)/2+1)
-	i := make([]float64, len(c)/2+1)
-	for k, a := range c {
+	l := p.Degree() + 1
+	r := make([]float64, l/2+1)
+	i := make([]float64, l/2+1)
+	for k := range l {
+		a := p.Coef(k)
 		m := k / 2
 		sign := 1.0
 		if m%2 == 1 {

@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/cmplx"
 
+	"github.com/loopwise/loopwise/internal/rootfind"
 	"github.com/loopwise/loopwise/poly"
 )
 
@@ -71,9 +72,25 @@ func (lp *loop) rationalPeak(complementary bool, hints []float64) (peak, freq fl
 		consider(w, val(w))
 	}
 	dd := p.Derivative().Mul(q).Sub(p.Mul(q.Derivative()))
+	// The level is raised to a local maximum near the best candidate so
+	// far (golden-section search over [ω/2, 2ω], 16 steps; Kiefer 1953):
+	// a higher level gives narrower intervals, hence fewer stationary
+	// points to isolate. The value found is a value of |S| (|T|), so the
+	// level stays below the global maximum; it is not itself a candidate
+	// (its frequency is only good to about √u).
+	gamma := peak
+	if freq > 0 && !math.IsInf(freq, 0) {
+		hi := 2 * freq
+		if lp.discrete() {
+			hi = math.Min(hi, lp.nyquist())
+		}
+		if _, v := rootfind.GoldenMax(val, freq/2, hi, 16, 1e-3); v > gamma && !math.IsInf(v, 0) {
+			gamma = v
+		}
+	}
 	search := [][2]float64{{0, math.Inf(1)}}
-	if peak > 0 && !math.IsInf(peak, 0) && !math.IsNaN(peak) {
-		if iv, ok := lp.levelSet(p, q, peak, val, consider); ok {
+	if gamma > 0 && !math.IsInf(gamma, 0) && !math.IsNaN(gamma) {
+		if iv, ok := lp.levelSet(p, q, gamma, val, consider); ok {
 			search = iv
 		}
 	}

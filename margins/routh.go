@@ -23,22 +23,21 @@ const routhSafety = 16
 // its bound (a root near the imaginary axis, a singular array, or too much
 // cancellation), ok is false and the caller counts from the roots.
 func rightHalfPlaneRoots(p poly.Poly) (rhp, atZero int, ok bool) {
-	c := p.Ascending()
-	for atZero < len(c) && c[atZero] == 0 {
+	deg := p.Degree()
+	for atZero < deg && p.Coef(atZero) == 0 {
 		atZero++
 	}
-	c = c[atZero:]
-	n := len(c) - 1
+	n := deg - atZero
 	if n <= 0 {
 		return 0, atZero, n == 0
 	}
+	// Two rows and their bounds in one buffer; each new row overwrites
+	// the row two above it, which is no longer needed.
 	w := n/2 + 1
-	r0 := make([]float64, w)
-	r1 := make([]float64, w)
-	e0 := make([]float64, w)
-	e1 := make([]float64, w)
+	rows := make([]float64, 4*w)
+	r0, r1, e0, e1 := rows[:w], rows[w:2*w], rows[2*w:3*w], rows[3*w:]
 	for i := 0; i <= n; i++ {
-		v := c[n-i] // highest power first
+		v := p.Coef(deg - i) // highest power first
 		if i%2 == 0 {
 			r0[i/2] = v
 		} else {
@@ -57,15 +56,15 @@ func rightHalfPlaneRoots(p poly.Poly) (rhp, atZero int, ok bool) {
 		prev = r1[0]
 		q := r0[0] / r1[0]
 		eq := math.Abs(q) * (e0[0]/math.Abs(r0[0]) + e1[0]/math.Abs(r1[0]) + eps)
-		next := make([]float64, w)
-		en := make([]float64, w)
+		// In place: entry i of the new row reads entries i + 1 only.
 		for i := 0; i+1 < w; i++ {
 			a, b := r0[i+1], r1[i+1]
-			next[i] = a - q*b
-			en[i] = e0[i+1] + math.Abs(q)*e1[i+1] + math.Abs(b)*eq + 2*eps*(math.Abs(a)+math.Abs(q*b))
+			r0[i] = a - q*b
+			e0[i] = e0[i+1] + math.Abs(q)*e1[i+1] + math.Abs(b)*eq + 2*eps*(math.Abs(a)+math.Abs(q*b))
 		}
-		r0, r1 = r1, next
-		e0, e1 = e1, en
+		r0[w-1], e0[w-1] = 0, 0
+		r0, r1 = r1, r0
+		e0, e1 = e1, e0
 	}
 	return changes, atZero, true
 }

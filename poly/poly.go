@@ -241,8 +241,16 @@ func (p Poly) Add(q Poly) Poly {
 	return Poly{c: trim(c)}
 }
 
-// Sub returns p − q.
-func (p Poly) Sub(q Poly) Poly { return p.Add(q.Neg()) }
+// Sub returns p − q (one subtraction per coefficient, the same values as
+// p.Add(q.Neg()) without the intermediate polynomial).
+func (p Poly) Sub(q Poly) Poly {
+	n := max(len(p.c), len(q.c))
+	c := make([]float64, n)
+	for i := range c {
+		c[i] = p.Coef(i) - q.Coef(i)
+	}
+	return Poly{c: trim(c)}
+}
 
 // Neg returns −p.
 func (p Poly) Neg() Poly { return p.Scale(-1) }

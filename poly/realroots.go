@@ -160,7 +160,7 @@ func RealRootsInWithSettings(p Poly, lo, hi float64, set *RealRootSettings) ([]R
 	}
 	sh := newShifter(p.Degree())
 	q, e := m.apply(p, sh)
-	xs, ok := isolatePositive(p, q, e, m, tol, limit)
+	xs, ok := isolatePositive(p, q, e, m, tol, limit, sh)
 	if !ok && m != (mobius{1, 0, 0, 1}) && (lo >= 0 || hi <= 0) {
 		// The image of a short interval far from the origin can be too
 		// ill-conditioned to decide; the whole half-line, reached by the
@@ -169,8 +169,9 @@ func RealRootsInWithSettings(p Poly, lo, hi float64, set *RealRootSettings) ([]R
 		if hi <= 0 {
 			half = mobius{-1, 0, 0, 1}
 		}
+		sh.resize(p.Degree())
 		q, e = half.apply(p, sh)
-		if all, okAll := isolatePositive(p, q, e, half, tol, 0); okAll {
+		if all, okAll := isolatePositive(p, q, e, half, tol, 0, sh); okAll {
 			xs, ok = xs[:0], true
 			for _, x := range all {
 				if x > lo && x < hi {
@@ -251,19 +252,22 @@ func (m mobius) at(y float64) float64 {
 // apply returns (c·y + d)ⁿ·p(M(y)), ascending, with bounds on the
 // rounding errors of its coefficients, for the initial maps used: c = 0
 // (p(a·y + b)) or a = hi, b = lo, c = d = 1. A shift by b ≠ 0 is done as
-// p(b·(1 + t)) with the binomial shift by 1 between two scalings.
+// p(b·(1 + t)) with the binomial shift by 1 between two scalings. The
+// four coefficient vectors share one allocation.
 func (m mobius) apply(p Poly, sh *shifter) (q, e []float64) {
-	q = p.Ascending()
-	e = make([]float64, len(q))
+	l := len(p.c)
+	slab := make([]float64, 4*l)
+	q, e = slab[:l:l], slab[l:2*l:2*l]
+	t, te := slab[2*l:3*l:3*l], slab[3*l:]
+	copy(q, p.c)
 	w := m.a
 	if m.c != 0 {
 		w = m.a - m.b
 	}
 	if m.b != 0 {
 		scaleVariable(q, e, m.b)
-		t, te := make([]float64, len(q)), make([]float64, len(q))
 		sh.shift1(t, te, q, e)
-		q, e = t, te
+		q, e, t, te = t, te, q, e
 		w /= m.b
 	}
 	scaleVariable(q, e, w)
@@ -274,7 +278,6 @@ func (m mobius) apply(p Poly, sh *shifter) (q, e []float64) {
 	// reverse of shift₁(reverse r).
 	slices.Reverse(q)
 	slices.Reverse(e)
-	t, te := make([]float64, len(q)), make([]float64, len(q))
 	sh.shift1(t, te, q, e)
 	slices.Reverse(t)
 	slices.Reverse(te)
@@ -302,7 +305,7 @@ func gammaN(k int) float64 {
 	return ku / (1 - ku)
 }
 
-// shifter forms q(y + 1) of polynomials of one degree n as the binomial
+// shifter forms q(y + 1) of polynomials of degree n as the binomial
 // sums q'ₖ = Σⱼ₌ₖⁿ C(j, k)·qⱼ: the same values as Horner's shift, but with
 // independent sums instead of one chain of dependent additions, so that it
 // runs several times faster. The shift is linear with non-negative weights,
@@ -316,7 +319,12 @@ type shifter struct {
 	stride int
 	binom  []float64 // binom[k*stride+j] = C(j, k)
 	g      float64
-	work   []float64
+	work   []float64 // n+1 values for shift1
+	tmp    []float64 // 2(n+1) values for shiftBy
+	// free holds coefficient and bound buffers of isolation nodes that
+	// are done, for reuse by later nodes of the same search (each of
+	// length 2(n+1)); a shifter belongs to one call and is not shared.
+	free [][]float64
 }
 
 // sharedBinomialDegree is the degree up to which the binomial table is
@@ -343,13 +351,45 @@ func binomials(n int) []float64 {
 }
 
 func newShifter(n int) *shifter {
-	s := &shifter{n: n, g: gammaN(2*n + 2), work: make([]float64, n+1)}
+	buf := make([]float64, 3*(n+1))
+	s := &shifter{n: n, g: gammaN(2*n + 2), work: buf[:n+1], tmp: buf[n+1:]}
 	if n <= sharedBinomialDegree {
 		s.binom, s.stride = sharedBinomials(), sharedBinomialDegree+1
 	} else {
 		s.binom, s.stride = binomials(n), n+1
 	}
 	return s
+}
+
+// resize makes s work on polynomials of degree m ≤ its original degree
+// (the binomial table and the buffers serve every smaller degree); the
+// buffers of the free list, sized for the old degree, are dropped.
+func (s *shifter) resize(m int) {
+	if m != s.n {
+		s.n, s.g, s.free = m, gammaN(2*m+2), s.free[:0]
+	}
+}
+
+// node returns coefficient and bound buffers of length n+1 for an
+// isolation node, from the free list when it has one.
+func (s *shifter) node() (c, e []float64) {
+	m := s.n + 1
+	var buf []float64
+	if k := len(s.free); k > 0 {
+		buf, s.free = s.free[k-1], s.free[:k-1]
+	} else {
+		buf = make([]float64, 2*m)
+	}
+	return buf[:m], buf[m : 2*m : 2*m]
+}
+
+// release returns the buffers of a node obtained from node (c and e
+// adjacent in one buffer) to the free list; others are left alone.
+func (s *shifter) release(c, e []float64) {
+	m := s.n + 1
+	if len(c) == m && cap(c) == 2*m && len(e) == m && &c[:2*m][m] == &e[0] {
+		s.free = append(s.free, c[:2*m])
+	}
 }
 
 // shift1 writes q(y + 1) of c into dst and its error bound given the bound
@@ -383,9 +423,7 @@ func (s *shifter) shift1(dst, edst, c, e []float64) {
 // shiftBy writes q(y + 2^p) of c into dst, edst (bounds as in shift1): the
 // variable is scaled by 2^p exactly, shifted by 1 and scaled back exactly.
 func (s *shifter) shiftBy(dst, edst, c, e []float64, p int) {
-	tc := make([]float64, 2*(s.n+1))
-	te := tc[s.n+1:]
-	tc = tc[:s.n+1]
+	tc, te := s.tmp[:s.n+1], s.tmp[s.n+1:2*(s.n+1)]
 	if p*s.n > 900 || p*s.n < -900 {
 		// Powers beyond the range of float64: scale with Ldexp.
 		for i := range c {
@@ -609,7 +647,7 @@ const maxIsolationDepth = 400
 // ascending, given q = (c·y + d)ⁿ·p(M(y)) (ascending), each refined to
 // the relative width tol. ok is false when the
 // search cannot decide (see the comment at the top of this file).
-func isolatePositive(p0 Poly, q, e []float64, m mobius, tol float64, limit int) (roots []float64, ok bool) {
+func isolatePositive(p0 Poly, q, e []float64, m mobius, tol float64, limit int, sh *shifter) (roots []float64, ok bool) {
 	n := len(q) - 1
 	for n > 0 && q[n] == 0 {
 		n-- // the image has lower degree (a root at the far end of the interval)
@@ -638,82 +676,92 @@ func isolatePositive(p0 Poly, q, e []float64, m mobius, tol float64, limit int) 
 		f := math.Ldexp(1, sc)
 		m = mobius{m.a * f, m.b, m.c * f, m.d}
 	}
-	sh := newShifter(deg)
+	sh.resize(deg)
 	stack := []isolationNode{{c: q, e: e, m: m}}
 	for len(stack) > 0 && (limit == 0 || len(roots) < limit) {
 		nd := stack[len(stack)-1]
 		stack = stack[:len(stack)-1]
-		if !finite(nd.c) {
-			return nil, false // the transformed polynomial overflowed
-		}
-		vmin, vmax, known := signVariations(nd.c, nd.e)
-		if vmax == 0 {
-			continue
-		}
-		if known && vmin == 1 && vmax == 1 {
-			x, good := rootIn(p0, nd, tol)
-			if !good {
-				return nil, false
-			}
-			roots = append(roots, x)
-			continue
-		}
-		if nd.depth >= maxIsolationDepth || !known {
+		if !visitNode(&nd, sh, p0, tol, &roots, &stack) {
 			return nil, false
-		}
-		// Shift the root-free part away (by the lower bound rounded down
-		// to a power of two, so that the scalings are exact).
-		if lb := positiveLowerBound(nd.c); lb >= 1 {
-			if math.IsInf(lb, 1) {
-				continue
-			}
-			_, p := math.Frexp(lb)
-			p--
-			nc, ne := make([]float64, len(nd.c)), make([]float64, len(nd.c))
-			sh.shiftBy(nc, ne, nd.c, nd.e, p)
-			f := math.Ldexp(1, p)
-			nd.c, nd.e = nc, ne
-			nd.m = mobius{nd.m.a, nd.m.a*f + nd.m.b, nd.m.c, nd.m.c*f + nd.m.d}
-			vmin, vmax, known = signVariations(nd.c, nd.e)
-			if vmax == 0 {
-				continue
-			}
-			if !known {
-				return nil, false
-			}
-			if vmin == 1 && vmax == 1 {
-				x, good := rootIn(p0, nd, tol)
-				if !good {
-					return nil, false
-				}
-				roots = append(roots, x)
-				continue
-			}
-		}
-		// Split at y = 1.
-		m1 := len(nd.c)
-		buf := make([]float64, 4*m1)
-		right := isolationNode{c: buf[:m1], e: buf[m1 : 2*m1], depth: nd.depth + 1}
-		sh.shift1(right.c, right.e, nd.c, nd.e)
-		right.m = mobius{nd.m.a, nd.m.a + nd.m.b, nd.m.c, nd.m.c + nd.m.d}
-		if math.Abs(right.c[0]) <= right.e[0] {
-			return nil, false // a root at (or within rounding of) the cut
-		}
-		left := isolationNode{c: buf[2*m1 : 3*m1], e: buf[3*m1:], depth: nd.depth + 1}
-		slices.Reverse(nd.c)
-		slices.Reverse(nd.e)
-		sh.shift1(left.c, left.e, nd.c, nd.e)
-		left.m = mobius{nd.m.b, nd.m.a + nd.m.b, nd.m.d, nd.m.c + nd.m.d}
-		// Visit the children in ascending x (the last pushed is next):
-		// the left one first when M is increasing (a·d − b·c > 0).
-		if nd.m.a*nd.m.d-nd.m.b*nd.m.c > 0 {
-			stack = append(stack, right, left)
-		} else {
-			stack = append(stack, left, right)
 		}
 	}
 	slices.Sort(roots)
 	return roots, true
+}
+
+// visitNode decides one node of the search: it appends an isolated root to
+// roots, or pushes the node's two children on the stack, or drops a
+// root-free node. The node's buffers go back to sh's free list. It
+// returns false when the search cannot decide.
+func visitNode(nd *isolationNode, sh *shifter, p0 Poly, tol float64, roots *[]float64, stack *[]isolationNode) bool {
+	defer sh.release(nd.c, nd.e)
+	if !finite(nd.c) {
+		return false // the transformed polynomial overflowed
+	}
+	found := func() bool {
+		x, good := rootIn(p0, *nd, tol)
+		if good {
+			*roots = append(*roots, x)
+		}
+		return good
+	}
+	vmin, vmax, known := signVariations(nd.c, nd.e)
+	if vmax == 0 {
+		return true
+	}
+	if known && vmin == 1 && vmax == 1 {
+		return found()
+	}
+	if nd.depth >= maxIsolationDepth || !known {
+		return false
+	}
+	// Shift the root-free part away (by the lower bound rounded down
+	// to a power of two, so that the scalings are exact).
+	if lb := positiveLowerBound(nd.c); lb >= 1 {
+		if math.IsInf(lb, 1) {
+			return true
+		}
+		_, p := math.Frexp(lb)
+		p--
+		nc, ne := sh.node()
+		defer sh.release(nc, ne)
+		sh.shiftBy(nc, ne, nd.c, nd.e, p)
+		f := math.Ldexp(1, p)
+		nd.c, nd.e = nc, ne
+		nd.m = mobius{nd.m.a, nd.m.a*f + nd.m.b, nd.m.c, nd.m.c*f + nd.m.d}
+		vmin, vmax, known = signVariations(nd.c, nd.e)
+		if vmax == 0 {
+			return true
+		}
+		if !known {
+			return false
+		}
+		if vmin == 1 && vmax == 1 {
+			return found()
+		}
+	}
+	// Split at y = 1.
+	right := isolationNode{depth: nd.depth + 1}
+	right.c, right.e = sh.node()
+	sh.shift1(right.c, right.e, nd.c, nd.e)
+	right.m = mobius{nd.m.a, nd.m.a + nd.m.b, nd.m.c, nd.m.c + nd.m.d}
+	if math.Abs(right.c[0]) <= right.e[0] {
+		return false // a root at (or within rounding of) the cut
+	}
+	left := isolationNode{depth: nd.depth + 1}
+	left.c, left.e = sh.node()
+	slices.Reverse(nd.c)
+	slices.Reverse(nd.e)
+	sh.shift1(left.c, left.e, nd.c, nd.e)
+	left.m = mobius{nd.m.b, nd.m.a + nd.m.b, nd.m.d, nd.m.c + nd.m.d}
+	// Visit the children in ascending x (the last pushed is next):
+	// the left one first when M is increasing (a·d − b·c > 0).
+	if nd.m.a*nd.m.d-nd.m.b*nd.m.c > 0 {
+		*stack = append(*stack, right, left)
+	} else {
+		*stack = append(*stack, left, right)
+	}
+	return true
 }
 
 // rootIn returns the single root of p in the interval of an isolating node,
