@@ -120,3 +120,29 @@ func TestDampingSetDeadTime(t *testing.T) {
 		}
 	}
 }
+
+// TestPartsRequirementNotDesigned: a requirement measured on the loop's
+// parts is not designed (no set, named in Binding) and does not empty the
+// all-met set of the others.
+func TestPartsRequirementNotDesigned(t *testing.T) {
+	v, err := Gain(tf.MustNew([]float64{1}, []float64{1, 3, 2, 0})) // k/(s(s+1)(s+2)), stable for k < 6
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := Solve(v, spec.Requirements{spec.MaxDisturbancePeak(2), spec.MinGainMarginDB(6)}, &Settings{Range: Range{Min: 0.1, Max: 10}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rs := res.Requirements[0]; rs.Intervals != nil || rs.Method != notDesigned || !strings.Contains(res.Binding, "not designed: max_disturbance_peak") {
+		t.Errorf("parts requirement: %+v, binding %q", rs, res.Binding)
+	}
+	// Gain margin ≥ 6 dB: k ≤ 6/10^(6/20) = 3.0072 (closed form: the
+	// critical gain is 6 at ω = √2).
+	want := 6 / math.Pow(10, 6.0/20)
+	if len(res.AllMet) != 1 || math.Abs(res.AllMet[0].Hi-want) > 1e-9*want || res.Requirements[1].Key != "min_gain_margin_db" {
+		t.Errorf("all met %v, want (0.1, %.12g]", res.AllMet, want)
+	}
+	if _, err := Solve(v, spec.Requirements{spec.MaxControlPeak(5)}, nil); err != nil {
+		t.Errorf("only a parts requirement: %v", err)
+	}
+}

@@ -58,7 +58,9 @@ type RequirementSet struct {
 	Intervals []Interval
 	// Method says how the ends were found: "exact" (solutions of the
 	// boundary equations, see the package documentation) or "bracketing"
-	// (Brent's method on the measured quantity between sampled values).
+	// (Brent's method on the measured quantity between sampled values);
+	// "not designed: …" for a requirement measured on the loop's parts
+	// (spec's Requirement.NeedsLoopParts), whose Intervals are nil.
 	Method string
 }
 
@@ -681,8 +683,48 @@ func samplesIn(lo, hi float64, n int) []float64 {
 // loop is stable), and a suggested value. See the package documentation for
 // the methods. Requirements of kinds this package has no boundary
 // construction for (new kinds of package spec) are bracketed on the value
-// spec.CheckWith measures.
+// spec.CheckWith measures. Requirements measured on the loop's parts
+// (spec's Requirement.NeedsLoopParts) are not designed: the variable's loop
+// is one transfer function; their set has Method notDesigned and nil
+// Intervals, and Binding names them.
 func Solve(v Variable, req spec.Requirements, set *Settings) (Result, error) {
+	// Requirements measured on the loop's parts (load disturbance, control
+	// signal, noise) cannot be judged on L_x alone: they are listed with
+	// no set and left out of AllMet and the suggestion, and Binding says so.
+	var judged spec.Requirements
+	var skipped []string
+	for _, r := range req {
+		if r.NeedsLoopParts() {
+			skipped = append(skipped, r.Key())
+			continue
+		}
+		judged = append(judged, r)
+	}
+	res, err := solve(v, judged, set)
+	if err != nil || len(skipped) == 0 {
+		return res, err
+	}
+	all := make([]RequirementSet, 0, len(req))
+	j := 0
+	for _, r := range req {
+		if r.NeedsLoopParts() {
+			all = append(all, RequirementSet{Requirement: r, Key: r.Key(), Name: r.Name(), Method: notDesigned})
+			continue
+		}
+		all = append(all, res.Requirements[j])
+		j++
+	}
+	res.Requirements = all
+	res.Binding += fmt.Sprintf(" (not designed: %s, measured on the plant and the controller apart, which the variable's loop transfer function does not separate)", strings.Join(skipped, ", "))
+	return res, nil
+}
+
+// notDesigned is the Method of a requirement left out of the design (see
+// Solve): its Intervals are nil.
+const notDesigned = "not designed: measured on the loop's parts"
+
+// solve is Solve for requirements judged on L_x.
+func solve(v Variable, req spec.Requirements, set *Settings) (Result, error) {
 	p, err := newProblem(v, set)
 	if err != nil {
 		return Result{}, err

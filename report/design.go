@@ -238,6 +238,10 @@ func (a *analysis) designVariable(req spec.Requirements) {
 	a.design.result = &res
 	for _, rs := range res.Requirements {
 		dr := DesignRequirement{Name: rs.Key, Intervals: []Interval{}, Ends: []string{}, Method: rs.Method}
+		if rs.Intervals == nil && strings.HasPrefix(rs.Method, "not designed") {
+			// Measured on the loop's parts: no set (null), not "nowhere".
+			dr.Intervals, dr.Ends = nil, nil
+		}
 		for _, iv := range rs.Intervals {
 			dr.Intervals = append(dr.Intervals, Interval{Number(iv.Lo), Number(iv.Hi)})
 			dr.Ends = append(dr.Ends, endWords(iv))

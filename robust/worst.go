@@ -419,7 +419,9 @@ var boundQuantity = map[string]Quantity{
 // settling time) get no guarantee: they are not rational functions of the
 // parameters and no enclosure of the time response is computed here, so
 // they are either violated at a point or undecided with the searched points
-// met.
+// met. Requirements measured on the loop's parts (spec's
+// Requirement.NeedsLoopParts: load disturbance, control signal, noise) are
+// undecided with that reason: the uncertain loop is one transfer function.
 func CheckRequirements(l *Loop, req spec.Requirements, specSet *spec.Settings, set *WorstSettings) ([]RequirementResult, error) {
 	s, err := set.withDefaults()
 	if err != nil {
@@ -430,8 +432,20 @@ func CheckRequirements(l *Loop, req spec.Requirements, specSet *spec.Settings, s
 		return nil, err
 	}
 	out := make([]RequirementResult, len(req))
+	// The load-disturbance, control-signal and noise requirements are
+	// measured on the loop's parts, which an uncertain loop given by its
+	// expressions does not separate (and a Settings.Loop would hold the
+	// parts of one loop, not of each point): they stay undecided.
+	var judged spec.Requirements
+	var index []int
 	for k, r := range req {
 		out[k] = RequirementResult{Requirement: r, Verdict: RequirementUndecided, Value: math.NaN()}
+		if r.NeedsLoopParts() {
+			out[k].Message = "undecided: not judged over the box: this requirement is measured on the plant and the controller apart, and the uncertain loop is one transfer function of the parameters"
+			continue
+		}
+		judged = append(judged, r)
+		index = append(index, k)
 	}
 	pts := l.probePoints(s.Points, s.Stability.Seed+1)
 	if _, at, err := l.searchWorst(s); err == nil {
@@ -440,7 +454,7 @@ func CheckRequirements(l *Loop, req spec.Requirements, specSet *spec.Settings, s
 	if st.Counterexample != nil {
 		pts = append([][]float64{l.scaledOf(st.Counterexample.Values)}, pts...)
 	}
-	pending := len(req)
+	pending := len(judged)
 	for _, t := range pts {
 		if pending == 0 || t == nil {
 			break
@@ -449,8 +463,9 @@ func CheckRequirements(l *Loop, req spec.Requirements, specSet *spec.Settings, s
 		if err != nil {
 			return nil, err
 		}
-		rep := spec.CheckWith(g, req, specSet)
-		for k, res := range rep.Results {
+		rep := spec.CheckWith(g, judged, specSet)
+		for j, res := range rep.Results {
+			k := index[j]
 			if !res.Pass && out[k].Verdict != ViolatedAtPoint {
 				out[k].Verdict, out[k].At, out[k].Value = ViolatedAtPoint, l.valuesOf(t), res.Value
 				out[k].Message = "violated at a point: " + res.Message
@@ -459,7 +474,7 @@ func CheckRequirements(l *Loop, req spec.Requirements, specSet *spec.Settings, s
 		}
 	}
 	for k, r := range req {
-		if out[k].Verdict == ViolatedAtPoint {
+		if out[k].Verdict == ViolatedAtPoint || r.NeedsLoopParts() {
 			continue
 		}
 		q, ok := boundQuantity[r.Key()]

@@ -2,6 +2,7 @@ package robust
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/loopwise/loopwise/spec"
@@ -55,4 +56,23 @@ func TestWorstDampingDeadTime(t *testing.T) {
 		return
 	}
 	t.Fatal("no damping worst case")
+}
+
+// TestPartsRequirementUndecided: a requirement measured on the loop's parts
+// (here the load-disturbance peak) cannot be judged on an uncertain loop
+// given as one transfer function: undecided with that reason, never
+// "violated at a point" for want of the parts.
+func TestPartsRequirementUndecided(t *testing.T) {
+	l := mustLoop(t, Description{Expressions: []string{"k*(s+1)/(s*(s+2))"},
+		Params: []Param{{Name: "k", Min: 1, Max: 2}}})
+	res, err := CheckRequirements(l, spec.Requirements{spec.MaxDisturbancePeak(2), spec.MinPhaseMarginDeg(30)}, nil, &WorstSettings{Points: 4})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res[0].Verdict != RequirementUndecided || !strings.Contains(res[0].Message, "plant and the controller apart") {
+		t.Errorf("disturbance peak: %v, %q; want undecided naming the parts", res[0].Verdict, res[0].Message)
+	}
+	if res[1].Verdict != MetForBox {
+		t.Errorf("phase margin: %v, %q; want met for the whole box", res[1].Verdict, res[1].Message)
+	}
 }
