@@ -183,7 +183,9 @@ func (r Requirement) Unit() string {
 // parts (plant and controller apart, Settings.Loop): the load-disturbance,
 // control-signal and noise requirements. Judged on a loop transfer
 // function alone, such a requirement cannot be measured.
-func (r Requirement) NeedsLoopParts() bool { return r.q >= disturbancePeak && r.q <= noiseToControlGain }
+func (r Requirement) NeedsLoopParts() bool {
+	return r.q >= disturbancePeak && r.q <= noiseToControlGain
+}
 
 // Name returns the requirement in words: "minimum phase margin".
 func (r Requirement) Name() string {
