@@ -52,10 +52,16 @@
 //     loop is stable, as open intervals whose ends are crossing values, the
 //     value where the degree of a + k·b drops, and the range ends.
 //
-// Dead time e^(−sT) is replaced by a diagonal Padé approximation of order
-// Settings.PadeOrder (6 if zero) and a note in Analysis.Notes records it;
-// in discrete time a dead time of whole sample periods is written exactly
-// as a power of z (a fractional one is ErrUnsupported).
+// Dead time e^(−sT) is replaced in Analyze and Trace by a diagonal Padé
+// approximation of order Settings.PadeOrder (6 if zero) and a note in
+// Analysis.Notes records it; in discrete time a dead time of whole sample
+// periods is written exactly as a power of z (a fractional one is
+// ErrUnsupported). The exact analyses keep e^(−sT): DelayedRoots (closed-
+// loop roots counted by the argument principle), DelayedStableGains and
+// DelayedStableDelays (stable gains and dead times), DelayedAnalyze and
+// DelayedTrace (the locus in the gain), and DelayedParametric (a parameter
+// entering affinely where the dead time does not factor out:
+// D-decomposition along the imaginary axis).
 //
 // # Methods and accuracy
 //
