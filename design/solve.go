@@ -269,13 +269,18 @@ func (p *problem) stability() error {
 		}
 		p.stabC = append(p.stabC, candidate{c.Value, "stability boundary: " + where})
 	}
-	for _, s := range an.StableIntervals {
+	p.addStable(an.StableIntervals)
+	return nil
+}
+
+// addStable appends the stable intervals with what binds at their ends.
+func (p *problem) addStable(ivs []locus.Interval) {
+	for _, s := range ivs {
 		iv := Interval{Lo: s.Lo, Hi: s.Hi}
 		iv.LoBinding = p.endLabel(s.Lo, nil)
 		iv.HiBinding = p.endLabel(s.Hi, nil)
 		p.stable = append(p.stable, iv)
 	}
-	return nil
 }
 
 // delayStability computes the stable intervals of a continuous loop with
@@ -301,12 +306,7 @@ func (p *problem) delayStability() bool {
 				}
 				p.stabC = append(p.stabC, candidate{c.Value, "stability boundary: " + where})
 			}
-			for _, s := range st.StableIntervals {
-				iv := Interval{Lo: s.Lo, Hi: s.Hi}
-				iv.LoBinding = p.endLabel(s.Lo, nil)
-				iv.HiBinding = p.endLabel(s.Hi, nil)
-				p.stable = append(p.stable, iv)
-			}
+			p.addStable(st.StableIntervals)
 			p.stableNote = fmt.Sprintf("dead time of %s s exact (D-decomposition of the quasi-polynomial)", fmtNum(p.v.delay))
 			return true
 		}

@@ -79,24 +79,11 @@ func FromDelayedParameter(name string, loopAt func(p float64) (tf.TF, error)) (D
 	if name == "" {
 		name = "p"
 	}
-	var lastErr error
-	for _, probes := range parameterProbes {
-		var loops [4]tf.TF
-		ok := true
-		for i, v := range probes {
-			l, err := loopAt(v)
-			if err != nil {
-				lastErr = fmt.Errorf("locus: loop at %s = %v: %w", name, v, err)
-				ok = false
-				break
-			}
-			loops[i] = l
-		}
-		if ok {
-			return fitDelayedAffine(name, probes, loops)
-		}
+	probes, loops, err := probeLoops(name, loopAt)
+	if err != nil {
+		return DelayedParametric{}, err
 	}
-	return DelayedParametric{}, lastErr
+	return fitDelayedAffine(name, probes, loops)
 }
 
 func fitDelayedAffine(name string, probes [4]float64, loops [4]tf.TF) (DelayedParametric, error) {

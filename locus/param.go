@@ -50,25 +50,33 @@ func FromParameter(name string, loopAt func(p float64) (tf.TF, error)) (Parametr
 	if name == "" {
 		name = "p"
 	}
-	var lastErr error
-	for _, probes := range parameterProbes {
-		var loops [4]tf.TF
+	probes, loops, err := probeLoops(name, loopAt)
+	if err != nil {
+		return Parametric{}, err
+	}
+	return fitAffine(name, probes, loops)
+}
+
+// probeLoops evaluates loopAt at the first set of parameterProbes where it
+// is defined at every value; otherwise it returns the last error, naming
+// the parameter and the value.
+func probeLoops(name string, loopAt func(p float64) (tf.TF, error)) (probes [4]float64, loops [4]tf.TF, err error) {
+	for _, probes = range parameterProbes {
 		ok := true
 		for i, v := range probes {
-			l, err := loopAt(v)
-			if err != nil {
-				lastErr = fmt.Errorf("locus: loop at %s = %v: %w", name, v, err)
+			l, e := loopAt(v)
+			if e != nil {
+				err = fmt.Errorf("locus: loop at %s = %v: %w", name, v, e)
 				ok = false
 				break
 			}
 			loops[i] = l
 		}
-		if !ok {
-			continue
+		if ok {
+			return probes, loops, nil
 		}
-		return fitAffine(name, probes, loops)
 	}
-	return Parametric{}, lastErr
+	return probes, loops, err
 }
 
 func fitAffine(name string, probes [4]float64, loops [4]tf.TF) (Parametric, error) {
