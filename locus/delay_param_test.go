@@ -2,11 +2,11 @@ package locus
 
 import (
 	"encoding/json"
+	"github.com/loopwise/loopwise/internal/testutil"
 	"math"
 	"math/cmplx"
 	"math/rand/v2"
 	"os"
-	"strconv"
 	"testing"
 
 	"github.com/loopwise/loopwise/poly"
@@ -35,14 +35,8 @@ func mustPoly(t *testing.T, c []float64) poly.Poly {
 	return p
 }
 
-func refNum(t *testing.T, s string) float64 {
-	t.Helper()
-	v, err := strconv.ParseFloat(s, 64)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return v
-}
+// refNum parses a reference value.
+func refNum(t *testing.T, s string) float64 { return testutil.ParseFloat(t, s) }
 
 func (c delayParamRef) build(t *testing.T) DelayedParametric {
 	t.Helper()

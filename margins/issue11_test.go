@@ -3,11 +3,11 @@ package margins
 import (
 	"encoding/json"
 	"errors"
+	"github.com/loopwise/loopwise/internal/testutil"
 	"math"
 	"math/cmplx"
 	"math/rand/v2"
 	"os"
-	"strconv"
 	"testing"
 
 	"github.com/loopwise/loopwise/tf"
@@ -67,14 +67,7 @@ func loadIssue11(t *testing.T) issue11Refs {
 }
 
 // f parses a reference value.
-func f(t *testing.T, s string) float64 {
-	t.Helper()
-	v, err := strconv.ParseFloat(s, 64)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return v
-}
+func f(t *testing.T, s string) float64 { return testutil.ParseFloat(t, s) }
 
 func checkRel(t *testing.T, what string, got, want, tol float64) {
 	t.Helper()

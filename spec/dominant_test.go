@@ -3,6 +3,7 @@ package spec_test
 import (
 	"encoding/json"
 	"errors"
+	"github.com/loopwise/loopwise/internal/testutil"
 	"math"
 	"math/cmplx"
 	"os"
@@ -46,14 +47,8 @@ func loadDominant(t *testing.T) []dominantCase {
 	return cs
 }
 
-func float(t *testing.T, s string) float64 {
-	t.Helper()
-	v, err := strconv.ParseFloat(s, 64)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return v
-}
+// float parses a reference value.
+func float(t *testing.T, s string) float64 { return testutil.ParseFloat(t, s) }
 
 // delayedIntegrator returns a·e^(−sτ)/s.
 func delayedIntegrator(t *testing.T, a, tau float64) tf.TF {
