@@ -333,7 +333,11 @@ func designTables(r *Report) []table {
 	if d := r.Design; d != nil {
 		t := table{title: "Design over the " + d.Variable}
 		for i, rq := range d.Requirements {
-			t.rows = append(t.rows, row{requirementWords(i, rq.Name, r), intervalsText(rq.Intervals)})
+			text := intervalsText(rq.Intervals)
+			if rq.Intervals == nil && strings.HasPrefix(rq.Method, "not designed") {
+				text = "not designed (measured on the plant and the controller apart)"
+			}
+			t.rows = append(t.rows, row{requirementWords(i, rq.Name, r), text})
 		}
 		t.rows = append(t.rows, row{"all requirements met for", intervalsText(d.AllMet)}, row{"suggested value", g(d.Suggested)}, row{"what binds", d.Binding})
 		out = append(out, t)

@@ -2,8 +2,11 @@ package report
 
 import (
 	"fmt"
+	"math"
+	"math/cmplx"
 	"strings"
 
+	"github.com/loopwise/loopwise/chart"
 	"github.com/loopwise/loopwise/locus"
 	"github.com/loopwise/loopwise/tf"
 )
@@ -67,6 +70,40 @@ func (a *analysis) rootLocus() {
 	for _, n := range an.Notes {
 		a.warn("root locus: %s", n)
 	}
+	l.markApproximation(padeArtefacts(loop))
+}
+
+// markApproximation marks the departure and arrival angles at the poles
+// and zeros of the Padé approximation of the dead time (not the plant's)
+// and says so in a note.
+func (l *LocusResult) markApproximation(ap *chart.Approximation) {
+	if ap == nil {
+		return
+	}
+	near := func(z complex128, set []complex128) bool {
+		for _, w := range set {
+			if cmplx.Abs(z-w) <= 1e-6*math.Max(1, cmplx.Abs(w)) {
+				return true
+			}
+		}
+		return false
+	}
+	marked := 0
+	for i, d := range l.DepartureAngles {
+		if d.Pole != nil && near(complex(float64(d.Pole.Re), float64(d.Pole.Im)), ap.Poles) {
+			l.DepartureAngles[i].Approximation = true
+			marked++
+		}
+	}
+	for i, d := range l.ArrivalAngles {
+		if d.Zero != nil && near(complex(float64(d.Zero.Re), float64(d.Zero.Im)), ap.Zeros) {
+			l.ArrivalAngles[i].Approximation = true
+			marked++
+		}
+	}
+	if marked > 0 {
+		l.Notes = append(l.Notes, fmt.Sprintf("the %d poles and %d zeros of the %s are not the plant's: the departure and arrival angles marked \"approximation\" describe the approximation", len(ap.Poles), len(ap.Zeros), ap.Name))
+	}
 }
 
 // fill sets the construction quantities of the locus section from an.
@@ -126,10 +163,10 @@ func locusTables(r *Report) []table {
 	}
 	ls.rows = append(ls.rows, row{"real-axis segments", intervalListClosed(lo.RealAxisSegments)})
 	for _, a := range lo.DepartureAngles {
-		ls.rows = append(ls.rows, row{"departure angle from the pole " + cplx(*a.Pole, false), gUnit(a.AngleDeg, "°")})
+		ls.rows = append(ls.rows, row{"departure angle from the " + approxWord(a.Approximation) + "pole " + cplx(*a.Pole, false), gUnit(a.AngleDeg, "°")})
 	}
 	for _, a := range lo.ArrivalAngles {
-		ls.rows = append(ls.rows, row{"arrival angle at the zero " + cplx(*a.Zero, false), gUnit(a.AngleDeg, "°")})
+		ls.rows = append(ls.rows, row{"arrival angle at the " + approxWord(a.Approximation) + "zero " + cplx(*a.Zero, false), gUnit(a.AngleDeg, "°")})
 	}
 	for _, b := range lo.BreakPoints {
 		ls.rows = append(ls.rows, row{"break point s = " + cplx(b.S, false), fmt.Sprintf("%s = %s, %d branches meet", lo.Variable, g(b.Value), b.Branches)})
@@ -167,6 +204,9 @@ type AngleAt struct {
 	Zero *Complex `json:"zero,omitempty"`
 	// AngleDeg is the angle in degrees.
 	AngleDeg Number `json:"angle_deg"`
+	// Approximation is true when the pole or zero is not the plant's but
+	// the Padé approximation's of the dead time (dead_time_model "pade").
+	Approximation bool `json:"approximation,omitempty"`
 }
 
 // BreakPoint is a point where branches of the locus meet and part.
@@ -215,4 +255,12 @@ type LocusResult struct {
 	StableIntervals []Interval `json:"stable_intervals"`
 	// Notes say what the locus analysis approximated or left out.
 	Notes []string `json:"notes,omitempty"`
+}
+
+// approxWord labels a pole or zero of the Padé approximation.
+func approxWord(approx bool) string {
+	if approx {
+		return "Padé "
+	}
+	return ""
 }

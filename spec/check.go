@@ -347,7 +347,7 @@ func (e *evaluator) exactDelay() bool {
 func (e *evaluator) padeReason(step bool) string {
 	switch {
 	case e.padeDeadTime:
-		return ", as requested (Settings.PadeDeadTime)"
+		return ", as requested"
 	case e.loop.DelaySec() > 0 && !e.loop.IsStrictlyProper():
 		return ", because the loop is biproper and with dead time its closed loop is of neutral type, which the exact analyses do not cover"
 	case step && e.haveRefToOut:
