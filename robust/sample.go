@@ -352,9 +352,11 @@ func (a *accumulator) sample(l *Loop, req spec.Requirements, set *spec.Settings,
 		return
 	}
 	m, err := margins.Compute(g, nil)
+	var mp *margins.Result
 	if err != nil {
 		a.errs++
 	} else {
+		mp = &m
 		if m.ClosedLoopStable {
 			a.stable++
 		}
@@ -368,7 +370,13 @@ func (a *accumulator) sample(l *Loop, req spec.Requirements, set *spec.Settings,
 		}
 	}
 	if len(req) > 0 {
-		rep := spec.CheckWith(g, req, set)
+		// The margins just computed serve the requirements too.
+		s := spec.Settings{}
+		if set != nil {
+			s = *set
+		}
+		s.Margins = mp
+		rep := spec.CheckWith(g, req, &s)
 		for k, r := range rep.Results {
 			if r.Pass {
 				a.passed[k]++

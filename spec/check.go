@@ -49,6 +49,12 @@ type Settings struct {
 	// by package closedloop. If its Plant is the zero value, those
 	// requirements fail with a message saying so.
 	Loop closedloop.Loop
+	// Margins, if not nil, is margins.Compute(loop, nil) of the very loop
+	// being checked, already computed by the caller (a sampling loop that
+	// also records the margins); the margin requirements and the stability
+	// verdicts use it instead of computing it again. It must belong to
+	// the loop: spec cannot tell.
+	Margins *margins.Result
 }
 
 const defaultPadeOrder = 6 // the default of package locus as well
@@ -183,6 +189,9 @@ func CheckWith(loop tf.TF, req Requirements, set *Settings) Report {
 	}
 	if set != nil {
 		e.parts = set.Loop
+		if set.Margins != nil {
+			e.margins, e.marginsDone = *set.Margins, true
+		}
 	}
 	if set != nil && !set.ReferenceToOutput.IsZero() {
 		e.refToOut = set.ReferenceToOutput
