@@ -52,12 +52,16 @@
 // step metrics of package response allocated 0.5–1.3 MB per loop and the
 // garbage collector serialised the workers (this package's workers share no
 // lock or slice on the sample path). StepMetrics now reuses its buffers
-// (19× to 40× less allocation per loop, results bit-identical). The
-// wall-clock 1→2-core ratio could not be re-measured (the machine was
-// saturated, load average 4.4–11); the CPU time for the same work at
-// GOMAXPROCS 2 is now 3–16 % above that at 1 (34–114 % before), which
-// bounds the speed-up on two free cores at 1.82–1.95 in 14 of 15 runs and
-// 1.73 in one (0.94–1.51 before).
+// (19× to 40× less allocation per loop, results bit-identical), margins
+// allocate 35–60 % less, and each sample computes the margins once (they
+// serve the requirements through spec.Settings.Margins). Measured wall-clock
+// on the 2-core machine, as the median of 10 interleaved 1-core/2-core pairs
+// per order in one process (testdata/speedup.sh, testdata/speedup.txt),
+// three runs on 2026-12-06: 1.77–1.85, 1.79–1.85 and 1.76–1.86 over
+// orders 2–10 (the goal of ≥ 1.8 is met at most orders and missed by a few
+// hundredths at some, within the spread between runs); with the garbage
+// collector off the same pairs give 1.94–1.96, so what remains is the
+// collector's share.
 // MonteCarlo streams its statistics: 10⁶ samples (stability and margins,
 // order 2) ran to completion in 33 MB resident memory
 // (testdata/million.txt). A stability proof of the pick-and-place example
