@@ -114,9 +114,10 @@
 // with a step that keeps each chord within its limit and each residual
 // below 1e-10 (TraceStats.RootSolves counts these root computations; the
 // locus carries a note). On the ill-conditioned order-18 family of
-// TestIllConditionedOrder18 this leaves 15 of 480 traces ending in an
-// error (33 before), 4 with a residual above 1e-9 and 14 with a chord
-// above the limit inside the view (55 before).
+// TestIllConditionedOrder18 this leaves 26 of 480 traces ending in an
+// error (33 before), 4 with a residual above 1e-9 and 24 with a chord
+// above the limit inside the view (55 before); at most 64 restarts per
+// piece bound its cost.
 //
 // # Performance
 //
