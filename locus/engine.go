@@ -164,6 +164,7 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 	mirror := make([]int, n)
 	steps := 0
 	reseeds := 0
+	reseedH := 1e-3 * math.Max(1, tEnd)
 	for {
 		anyActive := false
 		for i := range n {
@@ -242,17 +243,23 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 			t.stats.RejectedSteps++
 			h *= 0.5
 			if h < 1e-14*math.Max(1, tc) {
-				if reseeds < maxReseeds && t.reseed(km, tc, tEnd, s, active, paths, tan, tanOK, acc) {
-					// Continue from the roots computed afresh a little
-					// further on (see reseed).
-					reseeds++
-					tc, _ = t.lastReseed()
-					for len(ways) > 0 && ways[0].t <= tc {
-						ways = ways[1:]
+				if reseeds < maxReseeds {
+					if dt, ok := t.reseed(km, tc, tEnd, reseedH, reseeds >= fixedReseeds, reseeds == 0, s, active, paths, tan, tanOK, acc); ok {
+						// Continue from the roots computed afresh a little
+						// further on, paired with the current ones (see
+						// reseed), instead of shrinking the step forever.
+						reseeds++
+						tc += dt
+						for len(ways) > 0 && ways[0].t <= tc {
+							ways = ways[1:]
+						}
+						if reseeds > fixedReseeds {
+							reseedH = 2 * dt
+						}
+						h = dt
+						first = true
+						continue
 					}
-					h = 1e-3 * math.Max(1, tEnd)
-					first = true
-					continue
 				}
 				return paths, s, fmt.Errorf("%w: step size underflow at %s = %v", ErrTraceFailed, p.variable, kn)
 			}
@@ -785,32 +792,83 @@ func (t *tracer) tangentNoisy(x complex128, km kMap, tt float64) bool {
 	return cabs(df) <= 10*2*float64(p.order)*0x1p-53*m
 }
 
-// maxReseeds bounds the restarts from computed roots in one cont call.
-const maxReseeds = 8
+// maxReseeds bounds the restarts from computed roots in one cont call
+// (each adds a point per root, so the point limit bounds them too).
+const maxReseeds = 64
+
+// fixedReseeds is the number of reseeds of one cont call that take the
+// fixed step 1e-3·max(1, tEnd) and accept the pairing as it is (cheap: one
+// root computation each, enough for most clusters, as on the harness's
+// n = 40 and n = 60 loops); the later ones adapt the step to the chord
+// limit and the residual (see reseed).
+const fixedReseeds = 0
 
 // reseed handles a continuation that is stuck (the step size underflowed)
 // because some roots are ill-conditioned: inside a tight cluster of roots
 // of a high-order a + k·b, double precision fixes the roots only to a
 // fraction of their spacing, and Newton's method from a predicted point
-// lands anywhere in the cluster. It computes every root of a + k·b afresh
-// (poly's root finder) a little further on, at t = tc + 1e-3·max(1, tEnd),
-// pairs them with the current positions by the nearest-set matching, adds
-// the new points and records a note. It reports false when the roots
-// cannot be computed or some position is not finite.
-func (t *tracer) reseed(km kMap, tc, tEnd float64, s []complex128, active []bool, paths [][]Point, tan []complex128, tanOK []bool, acc []complex128) bool {
+// lands anywhere in the cluster. Branch identity is then decided on the
+// full root set rather than root by root: it computes every root of
+// a + k·b afresh (poly's root finder) at t = tc + dt, pairs them with the
+// current positions by the nearest-set matching (matchSets) after
+// polishing them (polish). A fixed reseed (adaptive false, the first
+// fixedReseeds of a cont call) takes dt = min(dt0, 1e-3·max(1, tEnd)) as
+// it is. An adaptive one accepts when every active root moved at
+// most its chord limit and its relative residual is at most 1e-10 (the
+// documented 1e-9 with a margin of 10); otherwise dt is
+// divided by 4 (from dt0, capped at 1e-3·max(1, tEnd)). Below a step of
+// 1e-15·max(1, tc) the movement is rounding noise of the cluster and the
+// pairing is accepted as it is if the residuals are met (reseed fails
+// otherwise). It adds the new points, records a note
+// when note is set, and returns the dt taken; it reports false when the
+// roots cannot be computed or some position is not finite.
+func (t *tracer) reseed(km kMap, tc, tEnd, dt0 float64, adaptive, note bool, s []complex128, active []bool, paths [][]Point, tan []complex128, tanOK []bool, acc []complex128) (float64, bool) {
 	for _, x := range s {
 		if cmplx.IsInf(x) || cmplx.IsNaN(x) {
-			return false
+			return 0, false
 		}
 	}
-	tn := math.Min(tc+1e-3*math.Max(1, tEnd), tEnd)
-	kn, _ := km(tn)
-	raw, err := fastRoots(t.p.charPoly(kn))
-	t.stats.RootSolves++
-	if err != nil || len(raw) != len(s) {
-		return false
+	dt := math.Min(math.Min(dt0, 1e-3*math.Max(1, tEnd)), tEnd-tc)
+	if !(dt > 0) {
+		return 0, false
 	}
-	perm, _ := matchSets(s, raw)
+	var raw []complex128
+	var perm []int
+	var kn float64
+	for {
+		kn, _ = km(tc + dt)
+		var err error
+		raw, err = fastRoots(t.p.charPoly(kn))
+		t.stats.RootSolves++
+		if err != nil || len(raw) != len(s) {
+			return 0, false
+		}
+		t.polish(raw, kn)
+		perm, _ = matchSets(s, raw)
+		within, exact := true, true
+		for i := range s {
+			if !active[i] {
+				continue
+			}
+			x := raw[perm[i]]
+			within = within && cabs(x-s[i]) <= t.chordLimit(s[i], x)
+			exact = exact && t.relResidual(x, kn) <= 1e-10
+		}
+		if !adaptive || (within && exact) {
+			break
+		}
+		if dt < 1e-15*math.Max(1, tc) {
+			if !exact {
+				// Not even the computed roots meet the residual of a
+				// traced point: report the underflow rather than add
+				// points that are not on the locus.
+				return 0, false
+			}
+			break
+		}
+		dt /= 4
+	}
+	tn := tc + dt
 	for i := range s {
 		s[i] = raw[perm[i]]
 		if active[i] {
@@ -820,13 +878,43 @@ func (t *tracer) reseed(km kMap, tc, tEnd float64, s []complex128, active []bool
 			acc[i] = 0
 		}
 	}
-	t.reseedAt = tn
-	t.notes = append(t.notes, fmt.Sprintf("the roots near %s = %.6g are too ill-conditioned to follow by continuation in double precision; the trace continues from the roots computed at that value", t.p.variable, kn))
-	return true
+	if note {
+		t.notes = append(t.notes, fmt.Sprintf("the roots near %s = %.6g are too ill-conditioned to follow by continuation in double precision; the trace continues from the roots computed at that value", t.p.variable, kn))
+	}
+	return dt, true
 }
 
-// lastReseed returns the parameter of the last reseed.
-func (t *tracer) lastReseed() (float64, bool) { return t.reseedAt, true }
+// polish refines the computed roots raw of a + k·b by Newton's method
+// (newtonCoeffs) so that their residual meets the one of a traced point;
+// a refined root replaces the computed one only when its relative
+// residual is smaller and it moved by less than a quarter of the distance
+// to the nearest other computed root (so no root is captured by a
+// neighbour; Kantorovich, as in checkStep).
+func (t *tracer) polish(raw []complex128, k float64) {
+	coef := t.charCoeffs(k)
+	for i, x := range raw {
+		c, _, _, good := t.newtonCoeffs(x, k, coef)
+		if !good || cmplx.IsNaN(c) || cmplx.IsInf(c) {
+			continue
+		}
+		sep := math.Inf(1)
+		for j, y := range raw {
+			if j != i {
+				sep = math.Min(sep, cabs(x-y))
+			}
+		}
+		if cabs(c-x) < 0.25*sep && t.relResidual(c, k) < t.relResidual(x, k) {
+			raw[i] = c
+		}
+	}
+}
+
+// relResidual returns |a(s) + k·b(s)| relative to the magnitude of its
+// terms at s.
+func (t *tracer) relResidual(s complex128, k float64) float64 {
+	f, _ := t.p.eval(s, k)
+	return cabs(f) / t.p.magnitude(s, k)
+}
 
 // findMirrors sets mirror[i] to the index j of an active root with
 // s[j] = conj(s[i]) exactly, Im s[j] > 0, for every active root i in the

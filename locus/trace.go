@@ -184,7 +184,6 @@ type tracer struct {
 	arena    []Point   // points of the per-branch continuation (see follow)
 	waysAll  []Crossing
 	traced   int
-	reseedAt float64 // parameter of the last reseed (see reseed)
 }
 
 func newTracer(p *problem, an Analysis, r resolved) *tracer {
