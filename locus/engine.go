@@ -244,7 +244,7 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 			h *= 0.5
 			if h < 1e-14*math.Max(1, tc) {
 				if reseeds < maxReseeds {
-					if dt, ok := t.reseed(km, tc, tEnd, reseedH, reseeds >= fixedReseeds, reseeds == 0, s, active, paths, tan, tanOK, acc); ok {
+					if dt, ok := t.reseed(km, tc, tEnd, reseedH, reseeds == 0, s, active, paths, tan, tanOK, acc); ok {
 						// Continue from the roots computed afresh a little
 						// further on, paired with the current ones (see
 						// reseed), instead of shrinking the step forever.
@@ -253,9 +253,7 @@ func (t *tracer) cont(km kMap, tEnd float64, start []complex128, clus, mult []in
 						for len(ways) > 0 && ways[0].t <= tc {
 							ways = ways[1:]
 						}
-						if reseeds > fixedReseeds {
-							reseedH = 2 * dt
-						}
+						reseedH = 2 * dt
 						h = dt
 						first = true
 						continue
@@ -796,13 +794,6 @@ func (t *tracer) tangentNoisy(x complex128, km kMap, tt float64) bool {
 // (each adds a point per root, so the point limit bounds them too).
 const maxReseeds = 64
 
-// fixedReseeds is the number of reseeds of one cont call that take the
-// fixed step 1e-3·max(1, tEnd) and accept the pairing as it is (cheap: one
-// root computation each, enough for most clusters, as on the harness's
-// n = 40 and n = 60 loops); the later ones adapt the step to the chord
-// limit and the residual (see reseed).
-const fixedReseeds = 0
-
 // reseed handles a continuation that is stuck (the step size underflowed)
 // because some roots are ill-conditioned: inside a tight cluster of roots
 // of a high-order a + k·b, double precision fixes the roots only to a
@@ -811,9 +802,7 @@ const fixedReseeds = 0
 // full root set rather than root by root: it computes every root of
 // a + k·b afresh (poly's root finder) at t = tc + dt, pairs them with the
 // current positions by the nearest-set matching (matchSets) after
-// polishing them (polish). A fixed reseed (adaptive false, the first
-// fixedReseeds of a cont call) takes dt = min(dt0, 1e-3·max(1, tEnd)) as
-// it is. An adaptive one accepts when every active root moved at
+// polishing them (polish). It accepts when every active root moved at
 // most its chord limit and its relative residual is at most 1e-10 (the
 // documented 1e-9 with a margin of 10); otherwise dt is
 // divided by 4 (from dt0, capped at 1e-3·max(1, tEnd)). Below a step of
@@ -822,7 +811,7 @@ const fixedReseeds = 0
 // otherwise). It adds the new points, records a note
 // when note is set, and returns the dt taken; it reports false when the
 // roots cannot be computed or some position is not finite.
-func (t *tracer) reseed(km kMap, tc, tEnd, dt0 float64, adaptive, note bool, s []complex128, active []bool, paths [][]Point, tan []complex128, tanOK []bool, acc []complex128) (float64, bool) {
+func (t *tracer) reseed(km kMap, tc, tEnd, dt0 float64, note bool, s []complex128, active []bool, paths [][]Point, tan []complex128, tanOK []bool, acc []complex128) (float64, bool) {
 	for _, x := range s {
 		if cmplx.IsInf(x) || cmplx.IsNaN(x) {
 			return 0, false
@@ -854,7 +843,7 @@ func (t *tracer) reseed(km kMap, tc, tEnd, dt0 float64, adaptive, note bool, s [
 			within = within && cabs(x-s[i]) <= t.chordLimit(s[i], x)
 			exact = exact && t.relResidual(x, kn) <= 1e-10
 		}
-		if !adaptive || (within && exact) {
+		if within && exact {
 			break
 		}
 		if dt < 1e-15*math.Max(1, tc) {
